@@ -1,0 +1,174 @@
+/**
+ * WebSocket protocol between the bridge and the dashboard, version 1.
+ *
+ * Shared by bridge/ and web/: both sides validate what they receive with these schemas.
+ * Every frame is a JSON text frame holding one object with a `type`. SI units and radians,
+ * as inside the program; the dashboard converts to degrees for display.
+ * The prose description with examples is docs/protocol.md; keep both in step.
+ */
+import { z } from 'zod';
+
+export const PROTOCOL_VERSION = 1;
+
+const finite = z.number().finite();
+
+export const trackWire = z.object({
+  timeS: finite,
+  id: z.number().int().nonnegative(),
+  status: z.enum(['tentative', 'confirmed', 'coasting']),
+  x: finite,
+  y: finite,
+  vx: finite,
+  vy: finite,
+  speed: finite,
+  headingRad: finite,
+  pxx: finite,
+  pxy: finite,
+  pyy: finite,
+  quality: finite,
+  moving: z.boolean(),
+  hits: z.number().int().nonnegative(),
+  misses: z.number().int().nonnegative(),
+});
+export type TrackWire = z.infer<typeof trackWire>;
+
+export const detectionWire = z.object({
+  timeS: finite,
+  azimuthRad: finite,
+  rangeM: finite,
+  amplitude: finite,
+  /** True when the fixed-echo map explains this detection. */
+  fixed: z.boolean().optional(),
+});
+export type DetectionWire = z.infer<typeof detectionWire>;
+
+export const deletionWire = z.object({
+  timeS: finite,
+  id: z.number().int().nonnegative(),
+  reason: z.enum(['misses', 'covariance', 'fixed-echo', 'merged']),
+});
+
+export const fixedEchoWire = z.object({
+  x: finite,
+  y: finite,
+  rangeM: finite,
+  azimuthRad: finite,
+  seen: finite,
+  amplitude: finite,
+});
+
+export const pathPointWire = z.object({ timeS: finite, x: finite, y: finite });
+export type PathPointWire = z.infer<typeof pathPointWire>;
+
+export const positionerWire = z.object({
+  timeS: finite,
+  cmdX: finite,
+  cmdY: finite,
+  measX: finite.optional(),
+  measY: finite.optional(),
+});
+
+export const sourceStatus = z.object({
+  /** What feeds the bridge. */
+  kind: z.enum(['serial', 'replay', 'none']),
+  /** live: data arriving; waiting: port absent, reopening with backoff; paused/ended: replay. */
+  state: z.enum(['live', 'waiting', 'disconnected', 'playing', 'paused', 'ended']),
+  /** Serial path or session name. */
+  name: z.string(),
+  /** Lines that failed to parse or checksum since the source opened. */
+  badLines: z.number().int().nonnegative(),
+  /** The most recent bad line: its number and why it was refused. */
+  lastBad: z.object({ line: z.number().int(), reason: z.string() }).nullable(),
+  detectionsPerSecond: finite,
+  /** Time from a line arriving to its update leaving, ms (median over the last second). */
+  latencyMs: finite.nullable(),
+  /** Recording in progress: the session file name, or null. Error text if recording failed. */
+  recording: z.string().nullable(),
+  recordingError: z.string().nullable(),
+});
+export type SourceStatus = z.infer<typeof sourceStatus>;
+
+export const replayState = z.object({
+  sessionId: z.string(),
+  durationS: finite,
+  positionS: finite,
+  speed: finite,
+  playing: z.boolean(),
+  loop: z.boolean(),
+});
+export type ReplayState = z.infer<typeof replayState>;
+
+export const comparisonFigures = z.object({
+  timeS: finite,
+  /** Samples compared so far. */
+  samples: z.number().int().nonnegative(),
+  rmseM: finite.nullable(),
+  /** Latest signed cross-track error (left of the path is positive), metres. */
+  crossTrackM: finite.nullable(),
+  /** Latest along-track error (ahead is positive), metres. */
+  alongTrackM: finite.nullable(),
+  maxErrorM: finite.nullable(),
+  /** Estimated lag of the track behind the commanded path, seconds. */
+  lagS: finite.nullable(),
+  /** Track id compared with the commanded path. */
+  trackId: z.number().int().nullable(),
+});
+export type ComparisonFigures = z.infer<typeof comparisonFigures>;
+
+export const sessionInfo = z.object({
+  id: z.string(),
+  name: z.string(),
+  startUtc: z.string(),
+  durationS: finite,
+  detections: z.number().int().nonnegative(),
+  tracks: z.number().int().nonnegative(),
+  hasCommanded: z.boolean(),
+});
+export type SessionInfo = z.infer<typeof sessionInfo>;
+
+/** Server → client. */
+export const serverMessage = z.discriminatedUnion('type', [
+  z.object({ type: z.literal('hello'), protocol: z.literal(PROTOCOL_VERSION), server: z.string() }),
+  z.object({
+    type: z.literal('snapshot'),
+    timeS: finite,
+    source: sourceStatus,
+    tracks: z.array(trackWire),
+    /** Recent history per track: flat [t0, x0, y0, t1, x1, y1, ...] for compactness. */
+    history: z.array(z.object({ id: z.number().int(), points: z.array(finite) })),
+    detections: z.array(detectionWire),
+    fixedEchoes: z.array(fixedEchoWire),
+    commanded: z.array(pathPointWire),
+    replay: replayState.nullable(),
+  }),
+  z.object({
+    type: z.literal('scan'),
+    timeS: finite,
+    detections: z.array(detectionWire),
+    updates: z.array(trackWire),
+    deletions: z.array(deletionWire),
+    antennaAzimuthRad: finite.nullable(),
+    positioner: z.array(positionerWire),
+  }),
+  z.object({ type: z.literal('fixed-echoes'), echoes: z.array(fixedEchoWire) }),
+  z.object({ type: z.literal('source'), source: sourceStatus }),
+  z.object({ type: z.literal('replay'), replay: replayState }),
+  z.object({ type: z.literal('commanded'), path: z.array(pathPointWire) }),
+  z.object({ type: z.literal('comparison'), figures: comparisonFigures }),
+  z.object({ type: z.literal('sessions'), sessions: z.array(sessionInfo) }),
+  z.object({ type: z.literal('error'), code: z.string(), message: z.string() }),
+]);
+export type ServerMessage = z.infer<typeof serverMessage>;
+
+/** Client → server. Kept small; the server caps frame size (maxPayload) as well. */
+export const clientMessage = z.discriminatedUnion('type', [
+  z.object({
+    type: z.literal('control'),
+    action: z.enum(['play', 'pause', 'step', 'seek', 'speed', 'loop']),
+    /** seek: seconds from start; speed: factor 0.1–50; loop: 1 or 0; step: seconds (default one scan). */
+    value: finite.optional(),
+  }),
+  z.object({ type: z.literal('open-session'), sessionId: z.string().max(200) }),
+  z.object({ type: z.literal('list-sessions') }),
+]);
+export type ClientMessage = z.infer<typeof clientMessage>;
