@@ -1,5 +1,6 @@
 import { defineConfig } from 'vitest/config';
 import { svelte } from '@sveltejs/vite-plugin-svelte';
+import { SummaryReporter } from './test/summary-reporter.ts';
 
 // The dashboard lives in web/; the bridge serves web/dist. Vitest's include globs resolve
 // from `root`, hence the '../test/**' patterns.
@@ -19,6 +20,7 @@ export default defineConfig({
     },
   },
   test: {
+    reporters: ['default', new SummaryReporter()],
     projects: [
       {
         extends: true,
