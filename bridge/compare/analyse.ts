@@ -1,0 +1,143 @@
+/**
+ * One comparison of a recorded run: picks the followed track, estimates the lag, computes the
+ * deviations of the tracker's own estimate (filtered) and of the smoothed one, with and without
+ * the lag, per leg and for the whole run, plus coverage and the multi-target set metrics.
+ */
+import { EchotrailError } from '../errors.ts';
+import { coverageOf, type Coverage } from './coverage.ts';
+import { deviations, type Deviation } from './deviation.ts';
+import { TrackFollower, type FollowOptions, type FollowSwitch } from './follow.ts';
+import { estimateLag, type LagEstimate, type LagOptions } from './lag.ts';
+import { findLegs, type Leg, type LegOptions } from './legs.ts';
+import { setMetricSeries, summariseSetSeries, type MultiOptions, type SetSample, type SetSummary } from './multi.ts';
+import { smoothTrack, type SmoothedState, type SmootherOptions } from './smoother.ts';
+import { summarise, type DeviationSummary } from './stats.ts';
+import { sampleAt, timeSpan, type TimedPath } from './timed-path.ts';
+import type { TrackRow } from './track-rows.ts';
+
+/** Everything tunable, grouped by the module that uses it. */
+export interface AnalyseOptions {
+  follow: Partial<FollowOptions>;
+  lag: Partial<LagOptions>;
+  legs: Partial<LegOptions>;
+  smoother: Partial<SmootherOptions>;
+  multi: Partial<MultiOptions>;
+  /** Least overlap of the track and commanded time spans, as a fraction of the shorter span. */
+  minOverlap: number;
+}
+
+/** Defaults in one place. */
+export function resolveAnalyseOptions(o: Partial<AnalyseOptions> = {}): AnalyseOptions {
+  return { follow: o.follow ?? {}, lag: o.lag ?? {}, legs: o.legs ?? {}, smoother: o.smoother ?? {}, multi: o.multi ?? {}, minOverlap: o.minOverlap ?? 0.5 };
+}
+
+/** Deviations with and without the lag. */
+export interface DeviationPair {
+  noLag: Deviation[];
+  aligned: Deviation[];
+}
+
+/** Summaries with and without the lag. */
+export interface SummaryPair {
+  noLag: DeviationSummary;
+  aligned: DeviationSummary;
+}
+
+/** The whole result. */
+export interface Analysis {
+  commanded: TimedPath;
+  legs: Leg[];
+  /** Rows of the followed track(s), time order. */
+  followed: TrackRow[];
+  switches: FollowSwitch[];
+  lag: LagEstimate;
+  coverage: Coverage;
+  filtered: DeviationPair;
+  /** Smoothed states, aligned with `followed` from index smoothedOffset; null without measurement columns. */
+  smoothed: { offset: number; states: SmoothedState[]; deviations: DeviationPair } | null;
+  whole: { filtered: SummaryPair; smoothed: SummaryPair | null };
+  perLeg: { leg: Leg; filtered: SummaryPair; smoothed: SummaryPair | null }[];
+  sets: SetSample[];
+  setSummary: SetSummary;
+  trackIds: number[];
+}
+
+/** Refuse time spans that do not overlap enough to compare (wrong file, or ms against s). */
+export function checkOverlap(path: TimedPath, rows: readonly TrackRow[], minOverlap: number): void {
+  const c = timeSpan(path);
+  const t0 = rows[0].timeS;
+  const t1 = rows[rows.length - 1].timeS;
+  const overlap = Math.min(c.endS, t1) - Math.max(c.startS, t0);
+  const shorter = Math.min(c.endS - c.startS, t1 - t0);
+  if (overlap <= 0 || (shorter > 0 && overlap / shorter < minOverlap)) {
+    const ratio = (t1 - t0) / (c.endS - c.startS);
+    const hint = ratio > 300 && ratio < 3000 ? ' — the tracks look like milliseconds' : ratio < 1 / 300 && ratio > 1 / 3000 ? ' — the commanded times look like milliseconds' : '';
+    throw new EchotrailError(
+      'E_PATH',
+      `time ranges do not match: commanded path ${c.startS}…${c.endS} s, tracks ${t0}…${t1} s` +
+        ` (overlap ${Math.max(0, overlap).toFixed(2)} s)${hint}; both must be seconds from the start of the same run`,
+    );
+  }
+}
+
+function follow(path: TimedPath, rows: readonly TrackRow[], lagS: number, o: Partial<FollowOptions>): { rows: TrackRow[]; switches: FollowSwitch[] } {
+  const f = new TrackFollower(o);
+  const out: TrackRow[] = [];
+  for (const r of rows) {
+    const c = sampleAt(path, r.timeS - lagS);
+    if (f.offer(r, c.x, c.y)) out.push(r);
+  }
+  return { rows: out, switches: [...f.switches] };
+}
+
+function pair(path: TimedPath, states: readonly { timeS: number; x: number; y: number; vx: number; vy: number }[], lagS: number): DeviationPair {
+  return { noLag: deviations(path, states, 0), aligned: deviations(path, states, lagS) };
+}
+
+function summaryPair(p: DeviationPair, keep: (d: Deviation, i: number) => boolean = () => true): SummaryPair {
+  return { noLag: summarise(p.noLag.filter(keep)), aligned: summarise(p.aligned.filter(keep)) };
+}
+
+/** Compare tracks with the commanded paths (the first is the one the single-target figures use). */
+export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], options: Partial<AnalyseOptions> = {}): Analysis {
+  const o = resolveAnalyseOptions(options);
+  const path = paths[0];
+  if (!path) throw new EchotrailError('E_PATH', 'no commanded path given');
+  if (rows.length === 0) throw new EchotrailError('E_INPUT_EMPTY', 'no track rows to compare');
+  checkOverlap(path, rows, o.minOverlap);
+  let chosen = follow(path, rows, 0, o.follow);
+  if (chosen.rows.length < 2) {
+    throw new EchotrailError('E_PATH', `no confirmed track came within ${o.follow.gateM ?? 1} m of the commanded path; check the frame (calibration) or widen the follow gate`);
+  }
+  const lag = estimateLag(path, chosen.rows, o.lag);
+  const lagS = lag.lagS ?? 0;
+  // With the lag known, pick again: a late track sits a lag's distance behind the commanded point.
+  if (lagS !== 0) chosen = follow(path, rows, lagS, o.follow);
+  const followed = chosen.rows;
+  const filtered = pair(path, followed, lagS);
+  const sm = smoothTrack(followed, o.smoother);
+  const smoothed = sm ? { offset: sm.offset, states: sm.smoothed, deviations: pair(path, sm.smoothed, lagS) } : null;
+  const { legs, legOfSegment } = findLegs(path, o.legs);
+  const span = timeSpan(path);
+  const perLeg = legs.map((leg) => ({
+    leg,
+    filtered: summaryPair(filtered, (d) => legOfSegment[d.segment] === leg.index),
+    smoothed: smoothed ? summaryPair(smoothed.deviations, (d) => legOfSegment[d.segment] === leg.index) : null,
+  }));
+  const sets = setMetricSeries(paths, rows, { ...o.multi, lagS: o.multi.lagS ?? lagS });
+  return {
+    commanded: path,
+    legs,
+    followed,
+    switches: chosen.switches,
+    lag,
+    coverage: coverageOf(followed, span.startS, span.endS),
+    filtered,
+    smoothed,
+    whole: { filtered: summaryPair(filtered), smoothed: smoothed ? summaryPair(smoothed.deviations) : null },
+    perLeg,
+    sets,
+    setSummary: summariseSetSeries(sets),
+    trackIds: [...new Set(rows.map((r) => r.id))].sort((a, b) => a - b),
+  };
+}

@@ -1,0 +1,79 @@
+/**
+ * Which track follows the commanded path. The tracker may lose the reflector and start a new id,
+ * or hold a second track nearby (a multipath ghost, a fixed echo), so the choice is made over time:
+ * the followed track is the confirmed one closest to the commanded position, and it keeps that role
+ * until it goes stale or another track is clearly closer (hysteresis stops flip-flopping between
+ * two tracks of the same reflector). Used the same way offline and live.
+ */
+import type { TrackRow } from './track-rows.ts';
+
+/** Tuning of the follower. */
+export interface FollowOptions {
+  /** A track further than this from the commanded position cannot take the role, metres. */
+  gateM: number;
+  /** The followed track is lost after this long without an update, seconds. */
+  staleS: number;
+  /** Another track must be this much closer than the followed one to take over, metres. */
+  switchMarginM: number;
+}
+
+/** Defaults in one place: a metre is several times the bench's position noise (common practice). */
+export function resolveFollowOptions(o: Partial<FollowOptions> = {}): FollowOptions {
+  return { gateM: o.gateM ?? 1.0, staleS: o.staleS ?? 2.0, switchMarginM: o.switchMarginM ?? 0.2 };
+}
+
+/** A change of the followed track id. */
+export interface FollowSwitch {
+  timeS: number;
+  /** Previous id, null at the first pick-up. */
+  from: number | null;
+  to: number;
+}
+
+/** Incremental follower: offer rows in time order, it says which belong to the followed track. */
+export class TrackFollower {
+  private readonly o: FollowOptions;
+  private current: number | null = null;
+  private lastAcceptS = -Infinity;
+  private readonly lastDist = new Map<number, number>();
+  /** Every change of the followed id, in time order. */
+  readonly switches: FollowSwitch[] = [];
+
+  constructor(options: Partial<FollowOptions> = {}) {
+    this.o = resolveFollowOptions(options);
+  }
+
+  /** Id of the followed track, or null before one is found. */
+  get currentId(): number | null {
+    return this.current;
+  }
+
+  /** Offer one track row with the commanded position at its time; true when it is the followed track's. */
+  offer(row: TrackRow, cmdX: number, cmdY: number): boolean {
+    if (row.status === 'tentative') return false;
+    const d = Math.hypot(row.x - cmdX, row.y - cmdY);
+    this.lastDist.set(row.id, d);
+    if (row.id === this.current) {
+      this.lastAcceptS = row.timeS;
+      return true;
+    }
+    if (d > this.o.gateM) return false;
+    const stale = this.current === null || row.timeS - this.lastAcceptS > this.o.staleS;
+    const currentDist = this.current === null ? Infinity : (this.lastDist.get(this.current) ?? Infinity);
+    if (stale || d + this.o.switchMarginM < currentDist) {
+      this.switches.push({ timeS: row.timeS, from: this.current, to: row.id });
+      this.current = row.id;
+      this.lastAcceptS = row.timeS;
+      return true;
+    }
+    return false;
+  }
+
+  /** Forget everything. */
+  reset(): void {
+    this.current = null;
+    this.lastAcceptS = -Infinity;
+    this.lastDist.clear();
+    this.switches.length = 0;
+  }
+}
