@@ -47,6 +47,7 @@ export const deletionWire = z.object({
   id: z.number().int().nonnegative(),
   reason: z.enum(['misses', 'covariance', 'fixed-echo', 'merged']),
 });
+export type DeletionWire = z.infer<typeof deletionWire>;
 
 export const fixedEchoWire = z.object({
   x: finite,
@@ -67,6 +68,7 @@ export const positionerWire = z.object({
   measX: finite.optional(),
   measY: finite.optional(),
 });
+export type PositionerWire = z.infer<typeof positionerWire>;
 
 export const sourceStatus = z.object({
   /** What feeds the bridge. */
@@ -131,6 +133,8 @@ export const serverMessage = z.discriminatedUnion('type', [
   z.object({ type: z.literal('hello'), protocol: z.literal(PROTOCOL_VERSION), server: z.string() }),
   z.object({
     type: z.literal('snapshot'),
+    /** Sequence number of the next `scan` this client will get (added in v1, optional). */
+    seq: z.number().int().nonnegative().optional(),
     timeS: finite,
     source: sourceStatus,
     tracks: z.array(trackWire),
@@ -143,6 +147,11 @@ export const serverMessage = z.discriminatedUnion('type', [
   }),
   z.object({
     type: z.literal('scan'),
+    /**
+     * Increases by one per scan the bridge produces (added in v1, optional). A gap means this client
+     * was lagging and skipped scans; a fresh snapshot follows once it catches up.
+     */
+    seq: z.number().int().nonnegative().optional(),
     timeS: finite,
     detections: z.array(detectionWire),
     updates: z.array(trackWire),

@@ -1,0 +1,190 @@
+/**
+ * `startBridge()`: one HTTP server carrying the dashboard page, the JSON API and the WebSocket
+ * stream at /ws, fed by the pipeline (source → tracker → recorder → fan-out).
+ */
+import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
+import type { Duplex } from 'node:stream';
+import { randomBytes } from 'node:crypto';
+import { WebSocketServer } from 'ws';
+import type { Source } from '../ingest/source.ts';
+import type { SessionInfo } from './protocol.ts';
+import { resolveBridgeOptions, type BridgeOptions, type ResolvedBridgeOptions } from './options.ts';
+import { checkAccess, checkOrigin } from './security.ts';
+import { serveStatic } from './static.ts';
+import { handleApi, sendError } from './api.ts';
+import { Hub, type HubStats } from './hub.ts';
+import { Pipeline } from './pipeline.ts';
+import { handleClientMessage } from './controls.ts';
+import { loadCalibrationApi, loadLiveComparison, loadRecorderFactory, loadSessionLister, loadTrackerFactory } from './deps.ts';
+import { openConfiguredSource, openReplaySource, sessionPath } from './sources.ts';
+
+export type { BridgeOptions } from './options.ts';
+
+/** A bridge that is listening. */
+export interface RunningBridge {
+  /** Page address, e.g. http://127.0.0.1:8080/ (with ?token= when one is required). */
+  url: string;
+  /** WebSocket address, e.g. ws://127.0.0.1:8080/ws (with ?token= when one is required). */
+  wsUrl: string;
+  /** The port actually bound (useful with port 0). */
+  port: number;
+  /** The address bound. */
+  host: string;
+  /** The token clients must present, or undefined when none is required. */
+  token: string | undefined;
+  /** Counters: clients, lagging, dropped, bad messages, skipped scans. */
+  stats(): HubStats;
+  /** The pipeline (tests and the CLI read its state). */
+  pipeline: Pipeline;
+  /** Replaces the input with another source (tests; the CLI uses options). */
+  setSource(source: Source): Promise<void>;
+  /** Stops listening, closes every client (1001), the source and the recording. */
+  close(): Promise<void>;
+}
+
+const SESSIONS_CACHE_MS = 2000;
+
+function hostForUrl(host: string): string {
+  if (host === '0.0.0.0' || host === '::') return '127.0.0.1';
+  return host.includes(':') && !host.startsWith('[') ? `[${host}]` : host;
+}
+
+function refuse(socket: Duplex, status: number, reason: string): void {
+  const text = { 400: 'Bad Request', 401: 'Unauthorized', 403: 'Forbidden', 404: 'Not Found', 503: 'Service Unavailable' }[status] ?? 'Error';
+  socket.end(`HTTP/1.1 ${status} ${text}\r\nConnection: close\r\nContent-Type: text/plain\r\nContent-Length: ${Buffer.byteLength(reason)}\r\n\r\n${reason}`);
+}
+
+export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<RunningBridge> {
+  const resolved = resolveBridgeOptions(input);
+  const o: ResolvedBridgeOptions = { ...resolved, token: resolved.requireToken ? (resolved.token ?? randomBytes(18).toString('base64url')) : resolved.token };
+  const started = performance.now();
+
+  const trackerFactory = o.createTracker ?? (await loadTrackerFactory().catch(() => null));
+  const recorderFactory = o.record ? await loadRecorderFactory() : null;
+  const comparisonFactory = await loadLiveComparison().catch((e: Error) => (o.log(`live comparison disabled: ${e.message}`), null));
+  const lister = await loadSessionLister();
+
+  const pipeline = new Pipeline({
+    createTracker: () => {
+      if (!trackerFactory) throw new Error('no tracker available (bridge/tracking/tracker.ts missing) and the source carries no tracks');
+      return trackerFactory(o.trackerOptions);
+    },
+    createRecorder: recorderFactory
+      ? (source, onError) =>
+          recorderFactory({ dir: o.sessionsDir, name: source.kind === 'serial' ? 'live' : source.name, source: { kind: source.kind, name: source.name }, config: { bench: o.benchConfig ?? null, tracker: o.trackerOptions ?? null }, onError })
+      : null,
+    createComparison: comparisonFactory,
+    state: { historyPoints: o.historyPoints, recentDetectionsS: o.recentDetectionsS, maxRecentDetections: o.maxRecentDetections },
+    scanRateHz: o.scanRateHz,
+    log: o.log,
+  });
+
+  let sessionsCache: { at: number; list: SessionInfo[] } | null = null;
+  const sessions = async (): Promise<SessionInfo[]> => {
+    if (!lister) return [];
+    if (sessionsCache && performance.now() - sessionsCache.at < SESSIONS_CACHE_MS) return sessionsCache.list;
+    const list = await lister(o.sessionsDir);
+    sessionsCache = { at: performance.now(), list };
+    return list;
+  };
+
+  const openSession = async (sessionId: string): Promise<void> => {
+    const path = await sessionPath(o.sessionsDir, sessionId);
+    await pipeline.setSource(await openReplaySource(path, { loop: o.loop, speed: o.speed, autoplay: o.autoplay }));
+  };
+
+  const hub = new Hub({
+    maxBufferedBytes: o.maxBufferedBytes,
+    resumeBufferedBytes: o.resumeBufferedBytes,
+    maxLagMs: o.maxLagMs,
+    pingIntervalMs: o.pingIntervalMs,
+    hello: () => pipeline.hello(),
+    snapshot: () => pipeline.snapshot(),
+    onClientMessage: (msg, reply) => handleClientMessage({ pipeline, openSession, sessions, broadcast: (m) => hub.broadcast(m) }, msg, reply),
+  });
+  pipeline.on('scan', (scan) => hub.broadcast(scan));
+  pipeline.on('message', (msg) => hub.broadcast(msg));
+  pipeline.on('resync', () => hub.resync());
+
+  const apiContext = {
+    status: () => pipeline.status(),
+    replay: () => pipeline.replayState(),
+    clients: () => hub.size,
+    sessions,
+    calibration: async () => {
+      const api = await loadCalibrationApi();
+      return api ? (body: unknown) => api(body) : null;
+    },
+    uptimeS: () => (performance.now() - started) / 1000,
+  };
+
+  const server = createServer((req: IncomingMessage, res: ServerResponse) => {
+    const pathname = new URL(req.url ?? '/', 'http://x').pathname;
+    if (pathname.startsWith('/api/')) {
+      const verdict = checkAccess(req, o);
+      if (!verdict.ok) return sendError(res, verdict.status, 'E_ACCESS', verdict.reason);
+      void handleApi(apiContext, req, res, pathname);
+      return;
+    }
+    void serveStatic(o.staticDir, req, res, pathname).catch(() => res.destroy());
+  });
+  server.headersTimeout = 10_000;
+  server.requestTimeout = 30_000;
+
+  const wss = new WebSocketServer({ noServer: true, maxPayload: o.maxPayloadBytes, perMessageDeflate: false });
+  server.on('upgrade', (req: IncomingMessage, socket: Duplex, head: Buffer) => {
+    socket.on('error', () => socket.destroy());
+    const pathname = new URL(req.url ?? '/', 'http://x').pathname;
+    if (pathname !== '/ws') return refuse(socket, 404, 'the WebSocket endpoint is /ws');
+    const origin = checkOrigin(req, o);
+    if (!origin.ok) return refuse(socket, origin.status, origin.reason);
+    const access = checkAccess(req, o);
+    if (!access.ok) return refuse(socket, access.status, access.reason);
+    if (hub.size >= o.maxClients) return refuse(socket, 503, `too many clients (${o.maxClients})`);
+    wss.handleUpgrade(req, socket, head, (ws) => hub.add(ws));
+  });
+  server.on('clientError', (_err, socket) => socket.destroy());
+
+  await new Promise<void>((resolveListen, reject) => {
+    server.once('error', reject);
+    server.listen(o.port, o.host, () => {
+      server.off('error', reject);
+      resolveListen();
+    });
+  });
+  const address = server.address();
+  const port = typeof address === 'object' && address ? address.port : o.port;
+  const base = `${hostForUrl(o.host)}:${port}`;
+  const query = o.requireToken && o.token ? `?token=${encodeURIComponent(o.token)}` : '';
+
+  try {
+    const source = await openConfiguredSource(o);
+    if (source) await pipeline.setSource(source);
+  } catch (err) {
+    await new Promise<void>((r) => server.close(() => r()));
+    hub.close();
+    await pipeline.close();
+    throw err;
+  }
+
+  let closing: Promise<void> | null = null;
+  return {
+    url: `http://${base}/${query}`,
+    wsUrl: `ws://${base}/ws${query}`,
+    port,
+    host: o.host,
+    token: o.requireToken ? o.token : undefined,
+    stats: () => hub.stats,
+    pipeline,
+    setSource: (source) => pipeline.setSource(source),
+    close: () =>
+      (closing ??= (async () => {
+        hub.close();
+        wss.close();
+        const closed = new Promise<void>((r) => server.close(() => r()));
+        server.closeAllConnections();
+        await pipeline.close();
+        await closed;
+      })()),
+  };
+}

@@ -1,0 +1,50 @@
+/**
+ * After a seek in a replay that carries no tracks (a detections CSV), the tracker has to be run
+ * again from the start of the run up to the seek time, quietly, so the picture at the new position
+ * is what it would have been had the replay played through. Sessions that carry their tracks need
+ * none of this: their source re-sends the state at the new position itself.
+ */
+import type { ReplaySourceLike } from './deps.ts';
+import type { TrackEngine } from '../types.ts';
+import type { LiveState } from './state.ts';
+
+/** Records fed between two yields to the event loop, so a long fast-forward keeps the server responsive. */
+const CHUNK = 20_000;
+
+/**
+ * Feeds the tracker every detection before `timeS` and leaves `state` holding the tracks,
+ * history, recent detections and fixed echoes at that time. Returns false when the source offers
+ * no way to read its history, or when `abandoned()` turned true (a newer seek overtook this one).
+ */
+export async function rebuildAfterSeek(
+  source: ReplaySourceLike,
+  tracker: TrackEngine,
+  state: LiveState,
+  timeS: number,
+  abandoned: () => boolean,
+): Promise<boolean> {
+  if (typeof source.recordsUntil !== 'function') return false;
+  let n = 0;
+  for await (const r of source.recordsUntil(timeS)) {
+    if (r.kind === 'detection') {
+      if (r.detection.timeS > timeS) break;
+      if (r.detection.timeS >= timeS - state.options.recentDetectionsS) state.addDetection(r.detection);
+      const out = tracker.push(r.detection);
+      for (const u of out.updates) state.addUpdate(u);
+      for (const d of out.deletions) state.addDeletion(d);
+    } else if (r.kind === 'positioner') {
+      state.addPositioner(r.sample);
+    } else if (r.kind === 'antenna') {
+      state.antennaAzimuthRad = r.sample.azimuthRad;
+    } else if (r.kind === 'commanded') {
+      state.setCommanded(r.path);
+    }
+    if (++n % CHUNK === 0) {
+      await new Promise((res) => setImmediate(res));
+      if (abandoned()) return false;
+    }
+  }
+  state.fixedEchoes = tracker.fixedEchoes();
+  state.timeS = Math.max(state.timeS, timeS);
+  return true;
+}

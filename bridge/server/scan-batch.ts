@@ -1,0 +1,128 @@
+/**
+ * Merges the increments that arrive between two `scan` messages and paces those messages: the
+ * first increment after a quiet spell leaves at once (low latency at low rates), later ones wait
+ * for the next slot, so no client ever gets more than `rateHz` scans a second.
+ */
+import type { DeletionWire, DetectionWire, PositionerWire, ServerMessage, TrackWire } from './protocol.ts';
+
+export type ScanMessage = Extract<ServerMessage, { type: 'scan' }>;
+
+/** Pacing and size caps of the scan batches. */
+export interface ScanBatchOptions {
+  /** Most scans per second. */
+  rateHz: number;
+  /** Most detections carried by one scan; beyond it the oldest are dropped from the scan (not the state). */
+  maxDetections: number;
+  /** Called with each finished scan and the arrival times (performance.now ms) of the lines in it. */
+  emit: (scan: ScanMessage, receivedAtMs: number[]) => void;
+}
+
+export class ScanBatch {
+  private seq = 0;
+  private timeS = 0;
+  private detections: DetectionWire[] = [];
+  private updates: TrackWire[] = [];
+  private deletions: DeletionWire[] = [];
+  private positioner: PositionerWire[] = [];
+  private antenna: number | null = null;
+  private arrivals: number[] = [];
+  private lastSentMs = -Infinity;
+  private timer: NodeJS.Timeout | null = null;
+  private readonly intervalMs: number;
+
+  constructor(private readonly options: ScanBatchOptions) {
+    this.intervalMs = 1000 / options.rateHz;
+  }
+
+  get pending(): boolean {
+    return this.detections.length + this.updates.length + this.deletions.length + this.positioner.length > 0 || this.antenna !== null;
+  }
+
+  /** Sequence number the next scan will carry. */
+  get nextSeq(): number {
+    return this.seq;
+  }
+
+  time(t: number): void {
+    if (t > this.timeS) this.timeS = t;
+  }
+
+  detection(d: DetectionWire, receivedAtMs: number): void {
+    this.detections.push(d);
+    if (this.detections.length > this.options.maxDetections) this.detections.shift();
+    this.arrivals.push(receivedAtMs);
+    this.time(d.timeS);
+  }
+
+  update(u: TrackWire, receivedAtMs?: number): void {
+    this.updates.push(u);
+    if (receivedAtMs !== undefined) this.arrivals.push(receivedAtMs);
+    this.time(u.timeS);
+  }
+
+  deletion(d: DeletionWire): void {
+    // Kept beside the track's updates of this scan: clients apply updates first, then deletions
+    // (ids are never reused, so no update can follow a deletion).
+    this.deletions.push(d);
+    this.time(d.timeS);
+  }
+
+  positionerSample(p: PositionerWire): void {
+    this.positioner.push(p);
+    this.time(p.timeS);
+  }
+
+  antennaAzimuth(az: number): void {
+    this.antenna = az;
+  }
+
+  /** Asks for a scan: now if the last one left long enough ago, else at the next slot. */
+  schedule(): void {
+    if (this.timer) return;
+    const wait = this.lastSentMs + this.intervalMs - performance.now();
+    if (wait <= 0) this.flush();
+    else this.timer = setTimeout(() => this.flush(), wait);
+  }
+
+  flush(): void {
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+    if (!this.pending) return;
+    const scan: ScanMessage = {
+      type: 'scan',
+      seq: this.seq++,
+      timeS: this.timeS,
+      detections: this.detections,
+      updates: this.updates,
+      deletions: this.deletions,
+      antennaAzimuthRad: this.antenna,
+      positioner: this.positioner,
+    };
+    const arrivals = this.arrivals;
+    this.detections = [];
+    this.updates = [];
+    this.deletions = [];
+    this.positioner = [];
+    this.antenna = null;
+    this.arrivals = [];
+    this.lastSentMs = performance.now();
+    this.options.emit(scan, arrivals);
+  }
+
+  /** Forget what is pending (replay seek): those increments belong to the old position. */
+  discard(): void {
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+    this.detections = [];
+    this.updates = [];
+    this.deletions = [];
+    this.positioner = [];
+    this.antenna = null;
+    this.arrivals = [];
+  }
+
+  close(): void {
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+  }
+}

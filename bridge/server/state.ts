@@ -1,0 +1,184 @@
+/**
+ * The bounded in-memory picture the bridge keeps for snapshots: current tracks, a short history per
+ * track, the last few seconds of detections, the fixed-echo map and the commanded path. Every
+ * collection has a hard cap because a lab leaves the bridge running all day.
+ */
+import type { Detection, FixedEcho, PositionerSample, TrackDeletion, TrackUpdate } from '../types.ts';
+import type { DetectionWire, PathPointWire, TrackWire } from './protocol.ts';
+import { Ring } from './ring.ts';
+import type { SessionSnapshotLike } from './deps.ts';
+
+/** Caps of the state; copied from the resolved bridge options. */
+export interface LiveStateOptions {
+  /** Positions kept per track. */
+  historyPoints: number;
+  /** Seconds of detections kept. */
+  recentDetectionsS: number;
+  /** Most detections kept whatever their rate. */
+  maxRecentDetections: number;
+  /** Most tracks kept; the least recently updated goes first. */
+  maxTracks: number;
+  /** Most commanded-path points kept. */
+  maxCommandedPoints: number;
+}
+
+export function resolveLiveStateOptions(o: Partial<LiveStateOptions> = {}): LiveStateOptions {
+  return {
+    historyPoints: o.historyPoints ?? 600,
+    recentDetectionsS: o.recentDetectionsS ?? 4,
+    maxRecentDetections: o.maxRecentDetections ?? 20_000,
+    maxTracks: o.maxTracks ?? 500,
+    maxCommandedPoints: o.maxCommandedPoints ?? 20_000,
+  };
+}
+
+/** Only the wire fields: measurement and NIS stay inside the bridge. */
+export function toTrackWire(u: TrackUpdate): TrackWire {
+  return {
+    timeS: u.timeS, id: u.id, status: u.status, x: u.x, y: u.y, vx: u.vx, vy: u.vy, speed: u.speed,
+    headingRad: u.headingRad, pxx: u.pxx, pxy: u.pxy, pyy: u.pyy, quality: u.quality, moving: u.moving,
+    hits: u.hits, misses: u.misses,
+  };
+}
+
+export function toDetectionWire(d: Detection): DetectionWire {
+  return { timeS: d.timeS, azimuthRad: d.azimuthRad, rangeM: d.rangeM, amplitude: d.amplitude };
+}
+
+/** Positioner-derived commanded points closer in time than this are not kept (bounded path). */
+const COMMANDED_MIN_DT_S = 0.05;
+
+export class LiveState {
+  readonly options: LiveStateOptions;
+  timeS = 0;
+  antennaAzimuthRad: number | null = null;
+  fixedEchoes: FixedEcho[] = [];
+  private readonly trackMap = new Map<number, TrackWire>();
+  private readonly historyMap = new Map<number, Ring<[number, number, number]>>();
+  private readonly detections: Ring<DetectionWire>;
+  private commandedPath: PathPointWire[] = [];
+  /** True once the source sent a whole commanded path: positioner samples then no longer extend it. */
+  private commandedExplicit = false;
+
+  constructor(options: Partial<LiveStateOptions> = {}) {
+    this.options = resolveLiveStateOptions(options);
+    this.detections = new Ring(this.options.maxRecentDetections);
+  }
+
+  reset(): void {
+    this.timeS = 0;
+    this.antennaAzimuthRad = null;
+    this.fixedEchoes = [];
+    this.trackMap.clear();
+    this.historyMap.clear();
+    this.detections.clear();
+    // The commanded path belongs to the run, not to a replay position: a seek keeps it.
+  }
+
+  clearCommanded(): void {
+    this.commandedPath = [];
+    this.commandedExplicit = false;
+  }
+
+  private advance(t: number): void {
+    if (t > this.timeS) this.timeS = t;
+  }
+
+  addDetection(d: Detection): DetectionWire {
+    const w = toDetectionWire(d);
+    this.advance(d.timeS);
+    this.detections.push(w);
+    const horizon = this.timeS - this.options.recentDetectionsS;
+    this.detections.dropWhile((x) => x.timeS < horizon);
+    return w;
+  }
+
+  addUpdate(u: TrackUpdate): TrackWire {
+    const w = toTrackWire(u);
+    this.advance(u.timeS);
+    // Re-insert so that Map order is "least recently updated first" for eviction.
+    this.trackMap.delete(u.id);
+    this.trackMap.set(u.id, w);
+    let ring = this.historyMap.get(u.id);
+    if (!ring) {
+      ring = new Ring(this.options.historyPoints);
+      this.historyMap.set(u.id, ring);
+    }
+    ring.push([u.timeS, u.x, u.y]);
+    while (this.trackMap.size > this.options.maxTracks) {
+      const oldest = this.trackMap.keys().next().value as number;
+      this.removeTrack(oldest);
+    }
+    return w;
+  }
+
+  addDeletion(d: TrackDeletion): void {
+    this.advance(d.timeS);
+    this.removeTrack(d.id);
+  }
+
+  private removeTrack(id: number): void {
+    this.trackMap.delete(id);
+    this.historyMap.delete(id);
+  }
+
+  addPositioner(p: PositionerSample): void {
+    this.advance(p.timeS);
+    if (this.commandedExplicit) return;
+    const last = this.commandedPath[this.commandedPath.length - 1];
+    if (last && p.timeS - last.timeS < COMMANDED_MIN_DT_S && p.timeS >= last.timeS) return;
+    this.commandedPath.push({ timeS: p.timeS, x: p.cmdX, y: p.cmdY });
+    // Halve the resolution rather than forget the start of the path.
+    if (this.commandedPath.length > this.options.maxCommandedPoints) this.commandedPath = this.commandedPath.filter((_, i) => i % 2 === 0);
+  }
+
+  setCommanded(path: PathPointWire[]): void {
+    this.commandedExplicit = true;
+    const step = Math.ceil(path.length / this.options.maxCommandedPoints);
+    this.commandedPath = step > 1 ? path.filter((_, i) => i % step === 0) : path.slice();
+  }
+
+  get commanded(): PathPointWire[] {
+    return this.commandedPath;
+  }
+
+  tracks(): TrackWire[] {
+    return [...this.trackMap.values()];
+  }
+
+  history(): { id: number; points: number[] }[] {
+    const out: { id: number; points: number[] }[] = [];
+    for (const [id, ring] of this.historyMap) out.push({ id, points: ring.toArray().flat() });
+    return out;
+  }
+
+  recentDetections(): DetectionWire[] {
+    return this.detections.toArray();
+  }
+
+  /** Takes over a recorded session's state at a time (after a seek). */
+  loadSnapshot(snap: SessionSnapshotLike): void {
+    this.reset();
+    for (const d of snap.detections) this.addDetection(d);
+    for (const u of snap.tracks) {
+      this.trackMap.set(u.id, toTrackWire(u));
+      this.historyMap.set(u.id, new Ring(this.options.historyPoints));
+    }
+    for (const h of snap.history) {
+      const ring = this.historyMap.get(h.id);
+      if (!ring) continue;
+      for (let i = 0; i + 2 < h.points.length; i += 3) ring.push([h.points[i], h.points[i + 1], h.points[i + 2]]);
+    }
+    this.fixedEchoes = snap.fixedEchoes;
+    if (snap.commanded.length) this.setCommanded(snap.commanded);
+    this.antennaAzimuthRad = snap.antenna?.azimuthRad ?? null;
+    this.timeS = snap.timeS;
+  }
+
+  /** Replaces the tracks wholesale (from a tracker after a rebuild). History starts again from them. */
+  replaceTracks(updates: TrackUpdate[]): void {
+    this.trackMap.clear();
+    this.historyMap.clear();
+    for (const u of updates) this.addUpdate(u);
+  }
+}

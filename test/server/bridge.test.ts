@@ -1,0 +1,109 @@
+import { afterEach, describe, expect, it } from 'vitest';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { startBridge, type RunningBridge } from '../../bridge/server/bridge.ts';
+import { ScriptedSource, trackAt } from '../helpers/scripted-source.ts';
+import { TestClient } from '../helpers/ws-client.ts';
+
+const quiet = (): void => undefined;
+let bridge: RunningBridge | null = null;
+const clients: TestClient[] = [];
+
+async function start(source: ScriptedSource, extra: Parameters<typeof startBridge>[0] = {}): Promise<RunningBridge> {
+  bridge = await startBridge({ port: 0, sessionsDir: mkdtempSync(join(tmpdir(), 'et-sessions-')), createSource: () => source, log: quiet, ...extra });
+  return bridge;
+}
+
+async function connect(url: string): Promise<TestClient> {
+  const c = await TestClient.connect(url);
+  clients.push(c);
+  return c;
+}
+
+afterEach(async () => {
+  await Promise.all(clients.splice(0).map((c) => c.close()));
+  await bridge?.close();
+  bridge = null;
+});
+
+describe('startBridge', () => {
+  it('greets with hello then a snapshot holding the current tracks', async () => {
+    const src = new ScriptedSource();
+    const b = await start(src);
+    src.emitRecord({ kind: 'track', update: trackAt(7, 1.0, 1, 2) });
+    src.emitRecord({ kind: 'commanded', path: [{ timeS: 0, x: 0, y: 1 }, { timeS: 1, x: 1, y: 1 }] });
+    const c = await connect(b.wsUrl);
+    const snap = await c.next('snapshot');
+    expect(c.messages[0]).toMatchObject({ type: 'hello', protocol: 1 });
+    expect(snap.tracks.map((t) => t.id)).toEqual([7]);
+    expect(snap.history).toEqual([{ id: 7, points: [1.0, 1, 2] }]);
+    expect(snap.commanded).toHaveLength(2);
+    expect(snap.replay).toMatchObject({ sessionId: 'scripted' });
+    expect(c.invalid).toEqual([]);
+  });
+
+  it('streams increments as scan messages with increasing seq, deletions included', async () => {
+    const src = new ScriptedSource();
+    const b = await start(src);
+    const c = await connect(b.wsUrl);
+    await c.next('snapshot');
+    for (let i = 0; i < 20; i++) src.emitRecord({ kind: 'track', update: trackAt(1, i * 0.1, i * 0.05, 2) });
+    src.emitRecord({ kind: 'deletion', deletion: { timeS: 2.0, id: 1, reason: 'misses' } });
+    src.emitRecord({ kind: 'antenna', sample: { timeS: 2.0, azimuthRad: 1.5 } });
+    await c.next('scan', (s) => s.deletions.some((d) => d.id === 1));
+    const scans = c.of('scan');
+    const updates = scans.flatMap((s) => s.updates);
+    // Every update arrives once, in order, even though scans were merged.
+    expect(updates.map((u) => u.timeS)).toEqual(Array.from({ length: 20 }, (_, i) => i * 0.1));
+    const seqs = scans.map((s) => s.seq as number);
+    expect(seqs).toEqual(seqs.map((_, i) => seqs[0] + i));
+    expect(scans.at(-1)?.antennaAzimuthRad).toBe(1.5);
+    // Merging means fewer scans than records.
+    expect(scans.length).toBeLessThan(22);
+    const c2 = await connect(b.wsUrl);
+    expect((await c2.next('snapshot')).tracks).toEqual([]);
+  });
+
+  it('passes replay controls to the source and answers with the replay state', async () => {
+    const src = new ScriptedSource();
+    const b = await start(src);
+    const c = await connect(b.wsUrl);
+    await c.next('snapshot');
+    c.send({ type: 'control', action: 'speed', value: 4 });
+    await c.next('replay', (m) => m.replay.speed === 4);
+    c.send({ type: 'control', action: 'play' });
+    await c.next('replay', (m) => m.replay.playing);
+    c.send({ type: 'control', action: 'seek', value: 30 });
+    // A seek rebuilds the state: a second snapshot follows, at the new position.
+    const resent = await c.next('snapshot', () => true, c.messages.findIndex((m) => m.type === 'snapshot') + 1);
+    expect(resent.replay?.positionS).toBe(30);
+    c.send({ type: 'control', action: 'speed', value: 500 });
+    const err = await c.next('error');
+    expect(err.message).toMatch(/speed/);
+    expect(src.calls).toEqual(['speed 4', 'play', 'seek 30']);
+  });
+
+  it('reports bad lines and source state in source messages', async () => {
+    const src = new ScriptedSource({ kind: 'serial', name: '/dev/ttyX' });
+    const b = await start(src, { record: false });
+    const c = await connect(b.wsUrl);
+    await c.next('snapshot');
+    src.emitBad({ line: 12, reason: 'checksum mismatch', text: 'det 1 2 3 4|FFFF' });
+    src.emitBad({ line: 13, reason: 'empty line', text: '' });
+    const m = await c.next('source', (s) => s.source.badLines === 2);
+    expect(m.source.lastBad).toEqual({ line: 13, reason: 'empty line' });
+    src.setState('waiting', 'port gone');
+    expect((await c.next('source', (s) => s.source.state === 'waiting')).source.kind).toBe('serial');
+  });
+
+  it('serves /api/health and /api/sessions as JSON', async () => {
+    const b = await start(new ScriptedSource());
+    const health = await (await fetch(new URL('/api/health', b.url))).json();
+    expect(health).toMatchObject({ ok: true, protocol: 1, clients: 0 });
+    const res = await fetch(new URL('/api/sessions', b.url));
+    expect(res.status).toBe(200);
+    expect(Array.isArray((await res.json()).sessions)).toBe(true);
+    expect((await fetch(new URL('/api/nothing', b.url))).status).toBe(404);
+  });
+});
