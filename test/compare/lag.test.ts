@@ -1,0 +1,51 @@
+// Least-squares time alignment; golden-section refinement (Kiefer, "Sequential minimax search for
+// a maximum", Proc. AMS 4:502–506, 1953). Acceptance figure from the issue: 0.4 s within 0.02 s.
+import { describe, expect, it } from 'vitest';
+import { estimateLag } from '../../bridge/compare/lag.ts';
+import { sampleAt } from '../../bridge/compare/timed-path.ts';
+import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
+import { gauss, prng } from './bench-run.ts';
+
+const path = waypointsToPath([
+  { x: -1, y: 2, dwellS: 1 },
+  { x: 1, y: 2, speedMps: 0.4 },
+  { x: 1, y: 4, speedMps: 0.3, dwellS: 1 },
+  { x: -1, y: 3, speedMps: 0.5 },
+  { x: -1, y: 2, speedMps: 0.4 },
+]);
+
+function shifted(lagS: number, noiseM: number, seed = 3) {
+  const rand = prng(seed);
+  const out = [];
+  for (let t = 0; t <= path.points[path.points.length - 1].timeS; t += 0.25) {
+    const c = sampleAt(path, t - lagS);
+    out.push({ timeS: t, x: c.x + noiseM * gauss(rand), y: c.y + noiseM * gauss(rand) });
+  }
+  return out;
+}
+
+describe('estimateLag', () => {
+  it('recovers a 0.4 s shift exactly without noise', () => {
+    const e = estimateLag(path, shifted(0.4, 0));
+    expect(e.lagS).toBeCloseTo(0.4, 3);
+    expect(e.rmsAtLagM).toBeLessThan(1e-3);
+    expect(e.rmsAtZeroM).toBeGreaterThan(0.1);
+  });
+
+  it('recovers a 0.4 s shift within 0.02 s with 3 cm position noise', () => {
+    for (const seed of [1, 2, 3]) {
+      const e = estimateLag(path, shifted(0.4, 0.03, seed));
+      expect(Math.abs(e.lagS! - 0.4)).toBeLessThan(0.02);
+    }
+  });
+
+  it('finds a lead as a negative lag', () => {
+    expect(estimateLag(path, shifted(-0.3, 0)).lagS).toBeCloseTo(-0.3, 3);
+  });
+
+  it('reports no lag for a path that does not move', () => {
+    const still = waypointsToPath([{ x: 0, y: 2, dwellS: 5 }, { x: 0.001, y: 2, speedMps: 0.001 }]);
+    const samples = [0, 1, 2, 3, 4].map((t) => ({ timeS: t, x: 0, y: 2 }));
+    expect(estimateLag(still, samples).lagS).toBeNull();
+  });
+});
