@@ -1,0 +1,72 @@
+/**
+ * Recent detections as fading dots and the fixed-echo map, in screen space. Dots are pooled
+ * sprites of two cached textures (a disc for moving returns, a small square for returns the
+ * fixed-echo map explains), so shape tells them apart as well as brightness.
+ */
+import { Container, Graphics, Sprite, type Renderer, type Texture } from 'pixi.js';
+import type { DetectionDot, FixedEchoDot } from '../stream/state.ts';
+import { detectionColour, fixedEchoColour } from './palette.ts';
+import { type View, toScreen } from './view.ts';
+
+export class DetectionDots {
+  readonly container = new Container();
+  readonly fixedContainer = new Container();
+  private readonly fixedGraphics = new Graphics();
+  private readonly pool: Sprite[] = [];
+  private readonly disc: Texture;
+  private readonly square: Texture;
+  private fixedKey = '';
+
+  constructor(renderer: Renderer) {
+    this.disc = renderer.generateTexture(new Graphics().circle(4, 4, 3.2).fill({ color: 0xffffff }));
+    this.square = renderer.generateTexture(new Graphics().rect(0, 0, 5, 5).fill({ color: 0xffffff }));
+    this.fixedContainer.addChild(this.fixedGraphics);
+  }
+
+  update(view: View, dots: readonly DetectionDot[], nowS: number, maxAgeS: number, show: boolean): void {
+    this.container.visible = show;
+    if (!show) return;
+    let used = 0;
+    for (const d of dots) {
+      const age = nowS - d.timeS;
+      if (age > maxAgeS || age < -0.5) continue;
+      const s = toScreen(view, d.x, d.y);
+      if (s.px < -10 || s.py < -10 || s.px > view.width + 10 || s.py > view.height + 10) continue;
+      const sprite = this.sprite(used++);
+      sprite.texture = d.fixed ? this.square : this.disc;
+      sprite.tint = d.fixed ? fixedEchoColour : detectionColour;
+      sprite.position.set(s.px, s.py);
+      // Newest dots are bright, old ones fade towards 15 %: age reads from brightness and size.
+      const f = 1 - Math.max(0, age) / maxAgeS;
+      sprite.alpha = 0.15 + 0.75 * f;
+      sprite.scale.set(0.6 + 0.5 * f);
+      sprite.visible = true;
+    }
+    for (let i = used; i < this.pool.length; i++) this.pool[i].visible = false;
+  }
+
+  /** Rebuilt only when the map or the view changes. */
+  updateFixed(view: View, echoes: readonly FixedEchoDot[], version: number, show: boolean): void {
+    this.fixedContainer.visible = show;
+    const key = `${version},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height}`;
+    if (!show || key === this.fixedKey) return;
+    this.fixedKey = key;
+    const g = this.fixedGraphics.clear();
+    for (const e of echoes) {
+      const s = toScreen(view, e.x, e.y);
+      g.rect(s.px - 4, s.py - 4, 8, 8);
+    }
+    g.stroke({ width: 1, color: fixedEchoColour, alpha: 0.45 });
+  }
+
+  private sprite(i: number): Sprite {
+    let s = this.pool[i];
+    if (!s) {
+      s = new Sprite(this.disc);
+      s.anchor.set(0.5);
+      this.pool[i] = s;
+      this.container.addChild(s);
+    }
+    return s;
+  }
+}

@@ -1,0 +1,86 @@
+/**
+ * The commanded path (dashed, so it differs from trails by pattern as well as colour), the
+ * positioner's current commanded point, the antenna direction, and the selected track's trail
+ * drawn thick. Screen space; the path is rebuilt only when it or the view changes.
+ */
+import { Container, Graphics } from 'pixi.js';
+import type { PathPointWire } from '../../../bridge/server/protocol.ts';
+import type { DashboardState } from '../stream/state.ts';
+import { antennaColour, commandedColour, trackColour } from './palette.ts';
+import { type View, toScreen } from './view.ts';
+
+const DASH_PX = 8;
+const GAP_PX = 6;
+
+export class PathLayer {
+  readonly container = new Container();
+  private readonly path = new Graphics();
+  private readonly live = new Graphics();
+  private pathKey = '';
+
+  constructor() {
+    this.container.addChild(this.path, this.live);
+  }
+
+  update(view: View, state: DashboardState, coverageM: number, selectedId: number | null, trailFromS: number): void {
+    const key = `${state.commandedVersion},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height}`;
+    if (key !== this.pathKey) {
+      this.pathKey = key;
+      drawDashed(this.path.clear(), view, state.commanded);
+    }
+    const g = this.live.clear();
+    const sel = selectedId === null ? undefined : state.tracks.get(selectedId);
+    if (sel) {
+      // Only one track, so re-stroking its visible trail each frame is cheap.
+      const h = sel.history;
+      const from = Math.max(h.firstSeq, h.seqAtOrAfter(trailFromS));
+      for (let s = from; s < h.pushed; s++) {
+        const i = s % h.capacity;
+        const p = toScreen(view, h.x[i], h.y[i]);
+        if (s === from) g.moveTo(p.px, p.py); else g.lineTo(p.px, p.py);
+      }
+      if (h.pushed - from > 1) g.stroke({ width: 3, color: trackColour(sel.id), alpha: 0.9 });
+    }
+    const pos = state.positioner;
+    if (pos) {
+      const p = toScreen(view, pos.cmdX, pos.cmdY);
+      g.moveTo(p.px - 7, p.py - 7).lineTo(p.px + 7, p.py + 7).moveTo(p.px - 7, p.py + 7).lineTo(p.px + 7, p.py - 7)
+        .stroke({ width: 2, color: commandedColour });
+    }
+    if (state.antennaAzimuthRad !== null) {
+      const o = toScreen(view, 0, 0);
+      const az = state.antennaAzimuthRad;
+      const r = coverageM * view.scale;
+      const half = 0.05; // drawn beam half-width, radians: a hint of direction, not the real beam
+      g.moveTo(o.px, o.py)
+        .lineTo(o.px + r * Math.sin(az - half), o.py - r * Math.cos(az - half))
+        .lineTo(o.px + r * Math.sin(az + half), o.py - r * Math.cos(az + half))
+        .closePath().fill({ color: antennaColour, alpha: 0.12 });
+      g.moveTo(o.px, o.py).lineTo(o.px + r * Math.sin(az), o.py - r * Math.cos(az))
+        .stroke({ width: 1.5, color: antennaColour, alpha: 0.8 });
+    }
+  }
+}
+
+function drawDashed(g: Graphics, view: View, path: readonly PathPointWire[]): void {
+  if (path.length < 2) return;
+  let on = true;
+  let left = DASH_PX;
+  let prev = toScreen(view, path[0].x, path[0].y);
+  g.moveTo(prev.px, prev.py);
+  for (let i = 1; i < path.length; i++) {
+    const next = toScreen(view, path[i].x, path[i].y);
+    let seg = Math.hypot(next.px - prev.px, next.py - prev.py);
+    let x = prev.px, y = prev.py;
+    const ux = seg > 0 ? (next.px - prev.px) / seg : 0, uy = seg > 0 ? (next.py - prev.py) / seg : 0;
+    while (seg > 0) {
+      const d = Math.min(left, seg);
+      x += ux * d; y += uy * d;
+      if (on) g.lineTo(x, y); else g.moveTo(x, y);
+      seg -= d; left -= d;
+      if (left <= 0) { on = !on; left = on ? DASH_PX : GAP_PX; }
+    }
+    prev = next;
+  }
+  g.stroke({ width: 2, color: commandedColour, alpha: 0.85 });
+}

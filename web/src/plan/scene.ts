@@ -1,0 +1,154 @@
+/**
+ * The plan view: a pixi.js application with cached layers, rendered on demand (when a stream
+ * frame arrives or the view changes) rather than on a free-running ticker, which matters on a
+ * shared CPU with software rendering.
+ */
+import { Application, Container } from 'pixi.js';
+import type { DashboardState } from '../stream/state.ts';
+import { type Coverage, defaultCoverage } from './coverage.ts';
+import { DetectionDots } from './detection-dots.ts';
+import { background } from './palette.ts';
+import { PathLayer } from './path-layer.ts';
+import { StaticLayer } from './static-layer.ts';
+import { TrackMarkers } from './track-markers.ts';
+import { TrailLayer } from './trails.ts';
+import { type View, boundsOf, fitBounds, panBy, toScreen, zoomAt } from './view.ts';
+
+export interface PlanSettings {
+  showGrid: boolean;
+  showFixedEchoes: boolean;
+  showDetections: boolean;
+  /** Seconds of trail to show; Infinity for all that is held. */
+  trailSeconds: number;
+  /** Seconds a detection dot takes to fade out. */
+  detectionAgeS: number;
+  selectedId: number | null;
+  hoverId: number | null;
+}
+
+/** The user-facing toggles (selection and hover are set by the plan view itself). */
+export type LayerSettings = Omit<PlanSettings, 'selectedId' | 'hoverId'>;
+
+export const defaultSettings: PlanSettings = {
+  showGrid: false, showFixedEchoes: true, showDetections: true, trailSeconds: 30, detectionAgeS: 3,
+  selectedId: null, hoverId: null,
+};
+
+export class PlanScene {
+  view: View;
+  settings: PlanSettings = { ...defaultSettings };
+  coverage: Coverage = defaultCoverage;
+  /** 'webgl' or 'canvas': which renderer pixi found. */
+  rendererName = '';
+  private readonly staticLayer = new StaticLayer();
+  private readonly trails = new TrailLayer();
+  private readonly world = new Container();
+  private readonly markers = new TrackMarkers();
+  private readonly paths = new PathLayer();
+  private dots!: DetectionDots;
+  private state: DashboardState | null = null;
+  private pending = false;
+
+  private constructor(private readonly app: Application, width: number, height: number) {
+    this.view = { centreX: 0, centreY: 0, scale: 50, width, height };
+  }
+
+  static async create(host: HTMLElement): Promise<PlanScene> {
+    const app = new Application();
+    const width = Math.max(1, host.clientWidth), height = Math.max(1, host.clientHeight);
+    // WebGL first (SwiftShader when there is no GPU), canvas as the fallback; WebGPU is left out
+    // because headless software stacks advertise it without being able to draw with it.
+    await app.init({
+      width, height, preference: ['webgl', 'canvas'], failIfMajorPerformanceCaveat: false,
+      background, antialias: true, autoStart: false, resolution: window.devicePixelRatio || 1, autoDensity: true,
+    });
+    app.ticker.stop();
+    host.appendChild(app.canvas);
+    const scene = new PlanScene(app, width, height);
+    scene.rendererName = app.renderer.name;
+    scene.dots = new DetectionDots(app.renderer);
+    scene.world.addChild(scene.trails.container);
+    app.stage.addChild(scene.staticLayer.container, scene.dots.fixedContainer, scene.world, scene.paths.container,
+      scene.dots.container, scene.markers.container);
+    scene.reset();
+    return scene;
+  }
+
+  get canvas(): HTMLCanvasElement {
+    return this.app.canvas;
+  }
+
+  resize(width: number, height: number): void {
+    this.app.renderer.resize(width, height);
+    this.view = { ...this.view, width, height };
+    this.requestRender();
+  }
+
+  setState(state: DashboardState): void {
+    this.state = state;
+    this.requestRender();
+  }
+
+  setSettings(patch: Partial<PlanSettings>): void {
+    this.settings = { ...this.settings, ...patch };
+    this.requestRender();
+  }
+
+  zoomAt(px: number, py: number, factor: number): void { this.setView(zoomAt(this.view, px, py, factor)); }
+  panBy(dx: number, dy: number): void { this.setView(panBy(this.view, dx, dy)); }
+
+  /** Show the whole coverage with the radar in it. */
+  reset(): void {
+    const r = this.coverage.maxRangeM;
+    this.setView(fitBounds(this.view, { minX: -r, minY: -r, maxX: r, maxY: r }, 28));
+  }
+
+  /** Frame the current tracks and their visible trails; falls back to reset when there are none. */
+  fitTracks(): void {
+    const s = this.state;
+    const pts: { x: number; y: number }[] = [];
+    if (s) for (const t of s.tracks.values()) {
+      const h = t.history;
+      const from = Math.max(h.firstSeq, h.seqAtOrAfter(s.timeS - this.settings.trailSeconds));
+      for (let q = from; q < h.pushed; q += 8) pts.push({ x: h.x[q % h.capacity], y: h.y[q % h.capacity] });
+      pts.push({ x: t.latest.x, y: t.latest.y });
+    }
+    const b = boundsOf(pts);
+    if (b) this.setView(fitBounds(this.view, b, 60)); else this.reset();
+  }
+
+  pick(px: number, py: number): number | null { return this.markers.pick(px, py); }
+  project(x: number, y: number): { px: number; py: number } { return toScreen(this.view, x, y); }
+
+  private setView(v: View): void {
+    this.view = v;
+    this.requestRender();
+  }
+
+  /** Coalesce every change within a frame into one render. */
+  requestRender(): void {
+    if (this.pending) return;
+    this.pending = true;
+    requestAnimationFrame(() => { this.pending = false; this.renderNow(); });
+  }
+
+  /** The render step: layer updates plus the pixi draw. */
+  renderNow(): void {
+    const v = this.view, s = this.state, o = this.settings;
+    this.staticLayer.update(v, this.coverage, o.showGrid);
+    this.world.position.set(v.width / 2 - v.centreX * v.scale, v.height / 2 + v.centreY * v.scale);
+    this.world.scale.set(v.scale, -v.scale);
+    if (s) {
+      this.dots.updateFixed(v, s.fixedEchoes, s.fixedVersion, o.showFixedEchoes);
+      this.trails.update(s.tracks, s.timeS, o.trailSeconds, s.epoch);
+      this.paths.update(v, s, this.coverage.maxRangeM, o.selectedId, s.timeS - o.trailSeconds);
+      this.dots.update(v, s.detections, s.timeS, o.detectionAgeS, o.showDetections);
+      this.markers.update(v, s.tracks, o.selectedId, o.hoverId);
+    }
+    this.app.render();
+  }
+
+  destroy(): void {
+    this.app.destroy(true, { children: true });
+  }
+}

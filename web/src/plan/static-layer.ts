@@ -1,0 +1,97 @@
+/**
+ * Range rings, azimuth spokes, coverage and the optional metric grid. Drawn in screen space and
+ * rebuilt only when the view (pan, zoom, size) or a toggle changes, never per stream frame.
+ */
+import { Container, Graphics, Text } from 'pixi.js';
+import { type Coverage, arcPoints, isFullTurn } from './coverage.ts';
+import { coverageColour, gridColour, ringColour, ringLabelColour } from './palette.ts';
+import { type View, niceStep, toScreen, visibleBounds } from './view.ts';
+
+const SPOKE_STEP_DEG = 30;
+
+export class StaticLayer {
+  readonly container = new Container();
+  private readonly lines = new Graphics();
+  private readonly labels: Text[] = [];
+  private key = '';
+
+  constructor() {
+    this.container.addChild(this.lines);
+  }
+
+  update(view: View, coverage: Coverage, showGrid: boolean): void {
+    const key = `${view.centreX},${view.centreY},${view.scale},${view.width},${view.height},${showGrid},${JSON.stringify(coverage)}`;
+    if (key === this.key) return;
+    this.key = key;
+    const g = this.lines.clear();
+    let label = 0;
+    this.drawCoverage(g, view, coverage);
+    const step = niceStep(view.scale);
+    if (showGrid) this.drawGrid(g, view, step);
+    const o = toScreen(view, 0, 0);
+    const far = Math.max(coverage.maxRangeM, step);
+    // Rings every `step` out to the coverage edge, labelled along the 45° spoke where they do not
+    // collide with the 0° spoke's labels.
+    const labelAz = Math.PI / 4;
+    for (let r = step; r <= far + 1e-9; r += step) {
+      g.circle(o.px, o.py, r * view.scale).stroke({ width: 1, color: ringColour, alpha: 0.55 });
+      const p = toScreen(view, r * Math.sin(labelAz), r * Math.cos(labelAz));
+      this.placeLabel(label++, `${trimNumber(r)} m`, p.px + 3, p.py - 3, 0, 1);
+    }
+    const spokeR = far * view.scale;
+    for (let deg = 0; deg < 360; deg += SPOKE_STEP_DEG) {
+      const az = (deg * Math.PI) / 180;
+      const dx = Math.sin(az), dy = -Math.cos(az);
+      g.moveTo(o.px + dx * 8, o.py + dy * 8).lineTo(o.px + dx * spokeR, o.py + dy * spokeR);
+      this.placeLabel(label++, `${deg}°`, o.px + dx * (spokeR + 14), o.py + dy * (spokeR + 14), 0.5, 0.5);
+    }
+    g.stroke({ width: 1, color: ringColour, alpha: 0.35 });
+    // The radar itself: a small open square with a tick towards 0°, distinct from track symbols.
+    g.rect(o.px - 5, o.py - 5, 10, 10).stroke({ width: 2, color: ringLabelColour, alpha: 0.9 });
+    g.moveTo(o.px, o.py - 5).lineTo(o.px, o.py - 12).stroke({ width: 2, color: ringLabelColour, alpha: 0.9 });
+    for (let i = label; i < this.labels.length; i++) this.labels[i].visible = false;
+  }
+
+  private drawCoverage(g: Graphics, view: View, c: Coverage): void {
+    const full = isFullTurn(c);
+    const outer = arcPoints(c.maxRangeM, c.sectorStartRad, full ? c.sectorStartRad + 2 * Math.PI : c.sectorEndRad);
+    const inner = arcPoints(c.minRangeM, c.sectorStartRad, full ? c.sectorStartRad + 2 * Math.PI : c.sectorEndRad).reverse();
+    const poly = [...outer, ...inner].flatMap((p) => { const s = toScreen(view, p.x, p.y); return [s.px, s.py]; });
+    g.poly(poly, true).fill({ color: coverageColour, alpha: 0.9 });
+    if (full) {
+      const o = toScreen(view, 0, 0);
+      g.circle(o.px, o.py, c.minRangeM * view.scale).fill({ color: 0x0c1116, alpha: 1 });
+    }
+  }
+
+  private drawGrid(g: Graphics, view: View, step: number): void {
+    const b = visibleBounds(view);
+    for (let x = Math.ceil(b.minX / step) * step; x <= b.maxX; x += step) {
+      const s = toScreen(view, x, 0);
+      g.moveTo(s.px, 0).lineTo(s.px, view.height);
+    }
+    for (let y = Math.ceil(b.minY / step) * step; y <= b.maxY; y += step) {
+      const s = toScreen(view, 0, y);
+      g.moveTo(0, s.py).lineTo(view.width, s.py);
+    }
+    g.stroke({ width: 1, color: gridColour, alpha: 0.8 });
+  }
+
+  private placeLabel(i: number, text: string, x: number, y: number, ax: number, ay: number): void {
+    let t = this.labels[i];
+    if (!t) {
+      t = new Text({ text, style: { fontFamily: 'system-ui, sans-serif', fontSize: 12, fill: ringLabelColour } });
+      this.labels[i] = t;
+      this.container.addChild(t);
+    }
+    if (t.text !== text) t.text = text;
+    t.anchor.set(ax, ay);
+    t.position.set(Math.round(x), Math.round(y));
+    t.visible = true;
+  }
+}
+
+/** "0.5", "1", "2.5": ring labels without trailing zeros. */
+export function trimNumber(v: number): string {
+  return Number(v.toPrecision(6)).toString();
+}

@@ -1,0 +1,119 @@
+/**
+ * The one WebSocket connection to the bridge. Frames are validated with the shared zod schema,
+ * queued, and applied together once per animation frame; listeners hear once per frame at most.
+ */
+import { clientMessage, serverMessage, type ClientMessage } from '../../../bridge/server/protocol.ts';
+import { applyMessage } from './reduce.ts';
+import { type DashboardState, type StateLimits, createState, defaultLimits } from './state.ts';
+
+export interface StreamClientOptions {
+  /** WebSocket URL; defaults to /ws on the page's own host. */
+  url?: string;
+  limits?: StateLimits;
+  /** Longest wait between reconnection attempts, ms. */
+  maxBackoffMs?: number;
+}
+
+export type FrameListener = (state: DashboardState) => void;
+
+export class StreamClient {
+  readonly state: DashboardState = createState();
+  private readonly url: string;
+  private readonly limits: StateLimits;
+  private readonly maxBackoffMs: number;
+  private socket: WebSocket | null = null;
+  private queue: unknown[] = [];
+  private frameRequested = false;
+  private listeners = new Set<FrameListener>();
+  private backoffMs = 250;
+  private closedByUser = false;
+
+  constructor(options: StreamClientOptions = {}) {
+    const proto = location.protocol === 'https:' ? 'wss:' : 'ws:';
+    this.url = options.url ?? `${proto}//${location.host}/ws`;
+    this.limits = options.limits ?? defaultLimits;
+    this.maxBackoffMs = options.maxBackoffMs ?? 5000;
+  }
+
+  connect(): void {
+    this.closedByUser = false;
+    this.state.connection = 'connecting';
+    const ws = new WebSocket(this.url);
+    this.socket = ws;
+    ws.onopen = () => {
+      this.backoffMs = 250;
+      this.state.connection = 'open';
+      this.send({ type: 'list-sessions' });
+      this.requestFrame();
+    };
+    ws.onmessage = (ev) => {
+      if (typeof ev.data !== 'string') return;
+      this.queue.push(ev.data);
+      this.requestFrame();
+    };
+    ws.onclose = () => {
+      this.state.connection = 'closed';
+      this.requestFrame();
+      if (!this.closedByUser) setTimeout(() => this.connect(), this.nextBackoff());
+    };
+  }
+
+  close(): void {
+    this.closedByUser = true;
+    this.socket?.close();
+  }
+
+  /** Send a control message; refused locally if it would not pass the server's schema. */
+  send(msg: ClientMessage): boolean {
+    const checked = clientMessage.safeParse(msg);
+    if (!checked.success || this.socket?.readyState !== WebSocket.OPEN) return false;
+    this.socket.send(JSON.stringify(checked.data));
+    return true;
+  }
+
+  onFrame(listener: FrameListener): () => void {
+    this.listeners.add(listener);
+    return () => this.listeners.delete(listener);
+  }
+
+  private nextBackoff(): number {
+    const wait = this.backoffMs;
+    this.backoffMs = Math.min(this.maxBackoffMs, this.backoffMs * 2);
+    return wait;
+  }
+
+  private requestFrame(): void {
+    if (this.frameRequested) return;
+    this.frameRequested = true;
+    requestAnimationFrame(() => this.flush());
+  }
+
+  private flush(): void {
+    this.frameRequested = false;
+    const batch = this.queue;
+    this.queue = [];
+    for (const text of batch) applyFrame(this.state, text as string, this.limits);
+    for (const l of this.listeners) l(this.state);
+  }
+}
+
+/** Parse and validate one text frame; refused frames are counted, never applied. */
+export function applyFrame(state: DashboardState, text: string, limits: StateLimits = defaultLimits): boolean {
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch {
+    state.invalidFrames++;
+    state.lastInvalid = 'not JSON';
+    return false;
+  }
+  const parsed = serverMessage.safeParse(json);
+  if (!parsed.success) {
+    state.invalidFrames++;
+    const issue = parsed.error.issues[0];
+    state.lastInvalid = issue ? `${issue.path.join('.') || 'frame'}: ${issue.message}` : 'schema mismatch';
+    return false;
+  }
+  applyMessage(state, parsed.data, limits);
+  return true;
+}

@@ -1,0 +1,79 @@
+/**
+ * Number formatting for the screen. Every value leaves here with its unit, so no panel can
+ * forget one; missing values read "—" rather than "NaN" or "null".
+ */
+const DASH = '—';
+const DEG = 180 / Math.PI;
+
+function ok(v: number | null | undefined): v is number {
+  return typeof v === 'number' && Number.isFinite(v);
+}
+
+/** Angle in radians → "123.4°", normalised to [0, 360). */
+export function formatAngle(rad: number | null | undefined, digits = 1): string {
+  if (!ok(rad)) return DASH;
+  return `${normaliseDegrees(rad * DEG).toFixed(digits)}°`;
+}
+
+/** Degrees in [0, 360); -0 and 360 fold to 0 so the list never shows "360.0°". */
+export function normaliseDegrees(deg: number): number {
+  const d = ((deg % 360) + 360) % 360;
+  return d >= 359.99995 || Object.is(d, -0) ? 0 : d;
+}
+
+export function formatMetres(m: number | null | undefined, digits = 2): string {
+  return ok(m) ? `${m.toFixed(digits)} m` : DASH;
+}
+
+/** Signed metres keep an explicit "+" so cross/along-track errors read unambiguously. */
+export function formatSignedMetres(m: number | null | undefined, digits = 3): string {
+  if (!ok(m)) return DASH;
+  return `${m > 0 ? '+' : m < 0 ? '−' : '±'}${Math.abs(m).toFixed(digits)} m`;
+}
+
+export function formatSpeed(mps: number | null | undefined, digits = 2): string {
+  return ok(mps) ? `${mps.toFixed(digits)} m/s` : DASH;
+}
+
+/** Durations: seconds below a minute, m:ss above, always unit-marked. */
+export function formatDuration(s: number | null | undefined): string {
+  if (!ok(s)) return DASH;
+  if (Math.abs(s) < 60) return `${s.toFixed(1)} s`;
+  const sign = s < 0 ? '−' : '';
+  const a = Math.abs(s);
+  const min = Math.floor(a / 60);
+  const sec = a - min * 60;
+  return `${sign}${min} min ${sec.toFixed(0).padStart(2, '0')} s`;
+}
+
+/** Timeline clock "m:ss.s" for the replay bar (the unit is in the label beside it). */
+export function formatClock(s: number | null | undefined): string {
+  if (!ok(s) || s < 0) return '0:00.0';
+  const min = Math.floor(s / 60);
+  const sec = s - min * 60;
+  return `${min}:${sec.toFixed(1).padStart(4, '0')}`;
+}
+
+export function formatMs(ms: number | null | undefined): string {
+  return ok(ms) ? `${ms < 10 ? ms.toFixed(1) : ms.toFixed(0)} ms` : DASH;
+}
+
+export function formatRate(perS: number | null | undefined, unit = 'det/s'): string {
+  return ok(perS) ? `${perS.toFixed(perS < 10 ? 1 : 0)} ${unit}` : DASH;
+}
+
+/** Track quality 0..1 shown as a percentage. */
+export function formatQuality(q: number | null | undefined): string {
+  return ok(q) ? `${Math.round(Math.min(1, Math.max(0, q)) * 100)} %` : DASH;
+}
+
+export function formatSpeedFactor(f: number | null | undefined): string {
+  if (!ok(f)) return DASH;
+  return `${f < 1 ? f.toFixed(2).replace(/0$/, '') : f.toFixed(f < 10 ? 1 : 0).replace(/\.0$/, '')}×`;
+}
+
+/** Short times (lags, steps): milliseconds below one second, seconds above. */
+export function formatShortTime(s: number | null | undefined): string {
+  if (!ok(s)) return DASH;
+  return Math.abs(s) < 1 ? `${(s * 1000).toFixed(0)} ms` : `${s.toFixed(2)} s`;
+}

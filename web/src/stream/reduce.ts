@@ -1,0 +1,111 @@
+/**
+ * Folds validated server messages into the dashboard state. Pure apart from mutating `state`,
+ * which keeps it testable without a socket or a browser.
+ */
+import type { ServerMessage, TrackWire } from '../../../bridge/server/protocol.ts';
+import type { HistoryRing } from './ring.ts';
+import {
+  type DashboardState, type StateLimits, defaultLimits, loadFlatHistory, newTrack, pruneDetections,
+} from './state.ts';
+
+/** A scan this far behind the latest time means the replay jumped back without a snapshot. */
+const BACKWARD_JUMP_S = 0.5;
+
+export function applyMessage(state: DashboardState, msg: ServerMessage, limits: StateLimits = defaultLimits): void {
+  switch (msg.type) {
+    case 'hello':
+      state.serverName = msg.server;
+      return;
+    case 'snapshot':
+      restart(state, msg.timeS);
+      state.source = msg.source;
+      state.replay = msg.replay;
+      for (const w of msg.tracks) state.tracks.set(w.id, newTrack(w, limits));
+      for (const h of msg.history) {
+        const entry = state.tracks.get(h.id);
+        if (!entry) continue;
+        loadFlatHistory(entry.history, h.points);
+        if (entry.history.length > 0) entry.firstSeenS = entry.history.timeS[entry.history.slot(entry.history.firstSeq)];
+      }
+      // Tracks without sent history still get their current point, so a trail can start.
+      for (const entry of state.tracks.values()) if (entry.history.length === 0) pushUpdate(entry.history, entry.latest);
+      for (const d of msg.detections) addDetection(state, d.timeS, d.azimuthRad, d.rangeM, d.fixed ?? false);
+      setFixedEchoes(state, msg.fixedEchoes);
+      setCommanded(state, msg.commanded);
+      pruneDetections(state, limits);
+      return;
+    case 'scan':
+      if (msg.timeS < state.timeS - BACKWARD_JUMP_S) restart(state, msg.timeS);
+      state.timeS = Math.max(state.timeS, msg.timeS);
+      for (const d of msg.detections) addDetection(state, d.timeS, d.azimuthRad, d.rangeM, d.fixed ?? false);
+      for (const w of msg.updates) {
+        let entry = state.tracks.get(w.id);
+        if (!entry) {
+          entry = newTrack(w, limits);
+          state.tracks.set(w.id, entry);
+        }
+        entry.latest = w;
+        pushUpdate(entry.history, w);
+      }
+      for (const del of msg.deletions) state.tracks.delete(del.id);
+      if (msg.antennaAzimuthRad !== null) state.antennaAzimuthRad = msg.antennaAzimuthRad;
+      if (msg.positioner.length > 0) state.positioner = msg.positioner[msg.positioner.length - 1];
+      pruneDetections(state, limits);
+      return;
+    case 'fixed-echoes':
+      setFixedEchoes(state, msg.echoes);
+      return;
+    case 'source':
+      state.source = msg.source;
+      return;
+    case 'replay':
+      state.replay = msg.replay;
+      return;
+    case 'commanded':
+      setCommanded(state, msg.path);
+      return;
+    case 'comparison':
+      state.comparison = msg.figures;
+      state.comparisonHistory.push(msg.figures);
+      if (state.comparisonHistory.length > limits.comparisonPoints) state.comparisonHistory.shift();
+      return;
+    case 'sessions':
+      state.sessions = msg.sessions;
+      return;
+    case 'error':
+      state.lastError = { code: msg.code, message: msg.message };
+      return;
+  }
+}
+
+function restart(state: DashboardState, timeS: number): void {
+  state.tracks.clear();
+  state.detections.length = 0;
+  state.comparison = null;
+  state.comparisonHistory.length = 0;
+  state.positioner = null;
+  state.timeS = timeS;
+  state.epoch++;
+}
+
+function pushUpdate(ring: HistoryRing, w: TrackWire): void {
+  const last = ring.last();
+  // Repeated updates at the same time (a coast and a hit in one scan) keep only the newest.
+  if (last && w.timeS <= last.timeS) return;
+  ring.push({ timeS: w.timeS, x: w.x, y: w.y, speed: w.speed, headingRad: w.headingRad });
+}
+
+function addDetection(state: DashboardState, timeS: number, azimuthRad: number, rangeM: number, fixed: boolean): void {
+  state.detections.push({ timeS, x: rangeM * Math.sin(azimuthRad), y: rangeM * Math.cos(azimuthRad), fixed });
+}
+
+function setFixedEchoes(state: DashboardState, echoes: { x: number; y: number; amplitude: number }[]): void {
+  state.fixedEchoes = echoes.map((e) => ({ x: e.x, y: e.y, amplitude: e.amplitude }));
+  state.fixedVersion++;
+}
+
+function setCommanded(state: DashboardState, path: DashboardState['commanded']): void {
+  if (path.length === 0 && state.commanded.length === 0) return;
+  state.commanded = path;
+  state.commandedVersion++;
+}
