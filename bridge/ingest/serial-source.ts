@@ -1,0 +1,150 @@
+/**
+ * Live input from the acquisition hardware over a serial port, in the line protocol of
+ * line-protocol.ts. Bad lines are counted and reported with their numbers, never fatal.
+ *
+ * When the device goes away (USB unplugged, socat killed: the port closes with
+ * `err.disconnected`, and the device path vanishes) the source reports 'waiting' and tries to
+ * reopen the path with a doubling, capped delay until the device is back: no restart needed.
+ */
+import { EventEmitter } from 'node:events';
+import { SerialPort } from 'serialport';
+import type { BadLine, Source, SourceState } from './source.ts';
+import { parseLine } from './line-protocol.ts';
+import { LineSplitter } from './line-splitter.ts';
+import { resolveSerialOptions, type SerialSourceOptions } from './serial-options.ts';
+
+export { resolveSerialOptions, type SerialSourceOptions };
+
+/** Counters a status display needs. */
+export interface SerialCounters {
+  /** Lines received since start(). */
+  lines: number;
+  /** Lines refused since start(). */
+  badLines: number;
+  /** The most recent refused line. */
+  lastBad: BadLine | null;
+  /** Times the device was (re)opened. */
+  opens: number;
+}
+
+export class SerialSource extends EventEmitter implements Source {
+  readonly kind = 'serial' as const;
+  readonly carriesTracks = false;
+  readonly name: string;
+  readonly options: SerialSourceOptions;
+  private port: SerialPort | null = null;
+  private splitter: LineSplitter;
+  private stopped = true;
+  private current: SourceState = 'disconnected';
+  private retryTimer: NodeJS.Timeout | null = null;
+  private backoffMs: number;
+  private readonly counters: SerialCounters = { lines: 0, badLines: 0, lastBad: null, opens: 0 };
+
+  constructor(options: Partial<SerialSourceOptions> & { path: string }) {
+    super();
+    this.options = resolveSerialOptions(options);
+    this.name = this.options.path;
+    this.splitter = new LineSplitter(this.options.maxLineBytes);
+    this.backoffMs = this.options.reopenInitialMs;
+  }
+
+  /** Opens the port. Resolves even when the device is absent: the source then waits for it. */
+  async start(): Promise<void> {
+    if (!this.stopped) return;
+    this.stopped = false;
+    await this.tryOpen();
+  }
+
+  async close(): Promise<void> {
+    this.stopped = true;
+    if (this.retryTimer) clearTimeout(this.retryTimer);
+    this.retryTimer = null;
+    const port = this.port;
+    this.port = null;
+    if (port?.isOpen) await new Promise<void>((res) => port.close(() => res()));
+    this.setState('disconnected');
+  }
+
+  /** Current state: live, waiting (device absent, retrying) or disconnected (closed). */
+  get state(): SourceState {
+    return this.current;
+  }
+
+  stats(): SerialCounters {
+    return { ...this.counters };
+  }
+
+  private setState(s: SourceState, detail?: string): void {
+    if (s === this.current) return;
+    this.current = s;
+    this.emit('state', s, detail);
+  }
+
+  private tryOpen(): Promise<void> {
+    const o = this.options;
+    const port = new SerialPort({ path: o.path, baudRate: o.baudRate, dataBits: o.dataBits, parity: o.parity, stopBits: o.stopBits, autoOpen: false });
+    // Listen before opening: an 'error' without a listener would crash the bridge.
+    port.on('error', (err: Error) => this.emit('state', this.current, `serial error: ${err.message}`));
+    return new Promise((resolve) => {
+      port.open((err) => {
+        if (this.stopped) {
+          if (!err) port.close();
+          return resolve();
+        }
+        if (err) {
+          this.setState('waiting', `cannot open ${o.path}: ${err.message}; retrying`);
+          this.scheduleReopen();
+          return resolve();
+        }
+        this.port = port;
+        this.counters.opens++;
+        this.backoffMs = o.reopenInitialMs;
+        port.on('data', (chunk: Buffer) => this.onData(chunk, performance.now()));
+        port.on('close', (closeErr?: Error & { disconnected?: boolean }) => this.onClose(port, closeErr));
+        this.setState('live', `opened ${o.path} at ${o.baudRate} baud`);
+        resolve();
+      });
+    });
+  }
+
+  private onClose(port: SerialPort, err?: Error & { disconnected?: boolean }): void {
+    if (this.port !== port) return;
+    this.port = null;
+    const partial = this.splitter.reset();
+    if (partial > 0) this.refuse({ line: this.counters.lines + 1, reason: `line cut off after ${partial} bytes when the port closed`, text: '' });
+    if (this.stopped) return;
+    const why = err?.disconnected ? 'device disconnected' : `port closed${err ? `: ${err.message}` : ''}`;
+    this.setState('waiting', `${why}; waiting for ${this.options.path} to return`);
+    this.scheduleReopen();
+  }
+
+  private scheduleReopen(): void {
+    if (this.stopped || this.retryTimer) return;
+    const wait = this.backoffMs;
+    this.backoffMs = Math.min(this.backoffMs * 2, this.options.reopenMaxMs);
+    this.retryTimer = setTimeout(() => {
+      this.retryTimer = null;
+      if (!this.stopped) void this.tryOpen();
+    }, wait);
+  }
+
+  private onData(chunk: Buffer, receivedAtMs: number): void {
+    for (const l of this.splitter.push(chunk)) {
+      this.counters.lines = l.line;
+      if (l.oversized !== undefined) {
+        this.refuse({ line: l.line, reason: `no newline within ${this.options.maxLineBytes} bytes; line dropped`, text: l.text });
+        continue;
+      }
+      if (l.text === '' || l.text === '\r') continue; // blank lines separate bursts; not an error
+      const r = parseLine(l.text, l.line);
+      if (r.ok) this.emit('record', r.record, receivedAtMs);
+      else this.refuse(r.bad);
+    }
+  }
+
+  private refuse(bad: BadLine): void {
+    this.counters.badLines++;
+    this.counters.lastBad = bad;
+    this.emit('bad', bad);
+  }
+}
