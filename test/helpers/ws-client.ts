@@ -59,9 +59,22 @@ export class TestClient {
     return this.closed;
   }
 
+  /** Stops reading from the socket, as a stuck browser tab would (bytes pile up at the server). */
+  pauseReading(): void {
+    (this.ws as unknown as { _socket: { pause(): void } })._socket.pause();
+  }
+
+  resumeReading(): void {
+    (this.ws as unknown as { _socket: { resume(): void } })._socket.resume();
+  }
+
   async close(): Promise<void> {
     if (this.ws.readyState === WebSocket.CLOSED) return;
+    // A paused socket would never see the server's close: read again, and give up after a second.
+    (this.ws as unknown as { _socket?: { resume(): void } })._socket?.resume();
     this.ws.close();
+    const timer = setTimeout(() => this.ws.terminate(), 1000);
     await this.closed;
+    clearTimeout(timer);
   }
 }
