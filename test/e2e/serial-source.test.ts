@@ -1,0 +1,122 @@
+/**
+ * SerialSource against a real pseudo-terminal pair made by socat: lines written at one end come
+ * out as records at the other; killing socat makes the device vanish, restarting it brings it
+ * back, and the source recovers by itself.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawn, type ChildProcess } from 'node:child_process';
+import { closeSync, existsSync, mkdtempSync, openSync, rmSync, writeSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { SerialSource } from '../../bridge/ingest/serial-source.ts';
+import { encodeLine } from '../../bridge/ingest/line-protocol.ts';
+import type { BadLine, SourceRecord, SourceState } from '../../bridge/ingest/source.ts';
+
+const SOCAT = '/usr/bin/socat';
+const haveSocat = existsSync(SOCAT);
+if (!haveSocat) {
+  if (process.env.CI === 'true') throw new Error(`${SOCAT} is missing: the serial end-to-end test cannot run under CI=true`);
+  console.warn(`skipping serial end-to-end tests: ${SOCAT} not found (install socat)`);
+}
+
+/** Polls until `pred` holds; the timeout only stops a hung test, it measures nothing. */
+async function waitFor(pred: () => boolean, what: string, timeoutMs = 20_000): Promise<void> {
+  const end = Date.now() + timeoutMs;
+  while (!pred()) {
+    if (Date.now() > end) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 20));
+  }
+}
+
+describe.skipIf(!haveSocat)('SerialSource over a socat pty pair', () => {
+  let dir: string;
+  let a: string;
+  let b: string;
+  let socat: ChildProcess | null = null;
+  let source: SerialSource;
+  const records: SourceRecord[] = [];
+  const bad: BadLine[] = [];
+  const states: SourceState[] = [];
+
+  async function startSocat(): Promise<void> {
+    socat = spawn(SOCAT, ['-d', '-d', `pty,raw,echo=0,link=${a}`, `pty,raw,echo=0,link=${b}`], { stdio: 'ignore' });
+    await waitFor(() => existsSync(a) && existsSync(b), 'socat links');
+  }
+
+  async function killSocat(): Promise<void> {
+    const p = socat!;
+    socat = null;
+    const gone = new Promise((r) => p.once('exit', r));
+    p.kill('SIGKILL');
+    await gone;
+  }
+
+  /** Writes raw bytes into the far end of the pair, as the hardware would. */
+  function send(text: string | Buffer): void {
+    const fd = openSync(b, 'w');
+    try {
+      writeSync(fd, typeof text === 'string' ? Buffer.from(text, 'latin1') : text);
+    } finally {
+      closeSync(fd);
+    }
+  }
+
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), 'echotrail-serial-'));
+    a = join(dir, 'a');
+    b = join(dir, 'b');
+    await startSocat();
+    source = new SerialSource({ path: a, baudRate: 115200, reopenInitialMs: 50, reopenMaxMs: 400 });
+    source.on('record', (r: SourceRecord) => records.push(r));
+    source.on('bad', (x: BadLine) => bad.push(x));
+    source.on('state', (s: SourceState) => states.push(s));
+    await source.start();
+    await waitFor(() => source.state === 'live', 'the port to open');
+  });
+
+  afterAll(async () => {
+    await source?.close();
+    if (socat) await killSocat();
+    rmSync(dir, { recursive: true, force: true });
+  });
+
+  it('turns written lines into records and refuses bad ones with their line numbers', async () => {
+    const det = encodeLine({ kind: 'detection', detection: { timeS: 1.25, azimuthRad: 0.75, rangeM: 2.5, amplitude: 300 } });
+    const ant = encodeLine({ kind: 'antenna', sample: { timeS: 1.3, azimuthRad: 0.8 } });
+    const pos = encodeLine({ kind: 'positioner', sample: { timeS: 1.3, cmdX: 0.5, cmdY: 2, measX: 0.49, measY: 2.01 } });
+    const corrupted = det.replace('2.5000', '2.6000');
+    // line 1 det, 2 ant, 3 corrupted, 4 binary junk, 5 a 6000-byte line without spaces, 6 pos
+    send(`${det}\r\n${ant}\n${corrupted}\n`);
+    send(Buffer.concat([Buffer.from([0x00, 0xff, 0x80, 0x1b]), Buffer.from('\n')]));
+    send('Z'.repeat(6000) + '\n' + pos + '\n');
+    await waitFor(() => records.length >= 3 && bad.length >= 3, 'three records and three bad lines');
+    expect(records.map((r) => r.kind)).toEqual(['detection', 'antenna', 'positioner']);
+    const d = records[0];
+    if (d.kind !== 'detection') throw new Error('first record is not a detection');
+    expect(d.detection.rangeM).toBeCloseTo(2.5, 6);
+    expect(d.detection.azimuthRad).toBeCloseTo(0.75, 5);
+    expect(d.detection.line).toBe(1);
+    expect(bad.map((x) => x.line)).toEqual([3, 4, 5]);
+    expect(bad[0].reason).toMatch(/checksum/);
+    expect(bad[1].reason).toMatch(/non-printable/);
+    expect(bad[2].reason).toMatch(/no newline within 4096 bytes/);
+    expect(source.stats().badLines).toBe(3);
+  });
+
+  it('reports waiting when socat dies and recovers by itself when it returns', async () => {
+    await killSocat();
+    await waitFor(() => source.state === 'waiting', "state 'waiting'");
+    expect(existsSync(a)).toBe(false);
+    const opensBefore = source.stats().opens;
+    await startSocat();
+    await waitFor(() => source.state === 'live', "state 'live' again");
+    expect(source.stats().opens).toBe(opensBefore + 1);
+    const n = records.length;
+    send(encodeLine({ kind: 'antenna', sample: { timeS: 9, azimuthRad: 1 } }) + '\n');
+    await waitFor(() => records.length > n, 'a record after the reopen');
+    const last = records[records.length - 1];
+    expect(last.kind).toBe('antenna');
+    expect(states).toContain('waiting');
+    expect(states.filter((s) => s === 'live').length).toBeGreaterThanOrEqual(2);
+  });
+});
