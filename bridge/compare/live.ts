@@ -1,0 +1,159 @@
+/**
+ * Running comparison for the live view and replays: fed the commanded path (or positioner samples
+ * as they arrive) and every track update, it keeps the `ComparisonFigures` of protocol.ts current.
+ *
+ *   const live = new LiveComparison();
+ *   live.setCommanded(points);          // or live.addPositioner(sample) as samples arrive
+ *   for (const u of output.updates) live.update(u);
+ *   send({ type: 'comparison', figures: live.figures() });
+ *   live.reset();                        // new run / seek in a replay
+ *
+ * Cost per update: one binary search on the path plus O(1) sums; every `lagEvery` accepted samples
+ * the lag is re-estimated over a bounded window (lag.ts), so the amortised cost stays small and
+ * memory stays bounded however long the run. rmseM, maxErrorM, alongTrackM and crossTrackM are
+ * raw (track at t against command at t): what the operator sees; lagS is reported beside them.
+ */
+import type { ComparisonFigures } from '../server/protocol.ts';
+import type { PositionerSample, TrackUpdate } from '../types.ts';
+import { deviationAt } from './deviation.ts';
+import { TrackFollower, type FollowOptions } from './follow.ts';
+import { estimateLag, type LagOptions } from './lag.ts';
+import { makeTimedPath, sampleAt, type PathPoint, type TimedPath } from './timed-path.ts';
+import { rowFromUpdate } from './track-rows.ts';
+
+/** Options of the live comparison. */
+export interface LiveComparisonOptions {
+  /** Which track is the followed one (follow.ts). */
+  follow: Partial<FollowOptions>;
+  /** Lag search settings (lag.ts); the live default search is ±1.5 s. */
+  lag: Partial<LagOptions>;
+  /** Accepted samples kept for the lag estimate (a ring buffer). */
+  lagWindow: number;
+  /** Re-estimate the lag after this many newly accepted samples. */
+  lagEvery: number;
+  /** Updates newer than the commanded path's end wait for it; at most this many are held. */
+  maxPending: number;
+}
+
+/** Defaults in one place: 240 samples ≈ a minute at 4 scans/s. */
+export function resolveLiveComparisonOptions(o: Partial<LiveComparisonOptions> = {}): LiveComparisonOptions {
+  return {
+    follow: o.follow ?? {},
+    lag: { maxLagS: 1.5, ...o.lag },
+    lagWindow: o.lagWindow ?? 240,
+    lagEvery: o.lagEvery ?? 20,
+    maxPending: o.maxPending ?? 64,
+  };
+}
+
+export class LiveComparison {
+  private readonly o: LiveComparisonOptions;
+  private path: TimedPath | null = null;
+  /** Commanded points from positioner samples, until there are two to make a path. */
+  private raw: PathPoint[] = [];
+  private follower: TrackFollower;
+  private pending: TrackUpdate[] = [];
+  private window: { timeS: number; x: number; y: number }[] = [];
+  private sinceLag = 0;
+  private n = 0;
+  private sumSq = 0;
+  private max = 0;
+  private last: { timeS: number; along: number | null; cross: number | null } = { timeS: 0, along: null, cross: null };
+  private lagS: number | null = null;
+
+  constructor(options: Partial<LiveComparisonOptions> = {}) {
+    this.o = resolveLiveComparisonOptions(options);
+    this.follower = new TrackFollower(this.o.follow);
+  }
+
+  /** Replace the commanded path (points in time order, validated); clears the figures. */
+  setCommanded(path: readonly PathPoint[] | TimedPath): void {
+    this.reset();
+    const pts = 'points' in path ? path.points : path;
+    // Own copies: positioner samples appended later extend this path in place.
+    this.path = makeTimedPath(pts.map((p) => ({ ...p })), 'commanded path');
+    this.raw = this.path.points;
+  }
+
+  /** Append one positioner record to the commanded path (resends and repeated holds are folded). */
+  addPositioner(s: PositionerSample): void {
+    const last = this.raw[this.raw.length - 1];
+    if (last && s.timeS <= last.timeS) return;
+    const prev = this.raw[this.raw.length - 2];
+    if (last && prev && last.x === s.cmdX && last.y === s.cmdY && prev.x === s.cmdX && prev.y === s.cmdY) {
+      last.timeS = s.timeS; // extend the hold: same point, later time; arc length unchanged
+    } else {
+      this.raw.push({ timeS: s.timeS, x: s.cmdX, y: s.cmdY });
+      if (this.path) {
+        const k = this.raw.length - 1;
+        this.path.cumulativeM.push(this.path.cumulativeM[k - 1] + Math.hypot(s.cmdX - this.raw[k - 1].x, s.cmdY - this.raw[k - 1].y));
+      }
+    }
+    if (!this.path && this.raw.length >= 2) this.path = makeTimedPath(this.raw, 'positioner records');
+    this.flushPending();
+  }
+
+  /** Feed one track update (any track, any status); the figures move when it is the followed one. */
+  update(u: TrackUpdate): void {
+    if (!this.path || u.timeS > this.endS()) {
+      if (this.pending.length >= this.o.maxPending) this.pending.shift();
+      this.pending.push(u);
+      return;
+    }
+    this.consume(u);
+  }
+
+  /** Current figures (cheap: nothing is recomputed here). */
+  figures(): ComparisonFigures {
+    return {
+      timeS: this.last.timeS,
+      samples: this.n,
+      rmseM: this.n ? Math.sqrt(this.sumSq / this.n) : null,
+      crossTrackM: this.last.cross,
+      alongTrackM: this.last.along,
+      maxErrorM: this.n ? this.max : null,
+      lagS: this.lagS,
+      trackId: this.follower.currentId,
+    };
+  }
+
+  /** Forget the figures, the followed track and pending updates; keep the commanded path. */
+  reset(): void {
+    this.follower = new TrackFollower(this.o.follow);
+    this.pending = [];
+    this.window = [];
+    this.sinceLag = 0;
+    this.n = 0;
+    this.sumSq = 0;
+    this.max = 0;
+    this.last = { timeS: 0, along: null, cross: null };
+    this.lagS = null;
+  }
+
+  private endS(): number {
+    return this.raw[this.raw.length - 1]?.timeS ?? -Infinity;
+  }
+
+  private flushPending(): void {
+    while (this.path && this.pending.length && this.pending[0].timeS <= this.endS()) this.consume(this.pending.shift()!);
+  }
+
+  private consume(u: TrackUpdate): void {
+    const path = this.path!;
+    const row = rowFromUpdate(u);
+    const c = sampleAt(path, u.timeS - (this.lagS ?? 0));
+    if (!this.follower.offer(row, c.x, c.y)) return;
+    const d = deviationAt(path, row);
+    this.n++;
+    this.sumSq += d.positionM ** 2;
+    this.max = Math.max(this.max, d.positionM);
+    this.last = { timeS: u.timeS, along: d.alongM, cross: d.crossM };
+    this.window.push({ timeS: u.timeS, x: u.x, y: u.y });
+    if (this.window.length > this.o.lagWindow) this.window.shift();
+    if (++this.sinceLag >= this.o.lagEvery && this.window.length >= 10) {
+      this.sinceLag = 0;
+      const e = estimateLag(path, this.window, this.o.lag);
+      if (e.lagS !== null) this.lagS = e.lagS;
+    }
+  }
+}

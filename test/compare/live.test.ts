@@ -1,0 +1,78 @@
+// The live figures must agree with the offline computation on the same data (deviation.ts,
+// lag.ts); RMSE definition common practice. Inputs: the seeded analytic run of bench-run.ts.
+import { describe, expect, it } from 'vitest';
+import { comparisonFigures } from '../../bridge/server/protocol.ts';
+import { LiveComparison } from '../../bridge/compare/live.ts';
+import { deviations } from '../../bridge/compare/deviation.ts';
+import { sampleAt } from '../../bridge/compare/timed-path.ts';
+import type { TrackRow } from '../../bridge/compare/track-rows.ts';
+import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
+import type { TrackUpdate } from '../../bridge/types.ts';
+import { benchRun } from './bench-run.ts';
+
+const path = waypointsToPath([
+  { x: -1, y: 2, dwellS: 1 }, { x: 1, y: 2, speedMps: 0.4 }, { x: 1, y: 4, speedMps: 0.4 },
+  { x: -1, y: 4, speedMps: 0.4 }, { x: -1, y: 2, speedMps: 0.4, dwellS: 1 },
+]);
+
+function toUpdate(r: TrackRow): TrackUpdate {
+  return {
+    timeS: r.timeS, id: r.id, status: r.status, x: r.x, y: r.y, vx: r.vx, vy: r.vy, speed: r.speed, headingRad: r.headingRad,
+    pxx: 0.01, pxy: 0, pyy: 0.01, quality: 0.9, moving: true, hits: 3, misses: 0,
+    measurement: r.meas ? { timeS: r.timeS, x: r.meas.x, y: r.meas.y, rxx: r.meas.sxx, rxy: r.meas.sxy, ryy: r.meas.syy } : undefined,
+  };
+}
+
+describe('LiveComparison', () => {
+  const run = benchRun(path, { seed: 4, lagS: 0.3, ghost: { x: 2.5, y: 1 } });
+
+  it('has no figures before data, and valid protocol messages after', () => {
+    const live = new LiveComparison();
+    const f0 = live.figures();
+    expect([f0.samples, f0.rmseM, f0.trackId, f0.lagS]).toEqual([0, null, null, null]);
+    live.setCommanded(path.points);
+    for (const r of run.rows) live.update(toUpdate(r));
+    expect(comparisonFigures.safeParse(live.figures()).success).toBe(true);
+  });
+
+  it('follows the target, not the ghost, and matches the offline RMSE and lag', () => {
+    const live = new LiveComparison();
+    live.setCommanded(path);
+    for (const r of run.rows) live.update(toUpdate(r));
+    const f = live.figures();
+    expect(f.trackId).toBe(1);
+    const mine = run.rows.filter((r) => r.id === 1 && r.status !== 'tentative');
+    expect(f.samples).toBe(mine.length);
+    const offline = deviations(path, mine).map((d) => d.positionM);
+    expect(f.rmseM).toBeCloseTo(Math.sqrt(offline.reduce((a, b) => a + b * b, 0) / offline.length), 9);
+    expect(f.maxErrorM).toBeCloseTo(Math.max(...offline), 9);
+    // The simulated lag is 0.3 s; the tracker's own lag adds a little (≈ 0.1 s for this filter).
+    expect(f.lagS!).toBeGreaterThan(0.25);
+    expect(f.lagS!).toBeLessThan(0.5);
+  });
+
+  it('builds the path from positioner samples arriving with the updates', () => {
+    const live = new LiveComparison();
+    const rows = [...run.rows];
+    for (let t = 0; t <= path.points[path.points.length - 1].timeS + 1e-9; t += 0.1) {
+      const c = sampleAt(path, t);
+      live.addPositioner({ timeS: t, cmdX: c.x, cmdY: c.y });
+      while (rows.length && rows[0].timeS <= t + 0.2) live.update(toUpdate(rows.shift()!)); // updates run ahead a little
+    }
+    const f = live.figures();
+    expect(f.trackId).toBe(1);
+    // Every confirmed update of the target is used once its commanded time has arrived.
+    expect(f.samples).toBe(run.rows.filter((r) => r.id === 1 && r.status !== 'tentative').length);
+    expect(f.rmseM!).toBeLessThan(0.3);
+  });
+
+  it('reset clears the figures but keeps the path', () => {
+    const live = new LiveComparison();
+    live.setCommanded(path);
+    for (const r of run.rows) live.update(toUpdate(r));
+    live.reset();
+    expect(live.figures().samples).toBe(0);
+    live.update(toUpdate(run.rows.find((r) => r.id === 1 && r.status === 'confirmed')!));
+    expect(live.figures().samples).toBe(1);
+  });
+});
