@@ -1,0 +1,47 @@
+import { describe, expect, it } from 'vitest';
+import {
+  formatAngle, formatClock, formatDuration, formatMetres, formatMs, formatQuality, formatShortTime,
+  formatSignedMetres, formatSpeed, formatSpeedFactor, normaliseDegrees,
+} from '../../web/src/stream/format.ts';
+
+describe('formatting with units', () => {
+  it('puts the unit on every number', () => {
+    expect(formatMetres(2.345)).toBe('2.35 m');
+    expect(formatSpeed(0.6)).toBe('0.60 m/s');
+    expect(formatMs(1.84)).toBe('1.8 ms');
+    expect(formatMs(42.4)).toBe('42 ms');
+    expect(formatQuality(0.634)).toBe('63 %');
+    expect(formatShortTime(0.12)).toBe('120 ms');
+    expect(formatShortTime(1.5)).toBe('1.50 s');
+  });
+
+  it('shows a dash for missing values instead of NaN or null', () => {
+    for (const f of [formatMetres, formatSpeed, formatAngle, formatMs, formatQuality, formatDuration]) {
+      expect(f(null)).toBe('—');
+      expect(f(NaN)).toBe('—');
+    }
+  });
+
+  it('turns radians into degrees in [0, 360)', () => {
+    expect(formatAngle(Math.PI / 2)).toBe('90.0°');
+    expect(formatAngle(-Math.PI / 2)).toBe('270.0°');
+    expect(formatAngle(2 * Math.PI - 1e-9)).toBe('0.0°');
+    expect(normaliseDegrees(-0)).toBe(0);
+  });
+
+  it('signs errors explicitly', () => {
+    expect(formatSignedMetres(0.0125)).toBe('+0.013 m');
+    expect(formatSignedMetres(-0.2)).toBe('−0.200 m');
+  });
+
+  it('formats durations, the replay clock and speed factors', () => {
+    expect(formatDuration(9.26)).toBe('9.3 s');
+    expect(formatDuration(125)).toBe('2 min 05 s');
+    expect(formatClock(65.25)).toBe('1:05.3');
+    expect(formatClock(-1)).toBe('0:00.0');
+    expect(formatSpeedFactor(0.25)).toBe('0.25×');
+    expect(formatSpeedFactor(0.1)).toBe('0.1×');
+    expect(formatSpeedFactor(1)).toBe('1×');
+    expect(formatSpeedFactor(50)).toBe('50×');
+  });
+});

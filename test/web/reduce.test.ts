@@ -1,0 +1,121 @@
+import { describe, expect, it } from 'vitest';
+import type { ServerMessage, TrackWire } from '../../bridge/server/protocol.ts';
+import { applyFrame } from '../../web/src/stream/client.ts';
+import { applyMessage } from '../../web/src/stream/reduce.ts';
+import { createState, defaultLimits, loadFlatHistory } from '../../web/src/stream/state.ts';
+import { HistoryRing } from '../../web/src/stream/ring.ts';
+
+const track = (id: number, t: number, x = 1, y = 2): TrackWire => ({
+  timeS: t, id, status: 'confirmed', x, y, vx: 0.5, vy: 0, speed: 0.5, headingRad: Math.PI / 2,
+  pxx: 0.01, pxy: 0, pyy: 0.01, quality: 0.8, moving: true, hits: 3, misses: 0,
+});
+const scan = (t: number, updates: TrackWire[], extra: Partial<Extract<ServerMessage, { type: 'scan' }>> = {}): ServerMessage => ({
+  type: 'scan', timeS: t, detections: [], updates, deletions: [], antennaAzimuthRad: null, positioner: [], ...extra,
+});
+const source = { kind: 'replay' as const, state: 'playing' as const, name: 's', badLines: 0, lastBad: null,
+  detectionsPerSecond: 10, latencyMs: 2, recording: null, recordingError: null };
+
+describe('applyMessage', () => {
+  it('builds tracks and their history from scans', () => {
+    const s = createState();
+    applyMessage(s, scan(0.1, [track(4, 0.1, 1, 1)]));
+    applyMessage(s, scan(0.2, [track(4, 0.2, 1.05, 1)]));
+    const t = s.tracks.get(4)!;
+    expect(t.history.length).toBe(2);
+    expect(t.latest.x).toBe(1.05);
+    expect(t.firstSeenS).toBe(0.1);
+    expect(s.timeS).toBe(0.2);
+  });
+
+  it('ignores a repeated update at the same time in the history but keeps it as latest', () => {
+    const s = createState();
+    applyMessage(s, scan(1, [track(1, 1, 0, 1)]));
+    applyMessage(s, scan(1, [{ ...track(1, 1, 0, 1.1), status: 'coasting' }]));
+    expect(s.tracks.get(1)!.history.length).toBe(1);
+    expect(s.tracks.get(1)!.latest.status).toBe('coasting');
+  });
+
+  it('removes deleted tracks', () => {
+    const s = createState();
+    applyMessage(s, scan(1, [track(1, 1), track(2, 1)]));
+    applyMessage(s, scan(1.1, [], { deletions: [{ timeS: 1.1, id: 1, reason: 'misses' }] }));
+    expect([...s.tracks.keys()]).toEqual([2]);
+  });
+
+  it('turns detections into x/y with azimuth clockwise from +y and prunes old ones', () => {
+    const s = createState();
+    applyMessage(s, scan(0, [], { detections: [{ timeS: 0, azimuthRad: Math.PI / 2, rangeM: 2, amplitude: 1 }] }));
+    expect(s.detections[0].x).toBeCloseTo(2);
+    expect(s.detections[0].y).toBeCloseTo(0);
+    expect(s.detections[0].fixed).toBe(false);
+    applyMessage(s, scan(defaultLimits.detectionAgeS + 1, []));
+    expect(s.detections).toHaveLength(0);
+  });
+
+  it('restarts the picture on a snapshot, loading its history', () => {
+    const s = createState();
+    applyMessage(s, scan(5, [track(9, 5)]));
+    const epoch = s.epoch;
+    applyMessage(s, {
+      type: 'snapshot', timeS: 2, source, tracks: [track(3, 2, 0, 2)],
+      history: [{ id: 3, points: [1, 0, 1, 1.5, 0, 1.5, 2, 0, 2] }], detections: [], fixedEchoes: [], commanded: [],
+      replay: { sessionId: 'a', durationS: 10, positionS: 2, speed: 1, playing: false, loop: false },
+    });
+    expect(s.epoch).toBe(epoch + 1);
+    expect([...s.tracks.keys()]).toEqual([3]);
+    expect(s.tracks.get(3)!.history.length).toBe(3);
+    expect(s.tracks.get(3)!.firstSeenS).toBe(1);
+    expect(s.replay?.playing).toBe(false);
+    expect(s.timeS).toBe(2);
+  });
+
+  it('treats a scan far behind the latest time as a jump back', () => {
+    const s = createState();
+    applyMessage(s, scan(10, [track(1, 10)]));
+    applyMessage(s, scan(3, [track(2, 3)]));
+    expect([...s.tracks.keys()]).toEqual([2]);
+    expect(s.timeS).toBe(3);
+  });
+
+  it('keeps comparison figures, commanded path, antenna and positioner', () => {
+    const s = createState();
+    const figures = { timeS: 1, samples: 10, rmseM: 0.02, crossTrackM: 0.01, alongTrackM: -0.01, maxErrorM: 0.05, lagS: 0.1, trackId: 1 };
+    applyMessage(s, { type: 'comparison', figures });
+    applyMessage(s, { type: 'commanded', path: [{ timeS: 0, x: 0, y: 1 }, { timeS: 1, x: 1, y: 1 }] });
+    applyMessage(s, scan(1, [], { antennaAzimuthRad: 1.2, positioner: [{ timeS: 1, cmdX: 0.5, cmdY: 1 }] }));
+    expect(s.comparison).toEqual(figures);
+    expect(s.comparisonHistory).toHaveLength(1);
+    expect(s.commanded).toHaveLength(2);
+    expect(s.commandedVersion).toBe(1);
+    expect(s.antennaAzimuthRad).toBe(1.2);
+    expect(s.positioner?.cmdX).toBe(0.5);
+  });
+});
+
+describe('applyFrame', () => {
+  it('applies a valid frame', () => {
+    const s = createState();
+    expect(applyFrame(s, JSON.stringify({ type: 'hello', protocol: 1, server: 'bridge 0.1' }))).toBe(true);
+    expect(s.serverName).toBe('bridge 0.1');
+  });
+
+  it('counts and refuses frames that are not JSON or fail the schema', () => {
+    const s = createState();
+    expect(applyFrame(s, '{nope')).toBe(false);
+    expect(applyFrame(s, JSON.stringify({ type: 'scan', timeS: 'soon' }))).toBe(false);
+    expect(applyFrame(s, JSON.stringify({ type: 'hello', protocol: 2, server: 'x' }))).toBe(false);
+    expect(s.invalidFrames).toBe(3);
+    expect(s.lastInvalid).toMatch(/protocol/);
+  });
+});
+
+describe('loadFlatHistory', () => {
+  it('derives speed and heading by differences', () => {
+    const r = new HistoryRing(10);
+    loadFlatHistory(r, [0, 0, 0, 1, 3, 4, 2, 3, 4]);
+    expect(Number.isNaN(r.at(0).speed)).toBe(true);
+    expect(r.at(1).speed).toBeCloseTo(5);
+    expect(r.at(1).headingRad).toBeCloseTo(Math.atan2(3, 4));
+    expect(r.at(2).speed).toBe(0);
+  });
+});

@@ -1,0 +1,21 @@
+import { describe, expect, it } from 'vitest';
+import { describeSource } from '../../web/src/panels/source-text.ts';
+
+const src = (kind: 'serial' | 'replay' | 'none', state: 'live' | 'waiting' | 'disconnected' | 'playing' | 'paused' | 'ended') => ({
+  kind, state, name: 'x', badLines: 0, lastBad: null, detectionsPerSecond: 0, latencyMs: null, recording: null, recordingError: null,
+});
+
+describe('describeSource', () => {
+  it('names each state in words with a symbol', () => {
+    expect(describeSource('closed', null).state).toBe('disconnected');
+    expect(describeSource('connecting', null).state).toBe('connecting');
+    expect(describeSource('open', src('serial', 'live'))).toMatchObject({ state: 'live', text: 'Live serial' });
+    expect(describeSource('open', src('serial', 'waiting')).state).toBe('waiting');
+    expect(describeSource('open', src('serial', 'disconnected')).tone).toBe('bad');
+    expect(describeSource('open', src('replay', 'playing')).state).toBe('replay-playing');
+    expect(describeSource('open', src('replay', 'paused')).state).toBe('replay-paused');
+    expect(describeSource('open', src('replay', 'ended')).state).toBe('replay-ended');
+    expect(describeSource('open', src('none', 'waiting')).state).toBe('idle');
+    for (const s of ['live', 'waiting', 'disconnected'] as const) expect(describeSource('open', src('serial', s)).symbol).not.toBe('');
+  });
+});
