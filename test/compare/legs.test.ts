@@ -1,0 +1,26 @@
+// Legs of a commanded path: split at corners and at starts/stops (common practice for per-leg figures).
+import { describe, expect, it } from 'vitest';
+import { findLegs } from '../../bridge/compare/legs.ts';
+import { makeTimedPath } from '../../bridge/compare/timed-path.ts';
+import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
+
+describe('findLegs', () => {
+  it('splits a sampled L at its corner and a hold at the end; keeps gentle bends in one leg', () => {
+    const pts = [];
+    for (let k = 0; k <= 10; k++) pts.push({ timeS: k, x: 0.1 * k, y: 2 + 0.001 * k * k }); // slight bend
+    for (let k = 1; k <= 5; k++) pts.push({ timeS: 10 + k, x: 1, y: 2.1 + 0.1 * k }); // corner, north
+    pts.push({ timeS: 20, x: 1, y: 2.6 }); // hold
+    const { legs, legOfSegment } = findLegs(makeTimedPath(pts));
+    expect(legs.map((l) => l.kind)).toEqual(['move', 'move', 'hold']);
+    expect(legOfSegment[9]).toBe(0);
+    expect(legOfSegment[10]).toBe(1);
+    expect(legs[1].lengthM).toBeCloseTo(0.5, 12);
+    expect(legs[2].startS).toBe(15);
+  });
+
+  it('uses the waypoint legs when the input names them', () => {
+    const p = waypointsToPath([{ x: 0, y: 1 }, { x: 1, y: 1, speedMps: 0.5 }, { x: 2, y: 1, speedMps: 0.25 }]);
+    const { legs } = findLegs(p);
+    expect(legs.map((l) => l.speedMps)).toEqual([0.5, 0.25]); // collinear, but two legs as commanded
+  });
+});
