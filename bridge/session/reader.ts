@@ -22,10 +22,12 @@ export interface OpenSessionOptions {
   recentDetectionsS: number;
   /** Bad lines kept in full; the count stays exact beyond it. */
   maxBadLines: number;
+  /** Longest line read, bytes; longer ones are bad lines (a commanded path of 100k points fits). */
+  maxLineBytes: number;
 }
 
 export function resolveOpenSessionOptions(o: Partial<OpenSessionOptions> = {}): OpenSessionOptions {
-  const r = { checkpointS: o.checkpointS ?? 1, historyS: o.historyS ?? 10, recentDetectionsS: o.recentDetectionsS ?? 1, maxBadLines: o.maxBadLines ?? 1000 };
+  const r = { checkpointS: o.checkpointS ?? 1, historyS: o.historyS ?? 10, recentDetectionsS: o.recentDetectionsS ?? 1, maxBadLines: o.maxBadLines ?? 1000, maxLineBytes: o.maxLineBytes ?? 16 * 1024 * 1024 };
   if (!(r.checkpointS > 0) || !(r.historyS >= 0) || !(r.recentDetectionsS >= 0)) throw new EchotrailError('E_OPTION', 'session windows must be positive numbers of seconds');
   return r;
 }
@@ -145,7 +147,7 @@ export class SessionReader {
 
   private *linesFrom(offset: number, line: number): Generator<TimedRecord> {
     if (this.fd === null) throw new EchotrailError('E_SESSION_FORMAT', `session '${this.id}' is closed`);
-    for (const raw of new LineReader(this.fd).lines(offset, line)) {
+    for (const raw of new LineReader(this.fd, { maxLineBytes: this.opts.maxLineBytes }).lines(offset, line)) {
       const r = parseSessionLine(raw);
       if (typeof r !== 'string' && 'record' in r) yield r;
     }
@@ -153,7 +155,7 @@ export class SessionReader {
 
   /** The single validating pass: header, every line, counts, index. */
   async scan(): Promise<void> {
-    const reader = new LineReader(this.fd!);
+    const reader = new LineReader(this.fd!, { maxLineBytes: this.opts.maxLineBytes });
     const it = reader.lines(0, 1);
     const first = it.next();
     if (first.done) throw new EchotrailError('E_SESSION_FORMAT', `${this.path}: empty file, or its header line is incomplete`);

@@ -1,0 +1,63 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { appendFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { findSession, listSessions } from '../../bridge/session/list.ts';
+import { Recorder } from '../../bridge/session/recorder.ts';
+import { sessionInfo as sessionInfoSchema } from '../../bridge/server/protocol.ts';
+
+const root = mkdtempSync(join(tmpdir(), 'echotrail-list-'));
+afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+function run(dir: string, name: string, start: string, seconds: number, close: boolean): string {
+  const r = new Recorder({ dir, name, startUtc: new Date(start) });
+  r.open();
+  if (name.includes('cmd')) r.record({ kind: 'commanded', path: [{ timeS: 0, x: 0, y: 1 }] });
+  for (let i = 0; i <= seconds * 10; i++) {
+    const t = i / 10;
+    r.record({ kind: 'detection', detection: { timeS: t, azimuthRad: 1, rangeM: 2, amplitude: 3 } });
+    r.record({ kind: 'track', update: { timeS: t, id: 1 + (i % 3), status: 'confirmed', x: 0, y: 1, vx: 0, vy: 0, speed: 0, headingRad: 0, pxx: 1, pxy: 0, pyy: 1, quality: 1, moving: false, hits: 1, misses: 0 } });
+  }
+  if (close) r.closeSync();
+  return r.status().path!;
+}
+
+describe('listSessions', () => {
+  const a = join(root, 'a');
+  const b = join(root, 'b');
+  mkdirSync(a);
+  mkdirSync(b);
+  const clean = run(a, 'clean-cmd', '2026-12-02T01:00:00Z', 4, true);
+  const killed = run(b, 'killed', '2026-12-02T02:00:00Z', 2.5, false);
+  appendFileSync(killed, '{"k":"det","timeS":2.6,"azimuthRad":1,'); // cut mid-line
+  writeFileSync(join(a, 'notes.txt'), 'not a session');
+  writeFileSync(join(a, 'junk.session.jsonl'), 'garbage\n');
+
+  it('lists both folders, newest first, with counts from the summary or from a scan', async () => {
+    const list = await listSessions([a, b, join(root, 'missing')]);
+    for (const info of list) sessionInfoSchema.parse(info);
+    expect(list.map((s) => s.name)).toEqual(['killed', 'clean-cmd']);
+    expect(list[1]).toMatchObject({ startUtc: '2026-12-02T01:00:00.000Z', durationS: 4, detections: 41, tracks: 3, hasCommanded: true });
+    // The killed run has no summary line: its figures come from reading it, up to the last full line.
+    expect(readFileSync(killed, 'utf8')).not.toContain('"k":"end"');
+    expect(list[0]).toMatchObject({ durationS: 2.5, detections: 26, tracks: 3, hasCommanded: false });
+  });
+
+  it('a clean session read by scanning agrees with its summary', async () => {
+    const text = readFileSync(clean, 'utf8').trimEnd().split('\n');
+    const scanned = join(b, '20261202-010000-copy.session.jsonl');
+    writeFileSync(scanned, text.slice(0, -1).join('\n') + '\n'); // drop the end line
+    const list = await listSessions(b);
+    const copy = list.find((s) => s.id === '20261202-010000-copy')!;
+    const original = (await listSessions(a))[0];
+    expect({ ...copy, id: original.id }).toEqual(original);
+  });
+
+  it('finds a session by id and refuses ids that try to leave the folders', async () => {
+    const id = (await listSessions(a))[0].id;
+    expect(await findSession([b, a], id)).toBe(clean);
+    expect(await findSession([a], '../b/x')).toBeNull();
+    expect(await findSession([a], '..')).toBeNull();
+    expect(await findSession([a], 'nope')).toBeNull();
+  });
+});
