@@ -1,0 +1,94 @@
+/**
+ * Global-nearest-neighbour assignment of detections to tracks.
+ *
+ * The gated pairs form a bipartite graph; each connected cluster is solved on its own with the
+ * Hungarian method (Kuhn 1955, Munkres 1957, npm `munkres`), so the cost stays small even with
+ * hundreds of tracks: a cluster is usually one track and one detection. Each track row is padded
+ * with its own "missed" column at the miss cost, so a track may take no detection and more
+ * detections than tracks stays feasible.
+ */
+import munkres from 'munkres';
+
+/** One gated (track, detection) pair and its cost (lower is better). */
+export interface GatedPair {
+  track: number;
+  det: number;
+  cost: number;
+}
+
+const FORBIDDEN = 1e12;
+
+/** Solves one dense problem: cost[t][d]; returns the column of each row or −1 for "missed". */
+export function solveDense(cost: number[][], missCost: number[]): number[] {
+  const nt = cost.length;
+  if (nt === 0) return [];
+  const nd = cost[0].length;
+  const m: number[][] = [];
+  for (let i = 0; i < nt; i++) {
+    const row = new Array<number>(nd + nt).fill(FORBIDDEN);
+    for (let j = 0; j < nd; j++) row[j] = cost[i][j];
+    row[nd + i] = missCost[i];
+    m.push(row);
+  }
+  const out = new Array<number>(nt).fill(-1);
+  for (const [r, c] of munkres(m)) if (c < nd && m[r][c] < FORBIDDEN) out[r] = c;
+  return out;
+}
+
+/**
+ * Assigns over all gated pairs. `missCost(track)` is the price of leaving a track without a
+ * detection. Returns pairs [track, det] chosen.
+ */
+export function assign(pairs: readonly GatedPair[], missCost: (track: number) => number): Array<[number, number]> {
+  if (pairs.length === 0) return [];
+  // Union-find over nodes: tracks as 2k, detections as 2k+1 (ids are sparse, so use a map).
+  const parent = new Map<number, number>();
+  const find = (a: number): number => {
+    let r = a;
+    for (let p = parent.get(r); p !== undefined && p !== r; p = parent.get(r)) r = p;
+    for (let c = a; c !== r; ) {
+      const n = parent.get(c)!;
+      parent.set(c, r);
+      c = n;
+    }
+    return r;
+  };
+  for (const p of pairs) {
+    const a = 2 * p.track;
+    const b = 2 * p.det + 1;
+    if (!parent.has(a)) parent.set(a, a);
+    if (!parent.has(b)) parent.set(b, b);
+    const ra = find(a);
+    const rb = find(b);
+    if (ra !== rb) parent.set(ra, rb);
+  }
+  const clusters = new Map<number, GatedPair[]>();
+  for (const p of pairs) {
+    const root = find(2 * p.track);
+    const c = clusters.get(root);
+    if (c) c.push(p);
+    else clusters.set(root, [p]);
+  }
+  const result: Array<[number, number]> = [];
+  for (const c of clusters.values()) {
+    if (c.length === 1) {
+      if (c[0].cost <= missCost(c[0].track)) result.push([c[0].track, c[0].det]);
+      continue;
+    }
+    const tIdx = new Map<number, number>();
+    const dIdx = new Map<number, number>();
+    for (const p of c) {
+      if (!tIdx.has(p.track)) tIdx.set(p.track, tIdx.size);
+      if (!dIdx.has(p.det)) dIdx.set(p.det, dIdx.size);
+    }
+    const cost = Array.from({ length: tIdx.size }, () => new Array<number>(dIdx.size).fill(FORBIDDEN));
+    for (const p of c) cost[tIdx.get(p.track)!][dIdx.get(p.det)!] = p.cost;
+    const tracks = [...tIdx.keys()];
+    const dets = [...dIdx.keys()];
+    const sol = solveDense(cost, tracks.map(missCost));
+    sol.forEach((col, row) => {
+      if (col >= 0) result.push([tracks[row], dets[col]]);
+    });
+  }
+  return result;
+}

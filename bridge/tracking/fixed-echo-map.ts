@@ -1,0 +1,172 @@
+/**
+ * Fixed-echo map: persistent stationary reflectors (cable joints, mounts, walls).
+ *
+ * The map learns from detections directly, not from tracks: every detection that no moving track
+ * took joins the nearest echo candidate within its gate (or starts one). A candidate is a running
+ * mean position and an exponentially smoothed hit rate per scan; it becomes a fixed echo once it
+ * has been hit in most scans for `afterS`. A target that has moved keeps its detections (the
+ * tracker offers them to moving tracks first), so a positioner pausing for tens of seconds is not
+ * learned into the map; a reflector that never moved is.
+ */
+import type { Detection, FixedEcho, Measurement } from '../types.ts';
+import { EchotrailError } from '../errors.ts';
+import { mahalanobis2 } from './filter-types.ts';
+import { SpatialGrid } from './spatial-grid.ts';
+
+export interface FixedEchoOptions {
+  /** Learn fixed echoes and keep them out of the tracks. */
+  enabled: boolean;
+  /** Hits in most scans for this long make a fixed echo, s; 0 = 10 s or 8 scans, whichever is longer. */
+  afterS: number;
+  /** Displacement from where a track started above which it counts as a moving target, m. */
+  moveThresholdM: number;
+  /** An echo not seen for this long is forgotten, s. */
+  forgetS: number;
+}
+
+export function resolveFixedEchoOptions(o: Partial<FixedEchoOptions> = {}): FixedEchoOptions {
+  const r = { enabled: o.enabled ?? true, afterS: o.afterS ?? 0, moveThresholdM: o.moveThresholdM ?? 0.15, forgetS: o.forgetS ?? 60 };
+  if (!(r.afterS >= 0) || !(r.moveThresholdM > 0) || !(r.forgetS > 0)) {
+    throw new EchotrailError('E_OPTION', 'fixed-echo times (s) and move threshold (m) must be positive');
+  }
+  return r;
+}
+
+interface Candidate {
+  id: number;
+  x: number;
+  y: number;
+  n: number;
+  ampSum: number;
+  /** Smoothed share of scans with a hit. */
+  rate: number;
+  lastScan: number;
+  /** Start of the current persistent stretch, s. */
+  sinceS: number;
+  lastSeenS: number;
+  scansSeen: number;
+  fixed: boolean;
+}
+
+/** Smoothing of the per-scan hit rate (an 8-scan memory, roughly). */
+const A = 0.125;
+
+export class FixedEchoMap {
+  private readonly cands = new Map<number, Candidate>();
+  private readonly grid = new SpatialGrid(0.5, 2);
+  private nextId = 1;
+  private fixedCount = 0;
+
+  /**
+   * @param gamma gate threshold (χ², 2 dof)
+   * @param scanS one scan: revolution period, or the staring update interval
+   * @param afterS persistence needed to become an echo, s
+   * @param staring `seen` counts seconds instead of scans
+   */
+  constructor(
+    private readonly gamma: number,
+    private readonly scanS: number,
+    private readonly afterS: number,
+    private readonly staring: boolean,
+  ) {}
+
+  private nearest(m: Measurement, fixedOnly: boolean): Candidate | null {
+    let best: Candidate | null = null;
+    let bd = this.gamma;
+    for (const id of this.grid.query(m.x, m.y)) {
+      const c = this.cands.get(id)!;
+      if (fixedOnly && !c.fixed) continue;
+      // Gate on R·(1 + 1/n): the detection's own noise plus that of the candidate's mean.
+      const k = 1 + 1 / c.n;
+      const d2 = mahalanobis2(m.x - c.x, m.y - c.y, k * m.rxx + 1e-4, k * m.rxy, k * m.ryy + 1e-4);
+      if (d2 < bd) {
+        bd = d2;
+        best = c;
+      }
+    }
+    return best;
+  }
+
+  /** d² of the measurement to the nearest fixed echo, or Infinity: the tracker lets the echo keep closer detections. */
+  match(m: Measurement): number {
+    const c = this.nearest(m, true);
+    if (!c) return Infinity;
+    const k = 1 + 1 / c.n;
+    return mahalanobis2(m.x - c.x, m.y - c.y, k * m.rxx + 1e-4, k * m.rxy, k * m.ryy + 1e-4);
+  }
+
+  /**
+   * True when the measurement falls on a reflector that has been there scan after scan (fixed or
+   * about to be). A track standing on such a spot is not evidence of motion: the tracker uses
+   * this so that a track hopping between wall reflectors is not taken for a moving target.
+   */
+  persistentAt(m: Measurement): boolean {
+    const c = this.nearest(m, false);
+    if (!c) return false;
+    const scan = Math.floor(m.timeS / this.scanS);
+    return c.fixed || (c.scansSeen >= 3 && c.rate * (1 - A) ** Math.max(0, scan - c.lastScan - 1) >= 0.3);
+  }
+
+  /** Learns from a detection no moving track took; true when it belongs to a fixed echo. */
+  learn(m: Measurement, d: Detection): boolean {
+    const scan = Math.floor(m.timeS / this.scanS);
+    let c = this.nearest(m, false);
+    if (!c) {
+      c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, lastScan: scan - 1, sinceS: m.timeS, lastSeenS: m.timeS, scansSeen: 0, fixed: false };
+      this.cands.set(c.id, c);
+      this.grid.set(c.id, m.x, m.y, 0.5);
+    }
+    c.n++;
+    c.x += (m.x - c.x) / c.n;
+    c.y += (m.y - c.y) / c.n;
+    c.ampSum += d.amplitude;
+    c.lastSeenS = m.timeS;
+    if (scan > c.lastScan) {
+      c.rate = c.rate * (1 - A) ** (scan - c.lastScan) + A;
+      c.lastScan = scan;
+      c.scansSeen++;
+      // The mean rate of a fresh candidate is judged once it had time to build up.
+      if (c.rate < 0.3 && m.timeS - c.sinceS > 8 * this.scanS) c.sinceS = m.timeS;
+    }
+    if (!c.fixed && c.rate >= 0.5 && m.timeS - c.sinceS >= this.afterS) {
+      c.fixed = true;
+      this.fixedCount++;
+    }
+    return c.fixed;
+  }
+
+  /** Drops candidates that faded (clutter) and echoes not seen for `forgetS`; keeps memory bounded. */
+  expire(nowS: number, forgetS: number): void {
+    const scan = Math.floor(nowS / this.scanS);
+    for (const c of this.cands.values()) {
+      const rate = c.rate * (1 - A) ** (scan - c.lastScan);
+      if ((c.fixed && nowS - c.lastSeenS > forgetS) || (!c.fixed && rate < 0.05)) {
+        this.cands.delete(c.id);
+        this.grid.remove(c.id);
+        if (c.fixed) this.fixedCount--;
+      }
+    }
+  }
+
+  list(): FixedEcho[] {
+    const out: FixedEcho[] = [];
+    for (const c of this.cands.values()) {
+      if (!c.fixed) continue;
+      let az = Math.atan2(c.x, c.y);
+      if (az < 0) az += 2 * Math.PI;
+      const seen = this.staring ? c.lastSeenS - c.sinceS : c.scansSeen;
+      out.push({ x: c.x, y: c.y, rangeM: Math.hypot(c.x, c.y), azimuthRad: az, seen, amplitude: c.ampSum / c.n });
+    }
+    return out;
+  }
+
+  /** Fixed echoes in the map. */
+  get size(): number {
+    return this.fixedCount;
+  }
+
+  /** Candidates held (fixed or not), for memory checks. */
+  get candidates(): number {
+    return this.cands.size;
+  }
+}

@@ -1,0 +1,156 @@
+/**
+ * Interacting multiple model filter of two constant-velocity models at two process-noise levels
+ * (Blom & Bar-Shalom 1988; Bar-Shalom, Li & Kirubarajan 2001, §11.6).
+ *
+ * Why CV at two levels rather than CV + CA: the positioner either glides at a steady speed or
+ * changes speed abruptly (start, stop, reverse, the ends of a figure-eight lobe). A quiet CV
+ * model smooths the glides; a loud CV model absorbs the jumps within one or two scans. A CA model
+ * would need several scans to learn an acceleration that is gone again by then, and its extra
+ * states add lag noise at one detection per revolution. Both models share the state layout, so
+ * mixing needs no state augmentation.
+ *
+ * Mode switching is a continuous-time Markov chain: the probability of leaving mode i during dt
+ * is 1 − exp(−dt/τ_i), so the filter behaves the same at 2 s revolutions and at 200 Hz staring.
+ */
+import type { Measurement } from '../types.ts';
+import type { FilterEstimate, PositionPrediction, TrackFilter } from './filter-types.ts';
+import { KalmanCv } from './kalman-cv.ts';
+import type { ProcessNoiseModel } from './process-noise.ts';
+
+export interface ImmOptions {
+  /** Process-noise model of both CV models. */
+  model: ProcessNoiseModel;
+  /** σ_a of the quiet model, m/s². */
+  sigmaLow: number;
+  /** σ_a of the manoeuvre model, m/s². */
+  sigmaHigh: number;
+  /** Mean sojourn time in the quiet model, s. */
+  sojournLowS: number;
+  /** Mean sojourn time in the manoeuvre model, s. */
+  sojournHighS: number;
+  /** Initial velocity standard deviation per axis, m/s. */
+  sigmaVel0: number;
+}
+
+export class ImmCv2 implements TrackFilter {
+  readonly models: [KalmanCv, KalmanCv];
+  /** Mode probabilities [quiet, manoeuvre]. */
+  readonly mu = [0.8, 0.2];
+
+  constructor(m: Measurement, private readonly o: ImmOptions) {
+    this.models = [
+      new KalmanCv(m, { model: o.model, sigmaAccel: o.sigmaLow, sigmaVel0: o.sigmaVel0 }),
+      new KalmanCv(m, { model: o.model, sigmaAccel: o.sigmaHigh, sigmaVel0: o.sigmaVel0 }),
+    ];
+  }
+
+  get timeS(): number {
+    return this.models[0].timeS;
+  }
+
+  /** Transition matrix entries for a step dt: [p00, p01, p10, p11]. */
+  private transition(dt: number): [number, number, number, number] {
+    const p01 = 1 - Math.exp(-dt / this.o.sojournLowS);
+    const p10 = 1 - Math.exp(-dt / this.o.sojournHighS);
+    return [1 - p01, p01, p10, 1 - p10];
+  }
+
+  /** Predicted mode probabilities c_j = Σ_i π_ij μ_i. */
+  private predictedMu(dt: number): [number, number] {
+    const [p00, p01, p10, p11] = this.transition(dt);
+    return [p00 * this.mu[0] + p10 * this.mu[1], p01 * this.mu[0] + p11 * this.mu[1]];
+  }
+
+  peek(t: number): PositionPrediction {
+    const c = this.predictedMu(t - this.timeS);
+    const a = this.models[0].peek(t);
+    const b = this.models[1].peek(t);
+    return combine(a, b, c[0], c[1]);
+  }
+
+  predict(t: number): void {
+    const dt = t - this.timeS;
+    if (dt <= 0) return;
+    const [p00, p01, p10, p11] = this.transition(dt);
+    const c0 = p00 * this.mu[0] + p10 * this.mu[1];
+    const c1 = p01 * this.mu[0] + p11 * this.mu[1];
+    // Mixing weights μ_{i|j} = π_ij μ_i / c_j.
+    const w = [
+      [(p00 * this.mu[0]) / c0, (p10 * this.mu[1]) / c0],
+      [(p01 * this.mu[0]) / c1, (p11 * this.mu[1]) / c1],
+    ];
+    const [m0, m1] = this.models;
+    const mixed: { x: Float64Array; P: Float64Array }[] = [];
+    for (let j = 0; j < 2; j++) {
+      const x = new Float64Array(4);
+      const P = new Float64Array(16);
+      const wa = w[j][0];
+      const wb = w[j][1];
+      for (let i = 0; i < 4; i++) x[i] = wa * m0.x[i] + wb * m1.x[i];
+      for (let r = 0; r < 4; r++) {
+        const da = m0.x[r] - x[r];
+        const db = m1.x[r] - x[r];
+        for (let s = 0; s < 4; s++) {
+          P[r * 4 + s] =
+            wa * (m0.P[r * 4 + s] + da * (m0.x[s] - x[s])) + wb * (m1.P[r * 4 + s] + db * (m1.x[s] - x[s]));
+        }
+      }
+      mixed.push({ x, P });
+    }
+    const t0 = this.timeS;
+    m0.setFrom(mixed[0].x, mixed[0].P, t0);
+    m1.setFrom(mixed[1].x, mixed[1].P, t0);
+    m0.predict(t);
+    m1.predict(t);
+    this.mu[0] = c0;
+    this.mu[1] = c1;
+  }
+
+  update(m: Measurement): number {
+    const comb = combine(this.models[0].estimate(), this.models[1].estimate(), this.mu[0], this.mu[1]);
+    const nx = m.x - comb.x;
+    const ny = m.y - comb.y;
+    const sxx = comb.pxx + m.rxx;
+    const sxy = comb.pxy + m.rxy;
+    const syy = comb.pyy + m.ryy;
+    const nis = (nx * nx * syy - 2 * nx * ny * sxy + ny * ny * sxx) / (sxx * syy - sxy * sxy);
+    const l: number[] = [];
+    for (const f of this.models) {
+      f.update(m);
+      l.push(Math.exp(-0.5 * f.lastNis) / (2 * Math.PI * Math.sqrt(f.lastDetS)));
+    }
+    const u0 = l[0] * this.mu[0];
+    const u1 = l[1] * this.mu[1];
+    const sum = u0 + u1;
+    if (sum > 0 && Number.isFinite(sum)) {
+      this.mu[0] = Math.min(Math.max(u0 / sum, 1e-6), 1 - 1e-6);
+      this.mu[1] = 1 - this.mu[0];
+    }
+    return nis;
+  }
+
+  estimate(): FilterEstimate {
+    const [a, b] = this.models;
+    const ea = a.estimate();
+    const eb = b.estimate();
+    const p = combine(ea, eb, this.mu[0], this.mu[1]);
+    return { ...p, vx: this.mu[0] * ea.vx + this.mu[1] * eb.vx, vy: this.mu[0] * ea.vy + this.mu[1] * eb.vy };
+  }
+}
+
+/** Moment-matched combination of two position estimates with weights wa + wb = 1. */
+function combine(a: PositionPrediction, b: PositionPrediction, wa: number, wb: number): PositionPrediction {
+  const x = wa * a.x + wb * b.x;
+  const y = wa * a.y + wb * b.y;
+  const ax = a.x - x;
+  const ay = a.y - y;
+  const bx = b.x - x;
+  const by = b.y - y;
+  return {
+    x,
+    y,
+    pxx: wa * (a.pxx + ax * ax) + wb * (b.pxx + bx * bx),
+    pxy: wa * (a.pxy + ax * ay) + wb * (b.pxy + bx * by),
+    pyy: wa * (a.pyy + ay * ay) + wb * (b.pyy + by * by),
+  };
+}

@@ -1,0 +1,97 @@
+/**
+ * Measurement-noise estimate from the run itself. A stationary reflector (fixed echo, wall, a
+ * target parked at its start) returns the same range and azimuth every scan, so the difference
+ * between its detections in two consecutive scans is pure noise with standard deviation σ·√2.
+ *
+ * Only polar bins hit in most scans (persistent, hence stationary) are used, and each detection is
+ * paired with its nearest neighbour of the previous scan, so several reflectors in one bin (a
+ * wall) do not inflate the figure the way a per-bin spread would. Robust scatter (1.4826·MAD,
+ * equal to σ for a Gaussian: common practice) keeps stray clutter pairs from inflating it.
+ */
+import type { Detection } from '../types.ts';
+import { azimuthDiff } from './measurement.ts';
+
+export interface NoiseEstimate {
+  sigmaRangeM: number;
+  sigmaAzimuthRad: number;
+  /** Persistent bins (stationary reflectors, roughly) the estimate is based on. */
+  reflectors: number;
+  /** Scan-to-scan pairs used. */
+  samples: number;
+}
+
+const RANGE_BIN = 0.4;
+const AZ_BIN = (8 * Math.PI) / 180;
+
+function mad(v: number[]): number {
+  const s = v.map(Math.abs).sort((a, b) => a - b);
+  const h = s.length >> 1;
+  return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
+}
+
+/**
+ * @param dets detections of the first part of the run, in time order
+ * @param sliceS one scan: a revolution (rotating) or a short stretch of a staring run
+ * @param sigma0 typical noise, used only to scale the nearest-neighbour search
+ */
+export function estimateNoise(
+  dets: readonly Detection[],
+  sliceS: number,
+  sigma0: { rangeM: number; azimuthRad: number } = { rangeM: 0.05, azimuthRad: (1.5 * Math.PI) / 180 },
+): NoiseEstimate | null {
+  if (dets.length < 10 || !(sliceS > 0)) return null;
+  const t0 = dets[0].timeS;
+  const slices = Math.floor((dets[dets.length - 1].timeS - t0) / sliceS) + 1;
+  if (slices < 4) return null;
+  const nAz = Math.round((2 * Math.PI) / AZ_BIN);
+  // bin → slice → detections
+  const bins = new Map<number, Map<number, Detection[]>>();
+  const keyOf = (r: number, a: number) => Math.floor(r / RANGE_BIN) * nAz + (Math.floor(a / AZ_BIN) % nAz);
+  for (const d of dets) {
+    const k = keyOf(d.rangeM, d.azimuthRad);
+    const s = Math.floor((d.timeS - t0) / sliceS);
+    let b = bins.get(k);
+    if (!b) bins.set(k, (b = new Map()));
+    const l = b.get(s);
+    if (l) l.push(d);
+    else b.set(s, [d]);
+  }
+  const dr: number[] = [];
+  const da: number[] = [];
+  let reflectors = 0;
+  for (const [k, b] of bins) {
+    if (b.size < 0.7 * slices) continue;
+    reflectors++;
+    const ir = Math.floor(k / nAz);
+    const ia = k % nAz;
+    for (const [s, list] of b) {
+      for (const d of list) {
+        let best = 36; // (6σ)² in units of the typical noise: farther is another reflector
+        let br = 0;
+        let ba = 0;
+        for (let i = -1; i <= 1; i++) {
+          for (let j = -1; j <= 1; j++) {
+            const prev = bins.get((ir + i) * nAz + ((ia + j + nAz) % nAz))?.get(s - 1);
+            if (!prev) continue;
+            for (const p of prev) {
+              const er = d.rangeM - p.rangeM;
+              const ea = azimuthDiff(d.azimuthRad, p.azimuthRad);
+              const q = (er / sigma0.rangeM) ** 2 / 4 + (ea / sigma0.azimuthRad) ** 2 / 4;
+              if (q < best) {
+                best = q;
+                br = er;
+                ba = ea;
+              }
+            }
+          }
+        }
+        if (best < 36) {
+          dr.push(br);
+          da.push(ba);
+        }
+      }
+    }
+  }
+  if (dr.length < 5) return null;
+  return { sigmaRangeM: (1.4826 * mad(dr)) / Math.SQRT2, sigmaAzimuthRad: (1.4826 * mad(da)) / Math.SQRT2, reflectors, samples: dr.length };
+}

@@ -1,0 +1,178 @@
+/**
+ * One track's life: hits and misses, M-of-N confirmation, coasting, the deletion rules, the
+ * quality figure and the "has it ever moved" test that separates targets from fixed echoes.
+ */
+import type { Detection, Measurement, TrackStatus, TrackUpdate } from '../types.ts';
+import { EchotrailError } from '../errors.ts';
+import { mahalanobis2, type TrackFilter } from './filter-types.ts';
+import { MofN } from './m-of-n.ts';
+
+export interface DeletionOptions {
+  /** Consecutive missed scans after which a confirmed track is deleted. */
+  maxMisses: number;
+  /** ...but never before it has coasted this long, s (matters for staring antennas at hundreds of Hz). */
+  minCoastS: number;
+  /** Delete when the position standard deviation (largest axis) exceeds this, m. */
+  maxPositionSigmaM: number;
+}
+
+export function resolveDeletionOptions(o: Partial<DeletionOptions> = {}): DeletionOptions {
+  const r = { maxMisses: o.maxMisses ?? 3, minCoastS: o.minCoastS ?? 1, maxPositionSigmaM: o.maxPositionSigmaM ?? 1.5 };
+  if (!Number.isInteger(r.maxMisses) || r.maxMisses < 1 || !(r.minCoastS >= 0) || !(r.maxPositionSigmaM > 0)) {
+    throw new EchotrailError('E_OPTION', 'deletion needs max misses ≥ 1 (integer), min coast ≥ 0 s, max position σ > 0 m');
+  }
+  return r;
+}
+
+/** Largest eigenvalue of a symmetric 2×2 matrix. */
+export function lambdaMax(a: number, b: number, c: number): number {
+  const h = 0.5 * (a - c);
+  return 0.5 * (a + c) + Math.sqrt(h * h + b * b);
+}
+
+export class Track {
+  status: TrackStatus = 'tentative';
+  hits = 1;
+  misses = 0;
+  lastHitS: number;
+  confirmedS = NaN;
+  /** 0..1, see onHit/onMiss. */
+  quality = 0.3;
+  /** Sticky: set once the track has left its starting point. */
+  moved = false;
+  lastNis: number | undefined;
+  lastMeasurement: Measurement | undefined;
+  private readonly mofn: MofN;
+  private ax: number;
+  private ay: number;
+  private an = 1;
+  private outside = 0;
+  private ampSum: number;
+
+  constructor(
+    readonly id: number,
+    readonly filter: TrackFilter,
+    m: Measurement,
+    d: Detection,
+    mofn: { m: number; n: number },
+    readonly createdS = m.timeS,
+  ) {
+    this.lastHitS = m.timeS;
+    this.mofn = new MofN(mofn.m, mofn.n);
+    this.ax = m.x;
+    this.ay = m.y;
+    this.ampSum = d.amplitude;
+    this.lastMeasurement = m;
+    if (mofn.m <= 1) this.confirm(m.timeS);
+  }
+
+  private confirm(t: number): void {
+    this.status = 'confirmed';
+    this.confirmedS = t;
+  }
+
+  get amplitude(): number {
+    return this.ampSum / this.hits;
+  }
+
+  /**
+   * After the filter took `m`. `moveThresholdM` decides when the track has left its start;
+   * `onReflector` says the detection sits on a persistent stationary reflector.
+   */
+  onHit(m: Measurement, nis: number, d: Detection, moveThresholdM: number, onReflector = false): void {
+    this.hits++;
+    this.misses = 0;
+    this.lastHitS = m.timeS;
+    this.lastNis = nis;
+    this.lastMeasurement = m;
+    this.ampSum += d.amplitude;
+    // Consistent innovations (NIS near its mean of 2) raise quality more than surprising ones.
+    const g = Math.exp(-Math.max(0, nis - 2) / 4);
+    this.quality += (1 - this.quality) * 0.3 * g;
+    if (this.status !== 'confirmed') {
+      this.mofn.record(true);
+      if (this.status === 'coasting' || this.mofn.confirmed()) {
+        if (Number.isNaN(this.confirmedS)) this.confirm(m.timeS);
+        else this.status = 'confirmed';
+      }
+    }
+    if (!this.moved) {
+      // Anchor = running mean of the detections while parked, so its noise is R/n. The track has
+      // left it when the filtered position differs from it beyond the 99.9 % χ² bound of
+      // P + R/n (13.8155 for 2 dof) and by more than moveThresholdM.
+      const e = this.filter.estimate();
+      const dx = e.x - this.ax;
+      const dy = e.y - this.ay;
+      const k = 1 / this.an;
+      const d2 = mahalanobis2(dx, dy, e.pxx + k * m.rxx, e.pxy + k * m.rxy, e.pyy + k * m.ryy);
+      // Three hits in a row away from the anchor: one stray detection (a neighbouring wall
+      // reflector, a clutter hit inside the gate) must not make a fixed reflector a target.
+      // A hit on a spot where a stationary reflector has answered for several scans is not
+      // counted either way: that is how a track hopping along a wall looks.
+      if (onReflector) {
+        // neither evidence of motion nor of rest
+      } else if (this.status !== 'tentative' && d2 > 13.8155 && dx * dx + dy * dy > moveThresholdM * moveThresholdM) {
+        if (++this.outside >= 3) this.moved = true;
+      } else {
+        this.outside = 0;
+        this.an++;
+        this.ax += (m.x - this.ax) / this.an;
+        this.ay += (m.y - this.ay) / this.an;
+      }
+    }
+  }
+
+  /** A scan passed without a detection. */
+  onMiss(): void {
+    this.misses++;
+    this.lastNis = undefined;
+    this.lastMeasurement = undefined;
+    this.quality *= 0.7;
+    if (this.status === 'tentative') this.mofn.record(false);
+    else this.status = 'coasting';
+  }
+
+  /** Tentative track that can no longer reach M of N. */
+  failedInitiation(): boolean {
+    return this.status === 'tentative' && this.mofn.failed();
+  }
+
+  /** Delete reason for an established track, or null. */
+  deletionReason(nowS: number, o: DeletionOptions): 'misses' | 'covariance' | null {
+    if (this.status === 'tentative') return null;
+    const e = this.filter.estimate();
+    if (Math.sqrt(lambdaMax(e.pxx, e.pxy, e.pyy)) > o.maxPositionSigmaM) return 'covariance';
+    if (this.misses >= o.maxMisses && nowS - this.lastHitS >= o.minCoastS) return 'misses';
+    return null;
+  }
+
+  update(withMeasurement: boolean): TrackUpdate {
+    const e = this.filter.estimate();
+    const speed = Math.hypot(e.vx, e.vy);
+    let heading = Math.atan2(e.vx, e.vy);
+    if (heading < 0) heading += 2 * Math.PI;
+    const u: TrackUpdate = {
+      timeS: this.filter.timeS,
+      id: this.id,
+      status: this.status,
+      x: e.x,
+      y: e.y,
+      vx: e.vx,
+      vy: e.vy,
+      speed,
+      headingRad: heading,
+      pxx: e.pxx,
+      pxy: e.pxy,
+      pyy: e.pyy,
+      quality: this.quality,
+      moving: this.moved,
+      hits: this.hits,
+      misses: this.misses,
+    };
+    if (withMeasurement && this.lastMeasurement) {
+      u.measurement = this.lastMeasurement;
+      u.nis = this.lastNis;
+    }
+    return u;
+  }
+}

@@ -1,0 +1,236 @@
+/**
+ * The tracker: composes conversion, gating, assignment, filters, track life and the fixed-echo
+ * map behind the TrackEngine contract (bridge/types.ts).
+ *
+ * Flow: detections are held for a short warm-up (antenna kind, interval, noise are inferred from
+ * them), then collected into batches of `batchS`. Each batch is gated against the tracks found in
+ * the grid cell of each detection, solved by global nearest neighbour, and leftovers start
+ * tentative tracks unless a fixed echo or a confirmed track already claims them. Misses are
+ * counted against each track's expected next detection (one interval after its last hit).
+ */
+import type { Detection, FixedEcho, Measurement, TrackDeletion, TrackEngine, TrackerOutput, TrackUpdate } from '../types.ts';
+import { assign, type GatedPair } from './assignment.ts';
+import { createFilter } from './filter.ts';
+import { mahalanobis2 } from './filter-types.ts';
+import { FixedEchoMap } from './fixed-echo-map.ts';
+import { gateThreshold } from './gate.ts';
+import { decide, describeInference, type TrackerInference } from './inference.ts';
+import { toMeasurement, type MeasurementOptions } from './measurement.ts';
+import { SpatialGrid } from './spatial-grid.ts';
+import { lambdaMax, Track } from './track-life.ts';
+import { resolveTrackerOptions, type TrackerOptions, type TrackerOptionsInput } from './tracker-options.ts';
+
+export { resolveTrackerOptions, describeInference };
+export type { TrackerOptions, TrackerOptionsInput, TrackerInference };
+
+export class Tracker implements TrackEngine {
+  readonly options: TrackerOptions;
+  private readonly gamma: number;
+  private warm: Detection[] | null = [];
+  private info: TrackerInference | null = null;
+  private meas!: MeasurementOptions;
+  private echoes!: FixedEchoMap;
+  private readonly grid = new SpatialGrid(0.5, 6);
+  private readonly live = new Map<number, Track>();
+  private nextId = 1;
+  private batch: Detection[] = [];
+  private batchStart = 0;
+  private lastTime = -Infinity;
+  private lastMissCheck = -Infinity;
+  private lastExpire = -Infinity;
+  private outOfOrder = 0;
+  private readonly needsWarmup: boolean;
+
+  constructor(options: TrackerOptionsInput | TrackerOptions = {}) {
+    this.options = resolveTrackerOptions(options as TrackerOptionsInput);
+    this.gamma = gateThreshold(this.options.gate.probability, 2);
+    const o = this.options;
+    this.needsWarmup = o.antenna === 'auto' || !(o.intervalS > 0) || o.estimateNoise;
+    if (!this.needsWarmup) this.start();
+  }
+
+  /** What was inferred (or taken from options) at the start of the run; null before the warm-up ends. */
+  inferred(): TrackerInference | null {
+    return this.info ? { ...this.info, outOfOrder: this.outOfOrder } : null;
+  }
+
+  push(d: Detection): TrackerOutput {
+    const out: TrackerOutput = { updates: [], deletions: [] };
+    if (!(d.timeS >= this.lastTime)) {
+      this.outOfOrder++;
+      return out;
+    }
+    this.lastTime = d.timeS;
+    if (this.warm) {
+      this.warm.push(d);
+      const o = this.options;
+      if (this.warm.length >= o.warmupDetections || d.timeS - this.warm[0].timeS >= o.warmupS) this.start(out);
+      return out;
+    }
+    this.step(d, out);
+    return out;
+  }
+
+  flush(): TrackerOutput {
+    const out: TrackerOutput = { updates: [], deletions: [] };
+    if (this.warm) this.start(out);
+    if (this.batch.length) this.closeBatch(out);
+    return out;
+  }
+
+  tracks(): TrackUpdate[] {
+    return [...this.live.values()].map((t) => t.update(true));
+  }
+
+  fixedEchoes(): FixedEcho[] {
+    return this.echoes ? this.echoes.list() : [];
+  }
+
+  /** Ends the warm-up: decide, then run the buffered detections. */
+  private start(out?: TrackerOutput): void {
+    const buf = this.warm ?? [];
+    this.warm = null;
+    this.info = decide(buf, this.options);
+    this.meas = { ...this.options.measurement, sigmaRangeM: this.info.sigmaRangeM, sigmaAzimuthRad: this.info.sigmaAzimuthRad };
+    this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
+    const sink = out ?? { updates: [], deletions: [] };
+    for (const d of buf) this.step(d, sink);
+  }
+
+  private step(d: Detection, out: TrackerOutput): void {
+    if (this.batch.length && d.timeS - this.batchStart > this.info!.batchS) this.closeBatch(out);
+    if (this.batch.length === 0) this.batchStart = d.timeS;
+    this.batch.push(d);
+  }
+
+  private closeBatch(out: TrackerOutput): void {
+    const dets = this.batch;
+    this.batch = [];
+    const o = this.options;
+    const gamma = this.gamma;
+    const ms: Measurement[] = dets.map((d) => toMeasurement(d, this.meas));
+    const pairs: GatedPair[] = [];
+    const missCost = new Map<number, number>();
+    const echoD2 = new Float64Array(ms.length).fill(Infinity);
+    const nearConfirmed = new Uint8Array(ms.length);
+    const learn = o.fixedEchoes.enabled;
+    for (let j = 0; j < ms.length; j++) {
+      const m = ms[j];
+      if (learn) echoD2[j] = this.echoes.match(m);
+      for (const id of this.grid.query(m.x, m.y)) {
+        const t = this.live.get(id)!;
+        // Inside a fixed echo's gate only a moving track may take a detection, and only one
+        // that it explains better than the echo does.
+        if (echoD2[j] < gamma && !t.moved) continue;
+        const p = t.filter.peek(m.timeS);
+        const sxx = p.pxx + m.rxx;
+        const sxy = p.pxy + m.rxy;
+        const syy = p.pyy + m.ryy;
+        const d2 = mahalanobis2(m.x - p.x, m.y - p.y, sxx, sxy, syy);
+        if (!(d2 < gamma) || d2 > echoD2[j]) continue;
+        const logDet = Math.log(sxx * syy - sxy * sxy);
+        pairs.push({ track: id, det: j, cost: d2 + logDet });
+        missCost.set(id, Math.max(missCost.get(id) ?? -Infinity, gamma + logDet));
+        if (t.status !== 'tentative') nearConfirmed[j] = 1;
+      }
+    }
+    const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
+    const hitNow = new Set<number>();
+    for (const [id, j] of assign(pairs, (id) => missCost.get(id)!)) {
+      const t = this.live.get(id)!;
+      const m = ms[j];
+      taken[j] = t.moved ? 2 : 1;
+      hitNow.add(id);
+      t.filter.predict(m.timeS);
+      const nis = t.filter.update(m);
+      const onReflector = learn && !t.moved && this.echoes.persistentAt(m);
+      t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, onReflector);
+      if (this.becomesEcho(t, m.timeS, out)) continue;
+      this.register(t);
+      if (t.status !== 'tentative' && t.moved) out.updates.push(t.update(true));
+    }
+    for (let j = 0; j < ms.length; j++) {
+      if (taken[j] === 2) continue;
+      const isEcho = learn && this.echoes.learn(ms[j], dets[j]);
+      if (taken[j] || nearConfirmed[j] || isEcho) continue;
+      const f = createFilter(ms[j], o.filter, o.initiation.maxSpeedMps / 2, this.info!.intervalS);
+      const t = new Track(this.nextId++, f, ms[j], dets[j], o.initiation);
+      this.live.set(t.id, t);
+      this.register(t);
+    }
+    const now = dets[dets.length - 1].timeS;
+    const interval = this.info!.intervalS;
+    if (now - this.lastMissCheck >= interval / 4) {
+      this.lastMissCheck = now;
+      this.countMisses(now, hitNow, out);
+    }
+    if (now - this.lastExpire >= 1) {
+      this.lastExpire = now;
+      this.echoes.expire(now, o.fixedEchoes.forgetS);
+    }
+    out.updates.sort((a, b) => a.timeS - b.timeS);
+  }
+
+  /** Coasts every track whose next detection is overdue by half an interval; deletes the hopeless. */
+  private countMisses(now: number, hitNow: Set<number>, out: TrackerOutput): void {
+    const interval = this.info!.intervalS;
+    for (const t of this.live.values()) {
+      if (hitNow.has(t.id) || now <= t.lastHitS + (t.misses + 1.5) * interval) continue;
+      t.onMiss();
+      if (t.failedInitiation()) {
+        this.drop(t);
+        continue;
+      }
+      t.filter.predict(now);
+      const reason = t.deletionReason(now, this.options.deletion);
+      if (reason) {
+        this.drop(t);
+        out.deletions.push({ timeS: now, id: t.id, reason });
+        continue;
+      }
+      this.register(t);
+      if (t.status !== 'tentative' && t.moved) out.updates.push(t.update(false));
+    }
+  }
+
+  /**
+   * A confirmed track that never moved for `afterS` is a fixed echo: the map has learned its
+   * detections meanwhile (they never went to a moving track), so the track itself is dropped.
+   */
+  private becomesEcho(t: Track, now: number, out: TrackerOutput): boolean {
+    const fe = this.options.fixedEchoes;
+    if (!fe.enabled || t.moved || t.status === 'tentative') return false;
+    if (now - t.createdS < this.echoAfterS()) return false;
+    this.drop(t);
+    out.deletions.push({ timeS: now, id: t.id, reason: 'fixed-echo' } satisfies TrackDeletion);
+    return true;
+  }
+
+  private echoAfterS(): number {
+    const fe = this.options.fixedEchoes;
+    return fe.afterS > 0 ? fe.afterS : Math.max(10, 8 * this.info!.intervalS);
+  }
+
+  private drop(t: Track): void {
+    this.live.delete(t.id);
+    this.grid.remove(t.id);
+  }
+
+  /**
+   * Registers the track in the grid cells its gate can reach at its next expected detection:
+   * predicted position one interval ahead, gate radius √(γ·λmax(P + R)) plus the distance covered
+   * in a quarter interval of timing slack.
+   */
+  private register(t: Track): void {
+    const interval = this.info!.intervalS;
+    const p = t.filter.peek(t.filter.timeS + interval);
+    const m = t.lastMeasurement;
+    const rxx = m ? m.rxx : 0.01;
+    const ryy = m ? m.ryy : 0.01;
+    const rxy = m ? m.rxy : 0;
+    const e = t.filter.estimate();
+    const reach =
+      Math.sqrt(this.gamma * lambdaMax(p.pxx + rxx, p.pxy + rxy, p.pyy + ryy)) + 0.25 * interval * Math.hypot(e.vx, e.vy);
+    this.grid.set(t.id, 0.5 * (p.x + e.x), 0.5 * (p.y + e.y), reach + 0.5 * Math.hypot(p.x - e.x, p.y - e.y));
+  }
+}
