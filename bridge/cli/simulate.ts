@@ -1,0 +1,125 @@
+/**
+ * `echotrail simulate`: writes a simulated bench run as a detections CSV (the `track` input
+ * format), and optionally a truth CSV (radar frame) and a commanded-path CSV (positioner frame).
+ * Streams through `iterateRun`, so long runs need no memory.
+ */
+import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { CsvSink, COMMANDED_CSV_HEADER, TRUTH_CSV_HEADER, commandedCsvLine, truthCsvLine } from '../sim/csv-sink.ts';
+import { DETECTIONS_CSV_HEADER, detectionCsvLine } from '../ingest/detections-csv.ts';
+import { iterateRun } from '../sim/run.ts';
+import { resolveScenarioOptions, type ScenarioOptions } from '../sim/scenario.ts';
+import { SCENARIOS, builtinScenario } from '../sim/scenarios.ts';
+import { loadScenarioFile } from '../sim/scenario-file.ts';
+import { EchotrailError } from '../errors.ts';
+
+const number = (v: string) => {
+  const n = Number(v);
+  if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('not a number');
+  return n;
+};
+const pair = (v: string) => {
+  const parts = v.split(',').map(Number);
+  if (parts.length !== 2 || parts.some((p) => !Number.isFinite(p))) throw new InvalidArgumentError('expected x,y in metres, e.g. 0.05,-0.08');
+  return { x: parts[0], y: parts[1] };
+};
+
+function program(): Command {
+  return new Command('echotrail simulate')
+    .description('Simulate a bench run. Options given here override the scenario\'s values.')
+    .option('--scenario <name|file.json>', `built-in scenario name or a scenario JSON file (built-ins: ${[...Object.keys(SCENARIOS), 'crowd'].join(', ')})`, 'rail-sweep')
+    .option('--list', 'list the built-in scenarios and exit')
+    .option('--print-scenario', 'print the scenario (after overrides) as JSON and exit')
+    .option('--seed <n>', 'PRNG seed (integer; default: the scenario\'s, else 1)', number)
+    .option('--duration <s>', 'run length, seconds (default: the scenario\'s, else 60)', number)
+    .option('--out <path>', 'detections CSV, columns time_s,azimuth_deg,range_m,amplitude; - for stdout', '-')
+    .option('--truth <path>', 'truth CSV, radar frame: time_s,target_id,x_m,y_m,vx_mps,vy_mps (default: not written)')
+    .option('--commanded <path>', 'commanded path CSV, positioner frame: time_s,target_id,x_m,y_m (default: not written)')
+    .option('--targets <n>', 'number of targets for the crowd scenario', number, 100)
+    .option('--antenna <mode>', 'rotating or staring (default: the scenario\'s, else rotating)')
+    .option('--period <s>', 'revolution period of a rotating antenna, seconds (default 1)', number)
+    .option('--rate <hz>', 'looks per second of a staring antenna, Hz (default 200)', number)
+    .option('--sigma-range <m>', 'range noise std, metres (default 0.05)', number)
+    .option('--sigma-azimuth <deg>', 'azimuth noise std, degrees (default 1.5)', number)
+    .option('--pd <p>', 'probability of detection of every target per look, 0–1 (default 0.95)', number)
+    .option('--false-alarm-rate <hz>', 'mean false alarms per second over the coverage (default 0.5)', number)
+    .option('--range-offset <m>', 'range error to simulate: measured = scale·true + offset, metres (default 0)', number)
+    .option('--range-scale <x>', 'range scale error, unitless (default 1)', number)
+    .option('--azimuth-offset <deg>', 'azimuth error to simulate, degrees (default 0)', number)
+    .option('--frame-rotation <deg>', 'positioner frame rotation, counter-clockwise, degrees (default 0)', number)
+    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default 0,0)', pair)
+    .option('--truth-rate <hz>', 'sample rate of the truth and commanded files, Hz (default 10)', number)
+    .exitOverride()
+    .configureOutput({ writeOut: (s) => process.stdout.write(s), writeErr: (s) => process.stderr.write(s) });
+}
+
+type Opts = Record<string, unknown> & { scenario: string; out: string; targets: number };
+
+async function scenarioFrom(opts: Opts): Promise<ScenarioOptions> {
+  const base = opts.scenario.endsWith('.json') ? await loadScenarioFile(opts.scenario) : builtinScenario(opts.scenario, opts.targets);
+  const s: ScenarioOptions = { ...base };
+  const set = <K extends keyof ScenarioOptions>(key: K, v: unknown) => {
+    if (v !== undefined) s[key] = v as ScenarioOptions[K];
+  };
+  set('seed', opts.seed);
+  set('durationS', opts.duration);
+  set('sigmaRangeM', opts.sigmaRange);
+  set('sigmaAzimuthDeg', opts.sigmaAzimuth);
+  set('falseAlarmRateHz', opts.falseAlarmRate);
+  set('rangeOffsetM', opts.rangeOffset);
+  set('rangeScale', opts.rangeScale);
+  set('azimuthOffsetDeg', opts.azimuthOffset);
+  set('frameRotationDeg', opts.frameRotation);
+  set('frameTranslation', opts.frameTranslation);
+  set('truthRateHz', opts.truthRate);
+  if (opts.pd !== undefined) s.targets = (s.targets ?? []).map((t) => ({ ...t, pd: opts.pd as number }));
+  const mode = (opts.antenna as string | undefined) ?? s.antenna?.mode ?? 'rotating';
+  if (mode !== 'rotating' && mode !== 'staring') throw new EchotrailError('E_OPTION', `--antenna must be rotating or staring (got '${mode}')`);
+  if (mode !== s.antenna?.mode || opts.period !== undefined || opts.rate !== undefined) {
+    const prev = s.antenna?.mode === mode ? s.antenna : undefined;
+    s.antenna = mode === 'rotating'
+      ? { ...(prev as object), mode, ...(opts.period !== undefined ? { periodS: opts.period as number } : {}) }
+      : { ...(prev as object), mode, ...(opts.rate !== undefined ? { rateHz: opts.rate as number } : {}) };
+  }
+  return s;
+}
+
+export async function run(argv: string[]): Promise<number> {
+  const cmd = program();
+  try {
+    cmd.parse(argv, { from: 'user' });
+  } catch (err) {
+    if (err instanceof CommanderError) return err.exitCode === 0 ? 0 : 2;
+    throw err;
+  }
+  const opts = cmd.opts() as Opts;
+  if (opts.list) {
+    for (const [name, s] of Object.entries(SCENARIOS)) process.stdout.write(`${name.padEnd(18)} ${s.description ?? ''}\n`);
+    process.stdout.write(`${'crowd'.padEnd(18)} --targets N reflectors over 0.5–24 m with dense clutter (throughput work)\n`);
+    return 0;
+  }
+  try {
+    const scenario = await scenarioFrom(opts);
+    const resolved = resolveScenarioOptions(scenario);
+    if (opts.printScenario) {
+      process.stdout.write(JSON.stringify({ version: 1, ...scenario }, null, 2) + '\n');
+      return 0;
+    }
+    const det = new CsvSink(opts.out, DETECTIONS_CSV_HEADER);
+    const truth = typeof opts.truth === 'string' ? new CsvSink(opts.truth, TRUTH_CSV_HEADER) : null;
+    const commanded = typeof opts.commanded === 'string' ? new CsvSink(opts.commanded, COMMANDED_CSV_HEADER) : null;
+    for (const rec of iterateRun(resolved)) {
+      if (rec.kind === 'detection') await det.push(detectionCsvLine(rec.detection));
+      else if (rec.kind === 'truth') await truth?.push(truthCsvLine(rec.sample));
+      else await commanded?.push(commandedCsvLine(rec.targetId, rec.point));
+    }
+    await Promise.all([det.close(), truth?.close(), commanded?.close()]);
+    process.stderr.write(`simulate: ${resolved.name}, seed ${resolved.seed}, ${resolved.durationS} s: ${det.lines} detections` + (truth ? `, ${truth.lines} truth rows` : '') + '\n');
+    return 0;
+  } catch (err) {
+    if (err instanceof EchotrailError) {
+      process.stderr.write(`echotrail simulate: ${err.message}\n`);
+      return 1;
+    }
+    throw err;
+  }
+}

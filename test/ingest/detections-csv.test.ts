@@ -1,0 +1,159 @@
+import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { PassThrough, Readable } from 'node:stream';
+import { describe, expect, it } from 'vitest';
+import { formatSkipReport, readDetectionsCsv, writeDetectionsCsv } from '../../bridge/ingest/detections-csv.ts';
+import { hasCode } from '../../bridge/errors.ts';
+import type { Detection } from '../../bridge/types.ts';
+
+const fromText = (text: string) => Readable.from([text]);
+
+async function readAll(text: string, options?: Parameters<typeof readDetectionsCsv>[1]) {
+  const reader = readDetectionsCsv(fromText(text), options);
+  const rows: Detection[] = [];
+  for await (const d of reader) rows.push(d);
+  return { rows, report: reader.report };
+}
+
+async function failure(text: string): Promise<unknown> {
+  try {
+    await readAll(text);
+  } catch (err) {
+    return err;
+  }
+  return null;
+}
+
+describe('readDetectionsCsv', () => {
+  it('reads columns in any order, ignores others, converts degrees and wraps azimuth', async () => {
+    const { rows, report } = await readAll('note,range_m,amplitude,time_s,azimuth_deg\nx,1.5,20,0.0,90\ny,2.25,15,0.5,-90\nz,3,1e1,1.0,720.5\n');
+    expect(rows.map((r) => r.line)).toEqual([2, 3, 4]);
+    expect(rows[0]).toMatchObject({ timeS: 0, rangeM: 1.5, amplitude: 20 });
+    expect(rows[0].azimuthRad).toBeCloseTo(Math.PI / 2, 15);
+    expect(rows[1].azimuthRad).toBeCloseTo((3 * Math.PI) / 2, 15);
+    expect(rows[2].azimuthRad).toBeCloseTo((0.5 * Math.PI) / 180, 15);
+    expect(report).toMatchObject({ rows: 3, accepted: 3, skipped: 0, firstSkipped: null });
+    expect(formatSkipReport(report)).toBe('');
+  });
+
+  it('skips bad rows with their line numbers and keeps the good rows around them', async () => {
+    const text = [
+      'time_s,azimuth_deg,range_m,amplitude',
+      '0.0,10,1.0,5', //   2 good
+      '0.1,abc,1.0,5', //  3 non-numeric azimuth
+      '0.2,10,NaN,5', //   4 NaN range
+      '0.3,10,-1,5', //    5 negative range
+      '0.4,10,5000,5', //  6 absurd range
+      '0.5,10,1.0,0', //   7 amplitude 0
+      '0.6,10,1.0,Infinity', // 8 non-finite amplitude
+      '0.7,10,1.0,5', //   9 good
+      '0.65,10,1.0,5', // 10 time going backwards
+      ',10,1.0,5', //     11 empty time
+      '0.8,10,1.0', //    12 missing cell
+      '0.8,10,1.0,5', //  13 good (equal times are fine)
+      '',
+    ].join('\n');
+    const { rows, report } = await readAll(text);
+    expect(rows.map((r) => r.line)).toEqual([2, 9, 13]);
+    expect(report.rows).toBe(12);
+    expect(report.accepted).toBe(3);
+    expect(report.skipped).toBe(9);
+    expect(report.firstSkipped).toEqual({ line: 3, reason: 'azimuth_deg "abc" is not a number' });
+    expect(Object.fromEntries(report.reasons)).toEqual({
+      'bad azimuth_deg': 1, 'bad range_m': 1, 'range out of bounds': 2, 'amplitude not positive': 1, 'bad amplitude': 2, 'time going backwards': 1, 'bad time_s': 1,
+    });
+    expect(formatSkipReport(report)).toBe('9 rows skipped: first at line 3: azimuth_deg "abc" is not a number');
+  });
+
+  it('counts lines through blank lines and quoted line breaks in ignored columns', async () => {
+    const text = 'time_s,azimuth_deg,range_m,amplitude,note\n\n0,1,2,3,"two\nlines"\n1,1,x,3,plain\n\n2,1,2,3,\n';
+    const { rows, report } = await readAll(text);
+    expect(rows.map((r) => r.line)).toEqual([3, 7]); // 1 header, 2 blank, 3–4 quoted, 5 bad, 6 blank, 7
+    expect(report.firstSkipped?.line).toBe(5);
+  });
+
+  it('batches() gives the same detections in arrays', async () => {
+    const text = 'time_s,azimuth_deg,range_m,amplitude\n' + Array.from({ length: 500 }, (_, i) => `${i},1,2,3`).join('\n') + '\n';
+    const reader = readDetectionsCsv(fromText(text));
+    const all: Detection[] = [];
+    for await (const b of reader.batches()) all.push(...b);
+    expect(all.map((d) => d.timeS)).toEqual(Array.from({ length: 500 }, (_, i) => i));
+    expect(reader.report.accepted).toBe(500);
+  });
+
+  it('empty input and header-only input are E_INPUT_EMPTY', async () => {
+    expect(hasCode(await failure(''), 'E_INPUT_EMPTY')).toBe(true);
+    expect(hasCode(await failure('\n\n'), 'E_INPUT_EMPTY')).toBe(true);
+    expect(hasCode(await failure('time_s,azimuth_deg,range_m,amplitude\n'), 'E_INPUT_EMPTY')).toBe(true);
+  });
+
+  it('a missing column is E_INPUT_COLUMNS naming the column', async () => {
+    const err = await failure('time_s,azimuth,range_m,amplitude\n0,1,2,3\n');
+    expect(hasCode(err, 'E_INPUT_COLUMNS')).toBe(true);
+    expect((err as Error).message).toMatch(/azimuth_deg/);
+  });
+
+  it('no usable row at all is E_INPUT_ROW with the first reason', async () => {
+    const err = await failure('time_s,azimuth_deg,range_m,amplitude\n0,1,-2,3\n');
+    expect(hasCode(err, 'E_INPUT_ROW')).toBe(true);
+    expect((err as Error).message).toMatch(/line 2: range_m -2/);
+  });
+
+  it('a default amplitude stands in for a missing amplitude column when asked', async () => {
+    const { rows } = await readAll('time_s,azimuth_deg,range_m\n0,1,2\n', { defaultAmplitude: 1 });
+    expect(rows[0].amplitude).toBe(1);
+  });
+
+  it('streams: rows come out before the input has ended', async () => {
+    // csv-parse holds the newest line until the next bytes arrive (it cannot yet tell whether the
+    // line break is complete), so a row is released once the following line is written.
+    const input = new PassThrough();
+    const reader = readDetectionsCsv(input);
+    const it = reader[Symbol.asyncIterator]();
+    input.write('time_s,azimuth_deg,range_m,amplitude\n0,1,2,3\n1,1,2,3\n');
+    const first = await it.next();
+    expect(first.value).toMatchObject({ timeS: 0, rangeM: 2 });
+    expect(input.writableEnded).toBe(false);
+    input.end('2,1,2,3\n');
+    expect((await it.next()).value).toMatchObject({ timeS: 1 });
+    expect((await it.next()).value).toMatchObject({ timeS: 2 });
+    expect((await it.next()).done).toBe(true);
+  });
+
+  it('reads from a path, and reports a missing file as E_PATH', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-csv-'));
+    const path = join(dir, 'd.csv');
+    await writeFile(path, '\ufefftime_s,azimuth_deg,range_m,amplitude\r\n0,1,2,3\r\n');
+    const rows: Detection[] = [];
+    for await (const d of readDetectionsCsv(path)) rows.push(d);
+    expect(rows).toHaveLength(1);
+    let err: unknown;
+    try {
+      for await (const _ of readDetectionsCsv(join(dir, 'missing.csv'))) void _;
+    } catch (e) {
+      err = e;
+    }
+    expect(hasCode(err, 'E_PATH')).toBe(true);
+  });
+});
+
+describe('writeDetectionsCsv', () => {
+  it('round-trips through the reader at the written resolution', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-csv-'));
+    const path = join(dir, 'out.csv');
+    const dets: Detection[] = Array.from({ length: 3000 }, (_, i) => ({ timeS: i * 0.01, azimuthRad: (i * 0.013) % (2 * Math.PI), rangeM: 0.5 + (i % 70) * 0.1, amplitude: 1 + i }));
+    expect(await writeDetectionsCsv(dets, path)).toBe(3000);
+    expect((await readFile(path, 'utf8')).split('\n')[0]).toBe('time_s,azimuth_deg,range_m,amplitude');
+    const back: Detection[] = [];
+    for await (const d of readDetectionsCsv(path)) back.push(d);
+    expect(back).toHaveLength(3000);
+    back.forEach((d, i) => {
+      expect(Math.abs(d.timeS - dets[i].timeS)).toBeLessThan(1e-6);
+      expect(Math.abs(d.rangeM - dets[i].rangeM)).toBeLessThan(1e-4);
+      // 1e-4° written resolution
+      expect(Math.abs(d.azimuthRad - dets[i].azimuthRad)).toBeLessThan((1e-4 * Math.PI) / 180);
+      expect(d.amplitude).toBe(dets[i].amplitude);
+    });
+  });
+});
