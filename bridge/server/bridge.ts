@@ -15,7 +15,8 @@ import { handleApi, sendError } from './api.ts';
 import { Hub, type HubStats } from './hub.ts';
 import { Pipeline } from './pipeline.ts';
 import { handleClientMessage } from './controls.ts';
-import { loadCalibrationApi, loadLiveComparison, loadRecorderFactory, loadSessionLister, loadTrackerFactory } from './deps.ts';
+import { createLiveComparison, loadCalibrationApi, loadTrackerFactory, openRecording } from './deps.ts';
+import { listSessions } from '../session/list.ts';
 import { openConfiguredSource, openReplaySource, sessionPath } from './sources.ts';
 
 export type { BridgeOptions } from './options.ts';
@@ -60,20 +61,17 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
   const started = performance.now();
 
   const trackerFactory = o.createTracker ?? (await loadTrackerFactory().catch(() => null));
-  const recorderFactory = o.record ? await loadRecorderFactory() : null;
-  const comparisonFactory = await loadLiveComparison().catch((e: Error) => (o.log(`live comparison disabled: ${e.message}`), null));
-  const lister = await loadSessionLister();
 
   const pipeline = new Pipeline({
     createTracker: () => {
       if (!trackerFactory) throw new Error('no tracker available (bridge/tracking/tracker.ts missing) and the source carries no tracks');
       return trackerFactory(o.trackerOptions);
     },
-    createRecorder: recorderFactory
+    createRecorder: o.record
       ? (source, onError) =>
-          recorderFactory({ dir: o.sessionsDir, name: source.kind === 'serial' ? 'live' : source.name, source: { kind: source.kind, name: source.name }, config: { bench: o.benchConfig ?? null, tracker: o.trackerOptions ?? null }, onError })
+          openRecording({ dir: o.sessionsDir, name: source.kind === 'serial' ? 'live' : source.name, source: { kind: source.kind, name: source.name }, config: { bench: o.benchConfig ?? null, tracker: o.trackerOptions ?? null }, onError })
       : null,
-    createComparison: comparisonFactory,
+    createComparison: () => createLiveComparison(o.log),
     state: { historyPoints: o.historyPoints, recentDetectionsS: o.recentDetectionsS, maxRecentDetections: o.maxRecentDetections },
     scanRateHz: o.scanRateHz,
     log: o.log,
@@ -81,9 +79,8 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
 
   let sessionsCache: { at: number; list: SessionInfo[] } | null = null;
   const sessions = async (): Promise<SessionInfo[]> => {
-    if (!lister) return [];
     if (sessionsCache && performance.now() - sessionsCache.at < SESSIONS_CACHE_MS) return sessionsCache.list;
-    const list = await lister(o.sessionsDir);
+    const list = await listSessions(o.sessionsDir);
     sessionsCache = { at: performance.now(), list };
     return list;
   };

@@ -1,13 +1,14 @@
 /**
- * The bridge's view of modules other parts of the project provide (tracker, serial and replay
- * sources, recorder, session list, live comparison, calibration API). Each is loaded on first use
- * through one adapter here, so the rest of bridge/server/ codes against small interfaces and tests
- * can inject their own implementations.
+ * The bridge's view of modules other parts of the project provide (tracker, recorder, live
+ * comparison, calibration API), each behind one small adapter here, so the rest of bridge/server/
+ * codes against small interfaces and tests can inject their own implementations.
  */
 import type { Source, SourceRecord, ReplayControl } from '../ingest/source.ts';
-import type { Detection, FixedEcho, TrackDeletion, TrackEngine, TrackUpdate, PositionerSample } from '../types.ts';
-import type { ComparisonFigures, PathPointWire, SessionInfo } from './protocol.ts';
+import type { TrackDeletion, TrackEngine, TrackUpdate, PositionerSample } from '../types.ts';
+import type { ComparisonFigures, PathPointWire } from './protocol.ts';
 import { EchotrailError } from '../errors.ts';
+import { Recorder } from '../session/recorder.ts';
+import { LiveComparison } from '../compare/live.ts';
 
 /** What the pipeline needs from a session recorder. */
 export interface RecorderLike {
@@ -32,17 +33,6 @@ export interface RecordingRequest {
   onError: (message: string) => void;
 }
 
-/** The state of a session at a time, as a replay of a recorded session offers it after a seek. */
-export interface SessionSnapshotLike {
-  timeS: number;
-  tracks: TrackUpdate[];
-  history: { id: number; points: number[] }[];
-  detections: Detection[];
-  fixedEchoes: FixedEcho[];
-  commanded: PathPointWire[];
-  antenna: { timeS: number; azimuthRad: number } | null;
-}
-
 /** What the pipeline needs from a live comparison. */
 export interface LiveComparisonLike {
   commanded(path: PathPointWire[]): void;
@@ -51,13 +41,14 @@ export interface LiveComparisonLike {
   deletion(deletion: TrackDeletion): void;
   /** Latest figures, or null before there is anything to compare. */
   figures(): ComparisonFigures | null;
+  /** Forget figures and followed track, keep the commanded path (replay seek). */
   reset(): void;
+  /** Forget everything, commanded path included (new source). */
+  restart(): void;
 }
 
-/** Replay sources may offer a way to rebuild state after a seek without re-reading from the start. */
+/** Replays of detections CSVs offer their history, to re-track after a seek. */
 export interface ReplayHistory {
-  /** State of a recorded session at `timeS` (sessions that carry their tracks). */
-  snapshotAt?(timeS: number): SessionSnapshotLike | Promise<SessionSnapshotLike>;
   /** Records from the start of the run up to `timeS`, in order (for re-tracking CSV replays). */
   recordsUntil?(timeS: number): Iterable<SourceRecord> | AsyncIterable<SourceRecord>;
 }
@@ -107,50 +98,57 @@ export async function loadTrackerFactory(): Promise<(options: unknown) => TrackE
   throw missing('the tracker', 'bridge/tracking/tracker.ts');
 }
 
-/** Lists recorded sessions in a folder; an empty list when the session module is absent. */
-export async function loadSessionLister(): Promise<((dir: string) => Promise<SessionInfo[]>) | null> {
-  const mod = (await importOptional('../session/list.ts')) ?? (await importOptional('../session/sessions.ts'));
-  return pick(mod, ['listSessions']);
-}
-
-/** The live comparison factory, or null until bridge/compare/live.ts exists. */
-export async function loadLiveComparison(): Promise<(() => LiveComparisonLike) | null> {
-  const mod = await importOptional('../compare/live.ts');
-  return pick(mod, ['createLiveComparison']);
-}
-
 /** The calibration HTTP handler, or null until bridge/calibrate/api.ts exists. */
 export async function loadCalibrationApi(): Promise<((request: unknown) => Promise<unknown> | unknown) | null> {
   const mod = await importOptional('../calibrate/api.ts');
   return pick(mod, ['calibrationApi']);
 }
 
-interface RecorderModuleShape {
-  open(): boolean;
-  record(rec: SourceRecord): void;
-  close(): void;
-  status(): { recording: string | null; error: string | null };
-  on(ev: 'error', fn: (e: Error) => void): unknown;
+/** Opens a recording through bridge/session/recorder.ts; throws E_RECORDING when the file cannot be created. */
+export function openRecording(req: RecordingRequest): RecorderLike {
+  const rec = new Recorder({ dir: req.dir, name: req.name, source: req.source, config: req.config, startUtc: new Date() });
+  let failed = false;
+  rec.on('error', (e: Error) => {
+    if (!failed) req.onError(e.message);
+    failed = true;
+  });
+  if (!rec.open()) throw new EchotrailError('E_RECORDING', rec.status().error ?? `cannot record in '${req.dir}'`);
+  return {
+    name: rec.status().recording ?? req.name,
+    write: (r) => rec.record(r),
+    close: async () => rec.close(),
+  };
 }
 
-/** Opens recordings through bridge/session/recorder.ts; null when that module is absent. */
-export async function loadRecorderFactory(): Promise<((r: RecordingRequest) => RecorderLike) | null> {
-  const mod = await importOptional('../session/recorder.ts');
-  const Cls = mod && typeof mod.Recorder === 'function' ? (mod.Recorder as new (o: object) => RecorderModuleShape) : null;
-  if (!Cls) return null;
-  return (req) => {
-    const rec = new Cls({ dir: req.dir, name: req.name, source: req.source, config: req.config, startUtc: new Date() });
-    let failed = false;
-    rec.on('error', (e) => {
-      if (!failed) req.onError(e.message);
-      failed = true;
-    });
-    if (!rec.open()) throw new EchotrailError('E_RECORDING', rec.status().error ?? `cannot record in '${req.dir}'`);
-    const name = rec.status().recording ?? req.name;
-    return {
-      name,
-      write: (r) => rec.record(r),
-      close: async () => rec.close(),
-    };
+/**
+ * bridge/compare/live.ts behind the pipeline's small interface. A commanded path sent whole by the
+ * source wins; positioner samples only build the path when no whole path came.
+ */
+export function createLiveComparison(log: (line: string) => void): LiveComparisonLike {
+  let live = new LiveComparison();
+  let explicit = false;
+  return {
+    commanded(path) {
+      try {
+        live.setCommanded(path);
+        explicit = true;
+      } catch (err) {
+        log(`live comparison: commanded path refused: ${(err as Error).message}`);
+      }
+    },
+    positioner(sample) {
+      if (!explicit) live.addPositioner(sample);
+    },
+    update: (u) => live.update(u),
+    deletion: () => undefined,
+    figures: () => {
+      const f = live.figures();
+      return f.samples > 0 ? f : null;
+    },
+    reset: () => live.reset(),
+    restart() {
+      live = new LiveComparison();
+      explicit = false;
+    },
   };
 }

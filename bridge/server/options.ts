@@ -18,12 +18,16 @@ export interface SerialSettings {
   path: string;
   /** Line speed, bit/s. */
   baudRate: number;
-  /** Data bits per character (5–8). */
+  /** Data bits per character (5–8). Default 8. */
   dataBits?: 5 | 6 | 7 | 8;
-  /** Parity bit. */
-  parity?: 'none' | 'even' | 'odd';
-  /** Stop bits. */
-  stopBits?: 1 | 2;
+  /** Parity bit. Default none. */
+  parity?: 'none' | 'even' | 'odd' | 'mark' | 'space';
+  /** Stop bits. Default 1. */
+  stopBits?: 1 | 1.5 | 2;
+  /** First wait before reopening a vanished device, ms (doubles up to `reopenMaxMs`). */
+  reopenInitialMs?: number;
+  /** Longest wait between reopen attempts, ms. */
+  reopenMaxMs?: number;
 }
 
 /** What `startBridge()` accepts; every field is optional in `Partial<BridgeOptions>`. */

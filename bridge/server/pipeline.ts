@@ -39,6 +39,8 @@ export interface PipelineOptions {
 /** How often source status, replay state, fixed echoes and comparison figures are refreshed, ms. */
 const STATUS_MS = 1000;
 const REPLAY_MS = 250;
+/** Records queued during a re-track at most (a few seconds at the highest replay speeds). */
+const MAX_QUEUED = 200_000;
 
 export class Pipeline extends EventEmitter {
   readonly state: LiveState;
@@ -55,6 +57,11 @@ export class Pipeline extends EventEmitter {
   /** Bumped on every seek and source change, so a rebuild that was overtaken is abandoned. */
   private epoch = 0;
   trackerErrors = 0;
+  /** Records held back while a CSV replay is re-tracked after a seek (see onSeeked). */
+  private queue: [SourceRecord, number][] | null = null;
+  queueDropped = 0;
+  /** True between 'seeked' and the next turn of the event loop: the source re-sends its state. */
+  private resending = false;
 
   constructor(private readonly options: PipelineOptions) {
     super();
@@ -81,16 +88,19 @@ export class Pipeline extends EventEmitter {
     this.epoch++;
     await this.detach();
     this.batch.discard();
+    this.batch.release();
+    this.queue = null;
+    this.resending = false;
     this.state.reset();
     this.state.clearCommanded();
-    this.comparison?.reset();
+    this.comparison?.restart();
     this.stats.reset(source.kind, source.name);
     this.tracker = source.carriesTracks ? null : await this.options.createTracker();
     this.source = source;
     this.on2(source, 'record', (r: SourceRecord, at: number) => this.onRecord(r, at));
     this.on2(source, 'bad', (b: BadLine) => this.onBad(b));
     this.on2(source, 'state', (s: SourceState, detail?: string) => this.onState(s, detail));
-    this.on2(source, 'seeked', (t: number) => void this.onSeeked(t));
+    this.on2(source, 'seeked', (t: number) => this.onSeeked(t));
     this.on2(source, 'error', (e: Error) => this.options.log(`source ${source.name}: ${e.message}`));
     if (this.options.createRecorder) {
       try {
@@ -151,7 +161,13 @@ export class Pipeline extends EventEmitter {
   }
 
   private onRecord(r: SourceRecord, receivedAtMs: number): void {
-    this.record(r);
+    if (this.queue) {
+      if (this.queue.length < MAX_QUEUED) this.queue.push([r, receivedAtMs]);
+      else this.queueDropped++;
+      return;
+    }
+    // A replay's re-sent state after a seek is already recorded (replays are not recorded anyway).
+    if (!this.resending) this.record(r);
     switch (r.kind) {
       case 'detection': {
         this.stats.detection(receivedAtMs);
@@ -244,28 +260,46 @@ export class Pipeline extends EventEmitter {
     }, 250);
   }
 
-  private async onSeeked(timeS: number): Promise<void> {
+  /**
+   * A replay jumped. Sessions re-send the state at the new time synchronously right after
+   * 'seeked' (tracks, history window, fixed echoes): those records rebuild the state but are not
+   * streamed as increments. CSV replays are re-tracked from the start up to the new time; records
+   * the replay releases meanwhile wait in a queue so the tracker still sees time order. Then every
+   * client gets one fresh snapshot.
+   */
+  private onSeeked(timeS: number): void {
     const epoch = ++this.epoch;
     this.batch.discard();
+    this.batch.hold();
     this.state.reset();
     this.comparison?.reset();
     this.fixedSignature = '';
-    if (this.tracker) this.tracker = await this.options.createTracker();
+    this.resending = true;
+    const retrack = this.tracker !== null;
+    if (retrack) this.queue = [];
+    setImmediate(() => void this.finishSeek(epoch, timeS, retrack));
+  }
+
+  private async finishSeek(epoch: number, timeS: number, retrack: boolean): Promise<void> {
+    if (epoch !== this.epoch) return;
+    this.resending = false;
     const src = this.source;
-    try {
-      if (src && isReplayControl(src) && !this.tracker && typeof src.snapshotAt === 'function') {
-        const snap = await src.snapshotAt(timeS);
-        if (epoch !== this.epoch) return;
-        this.state.loadSnapshot(snap);
-      } else if (src && this.tracker && isReplayControl(src)) {
+    if (retrack && src && isReplayControl(src)) {
+      try {
+        this.tracker = await this.options.createTracker();
         await rebuildAfterSeek(src, this.tracker, this.state, timeS, () => epoch !== this.epoch);
-        if (epoch !== this.epoch) return;
+      } catch (err) {
+        // The replay goes on from the new position; only the picture before it is missing.
+        this.options.log(`rebuilding state after seek to ${timeS} s: ${(err as Error).message}`);
       }
-    } catch (err) {
-      // The replay goes on from the new position; only the picture before it is missing.
-      this.options.log(`rebuilding state after seek to ${timeS} s: ${(err as Error).message}`);
+      if (epoch !== this.epoch) return;
+      const queued = this.queue ?? [];
+      this.queue = null;
+      for (const [r, at] of queued) this.onRecord(r, at);
     }
     this.state.timeS = Math.max(this.state.timeS, timeS);
+    this.batch.discard();
+    this.batch.release();
     this.emit('resync');
     this.tickReplay(true);
   }

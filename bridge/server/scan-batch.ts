@@ -76,9 +76,22 @@ export class ScanBatch {
     this.antenna = az;
   }
 
+  private held = false;
+
+  /** No scans leave until release() (the state is being rebuilt). */
+  hold(): void {
+    this.held = true;
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+  }
+
+  release(): void {
+    this.held = false;
+  }
+
   /** Asks for a scan: now if the last one left long enough ago, else at the next slot. */
   schedule(): void {
-    if (this.timer) return;
+    if (this.timer || this.held) return;
     const wait = this.lastSentMs + this.intervalMs - performance.now();
     if (wait <= 0) this.flush();
     else this.timer = setTimeout(() => this.flush(), wait);
@@ -87,7 +100,7 @@ export class ScanBatch {
   flush(): void {
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
-    if (!this.pending) return;
+    if (!this.pending || this.held) return;
     const scan: ScanMessage = {
       type: 'scan',
       seq: this.seq++,

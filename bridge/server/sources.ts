@@ -3,11 +3,14 @@
  * CSV (both replayed), through the modules of bridge/ingest/. Kept apart from the pipeline, which
  * only ever sees the `Source` contract.
  */
-import { basename, join, resolve } from 'node:path';
+import { resolve } from 'node:path';
 import { stat } from 'node:fs/promises';
 import type { Source } from '../ingest/source.ts';
+import { SerialSource } from '../ingest/serial-source.ts';
+import { ReplaySource } from '../ingest/replay-source.ts';
+import { findSession } from '../session/list.ts';
+import { SESSION_SUFFIX } from '../session/format.ts';
 import { EchotrailError } from '../errors.ts';
-import { importOptional } from './deps.ts';
 import type { ResolvedBridgeOptions, SerialSettings } from './options.ts';
 
 /** How a replay is to run. */
@@ -20,26 +23,16 @@ export interface ReplaySettings {
   autoplay: boolean;
 }
 
-type Ctor<A extends unknown[]> = new (...args: A) => Source;
-
-async function ingestExport<T>(file: string, names: string[]): Promise<T> {
-  const mod = await importOptional(`../ingest/${file}`);
-  for (const n of names) if (mod && typeof mod[n] === 'function') return mod[n] as T;
-  throw new EchotrailError('E_OPTION', `bridge/ingest/${file} is missing or exports none of ${names.join(', ')}`);
-}
-
-export async function openSerialSource(serial: SerialSettings): Promise<Source> {
-  const SerialSource = await ingestExport<Ctor<[SerialSettings]>>('serial-source.ts', ['SerialSource']);
+export function openSerialSource(serial: SerialSettings): Source {
   return new SerialSource(serial);
 }
 
-/** A session file or a detections CSV, replayed. */
+/** A session file or a detections CSV, replayed (the extension decides: `.csv` is a detections CSV). */
 export async function openReplaySource(path: string, settings: ReplaySettings): Promise<Source> {
   const full = resolve(path);
   const info = await stat(full).catch(() => null);
-  if (!info?.isFile()) throw new EchotrailError('E_PATH', `replay file '${path}' not found; give a session (.session.jsonl) or a detections CSV`);
-  const open = await ingestExport<(p: string, o: ReplaySettings) => Source | Promise<Source>>('replay-source.ts', ['openReplay', 'openReplaySource']);
-  return open(full, settings);
+  if (!info?.isFile()) throw new EchotrailError('E_PATH', `replay file '${path}' not found; give a session (${SESSION_SUFFIX}) or a detections CSV`);
+  return new ReplaySource({ path: full, loop: settings.loop, speed: settings.speed, autoplay: settings.autoplay });
 }
 
 /** The source the options ask for, or null when the bridge starts idle (no serial, no replay). */
@@ -50,16 +43,9 @@ export async function openConfiguredSource(o: ResolvedBridgeOptions): Promise<So
   return null;
 }
 
-/**
- * Resolves a session id from a client to a file inside the sessions folder. Ids are file names:
- * anything with a path separator or a leading dot is refused, so a client cannot name other files.
- */
+/** Resolves a session id from a client to its file in the sessions folder (unsafe ids are refused). */
 export async function sessionPath(sessionsDir: string, sessionId: string): Promise<string> {
-  if (!sessionId || sessionId !== basename(sessionId) || sessionId.startsWith('.') || sessionId.includes('\\')) {
-    throw new EchotrailError('E_PATH', `'${sessionId.slice(0, 80)}' is not a session id (use an id from the session list)`);
-  }
-  const full = join(sessionsDir, sessionId);
-  const info = await stat(full).catch(() => null);
-  if (!info?.isFile()) throw new EchotrailError('E_PATH', `no session '${sessionId.slice(0, 80)}' in the sessions folder`);
-  return full;
+  const path = await findSession(sessionsDir, sessionId);
+  if (!path) throw new EchotrailError('E_PATH', `no session '${sessionId.slice(0, 80)}' in the sessions folder; pick one from the session list`);
+  return path;
 }

@@ -6,7 +6,6 @@
 import type { Detection, FixedEcho, PositionerSample, TrackDeletion, TrackUpdate } from '../types.ts';
 import type { DetectionWire, PathPointWire, TrackWire } from './protocol.ts';
 import { Ring } from './ring.ts';
-import type { SessionSnapshotLike } from './deps.ts';
 
 /** Caps of the state; copied from the resolved bridge options. */
 export interface LiveStateOptions {
@@ -154,25 +153,6 @@ export class LiveState {
 
   recentDetections(): DetectionWire[] {
     return this.detections.toArray();
-  }
-
-  /** Takes over a recorded session's state at a time (after a seek). */
-  loadSnapshot(snap: SessionSnapshotLike): void {
-    this.reset();
-    for (const d of snap.detections) this.addDetection(d);
-    for (const u of snap.tracks) {
-      this.trackMap.set(u.id, toTrackWire(u));
-      this.historyMap.set(u.id, new Ring(this.options.historyPoints));
-    }
-    for (const h of snap.history) {
-      const ring = this.historyMap.get(h.id);
-      if (!ring) continue;
-      for (let i = 0; i + 2 < h.points.length; i += 3) ring.push([h.points[i], h.points[i + 1], h.points[i + 2]]);
-    }
-    this.fixedEchoes = snap.fixedEchoes;
-    if (snap.commanded.length) this.setCommanded(snap.commanded);
-    this.antennaAzimuthRad = snap.antenna?.azimuthRad ?? null;
-    this.timeS = snap.timeS;
   }
 
   /** Replaces the tracks wholesale (from a tracker after a rebuild). History starts again from them. */

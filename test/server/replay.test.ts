@@ -1,0 +1,122 @@
+/**
+ * The bridge on real replays (bridge/ingest/replay-source.ts): a recorded session carrying its
+ * tracks, and a detections CSV re-tracked by the real tracker, driven over a real WebSocket.
+ */
+import { afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { startBridge, type RunningBridge } from '../../bridge/server/bridge.ts';
+import { Recorder } from '../../bridge/session/recorder.ts';
+import { benchCsv, resolveBenchRunOptions, trackerOptionsFor } from '../helpers/bench-run.ts';
+import { trackAt } from '../helpers/scripted-source.ts';
+import { TestClient } from '../helpers/ws-client.ts';
+
+let bridge: RunningBridge | null = null;
+const clients: TestClient[] = [];
+let dir = '';
+let sessionFile = '';
+let sessionId = '';
+
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), 'et-replay-'));
+  const rec = new Recorder({ dir, name: 'circle', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T10:00:00Z') });
+  expect(rec.open()).toBe(true);
+  rec.record({ kind: 'commanded', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 10, x: 5, y: 2 }] }, 0);
+  for (let i = 0; i <= 100; i++) {
+    const t = i * 0.1;
+    rec.record({ kind: 'detection', detection: { timeS: t, azimuthRad: 0.3, rangeM: 2.2, amplitude: 40 } });
+    rec.record({ kind: 'track', update: trackAt(1, t, t * 0.5, 2) });
+  }
+  rec.record({ kind: 'deletion', deletion: { timeS: 10, id: 1, reason: 'misses' } });
+  const file = rec.status().path as string;
+  rec.close();
+  sessionFile = file;
+  sessionId = file.split('/').pop()!.replace('.session.jsonl', '');
+});
+
+afterEach(async () => {
+  await Promise.all(clients.splice(0).map((c) => c.close()));
+  await bridge?.close();
+  bridge = null;
+});
+
+async function connect(b: RunningBridge): Promise<TestClient> {
+  const c = await TestClient.connect(b.wsUrl);
+  clients.push(c);
+  await c.next('snapshot');
+  return c;
+}
+
+describe('replay of a recorded session', () => {
+  it('seeks: a fresh snapshot holds the tracks, history and commanded path at the new time', async () => {
+    bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    expect(c.of('snapshot')[0].replay).toMatchObject({ sessionId, durationS: 10, playing: false });
+    c.send({ type: 'control', action: 'seek', value: 5 });
+    const snap = await c.next('snapshot', (s) => s.tracks.length > 0);
+    expect(snap.replay?.positionS).toBe(5);
+    expect(snap.tracks[0].id).toBe(1);
+    expect(snap.tracks[0].timeS).toBeCloseTo(5, 6);
+    expect(snap.commanded).toHaveLength(2);
+    const pts = snap.history[0].points;
+    expect(pts.length % 3).toBe(0);
+    expect(pts[pts.length - 3]).toBeCloseTo(5, 6);
+    // The re-sent state is in the snapshot, not streamed again as increments.
+    expect(c.of('scan').flatMap((s) => s.updates)).toEqual([]);
+  });
+
+  it('plays from the seek position: updates after it arrive in time order, then the deletion', async () => {
+    bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 8 });
+    await c.next('snapshot', (s) => s.replay?.positionS === 8);
+    c.send({ type: 'control', action: 'speed', value: 50 });
+    c.send({ type: 'control', action: 'play' });
+    await c.next('scan', (s) => s.deletions.length > 0);
+    const times = c.of('scan').flatMap((s) => s.updates.map((u) => u.timeS));
+    expect(times.length).toBeGreaterThan(10);
+    expect(times[0]).toBeGreaterThan(8);
+    expect(times).toEqual([...times].sort((a, b) => a - b));
+  });
+
+  it('lists sessions and opens one by id over the WebSocket; refuses unknown ids', async () => {
+    bridge = await startBridge({ port: 0, sessionsDir: dir, log: () => undefined });
+    const c = await connect(bridge);
+    expect(c.of('snapshot')[0].source.kind).toBe('none');
+    c.send({ type: 'list-sessions' });
+    const list = await c.next('sessions');
+    expect(list.sessions.map((s) => s.id)).toContain(sessionId);
+    c.send({ type: 'open-session', sessionId: '../../etc/passwd' });
+    expect((await c.next('error')).code).toBe('E_PATH');
+    c.send({ type: 'open-session', sessionId });
+    const snap = await c.next('snapshot', (s) => s.replay?.sessionId === sessionId);
+    expect(snap.source.kind).toBe('replay');
+  });
+});
+
+describe('replay of a detections CSV', () => {
+  it('tracks it with the real tracker, and after a seek re-tracks up to the new time', async () => {
+    const run = resolveBenchRunOptions({ durationS: 20 });
+    const csv = join(dir, 'circle.csv');
+    writeFileSync(csv, benchCsv(run));
+    bridge = await startBridge({ port: 0, replay: csv, sessionsDir: dir, autoplay: false, trackerOptions: trackerOptionsFor(run), log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 12 });
+    const snap = await c.next('snapshot', (s) => s.replay?.positionS === 12);
+    const moving = snap.tracks.filter((t) => t.moving && t.status === 'confirmed');
+    expect(moving).toHaveLength(1);
+    // The reflector at 12 s: angle v·t/r on the circle around (0, 3).
+    const a = (0.5 * 12) / 1;
+    expect(Math.hypot(moving[0].x - Math.sin(a), moving[0].y - (3 + Math.cos(a)))).toBeLessThan(0.15);
+    expect(snap.detections.length).toBeGreaterThan(0);
+    expect(Math.max(...snap.detections.map((d) => d.timeS))).toBeLessThanOrEqual(12);
+    c.send({ type: 'control', action: 'speed', value: 20 });
+    c.send({ type: 'control', action: 'play' });
+    const scan = await c.next('scan', (s) => s.updates.some((u) => u.id === moving[0].id));
+    // Play carries on from the rebuilt track: its next update is newer than the snapshot's.
+    const next = scan.updates.find((u) => u.id === moving[0].id)!;
+    expect(next.timeS).toBeGreaterThan(moving[0].timeS);
+    expect(next.timeS).toBeLessThan(12 + 1);
+  });
+});
