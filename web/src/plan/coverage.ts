@@ -9,7 +9,7 @@ export interface Coverage {
   sectorEndRad: number;
 }
 
-export const defaultCoverage: Coverage = { minRangeM: 0.3, maxRangeM: 6, sectorStartRad: 0, sectorEndRad: 0 };
+export const defaultCoverage: Coverage = { minRangeM: 0.3, maxRangeM: 8, sectorStartRad: 0, sectorEndRad: 0 };
 
 export function isFullTurn(c: Coverage): boolean {
   const span = ((c.sectorEndRad - c.sectorStartRad) % (2 * Math.PI) + 2 * Math.PI) % (2 * Math.PI);

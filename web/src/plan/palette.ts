@@ -15,8 +15,12 @@ export const commandedColour = 0xf0e442;
 export const antennaColour = 0x9ad7c0;
 export const selectionColour = 0xffffff;
 
-/** Okabe–Ito orange, sky blue, bluish green, reddish purple, vermillion, lightened blue. */
-export const trackColours = [0xe69f00, 0x56b4e9, 0x009e73, 0xcc79a7, 0xd55e00, 0x5aa5e0] as const;
+/**
+ * Okabe–Ito orange, sky blue, bluish green, reddish purple, vermillion. Their blue is left out:
+ * on this background it is too dark and too close to the sky blue. With more than five tracks
+ * hues repeat, which is why the id label, not the colour, identifies a track.
+ */
+export const trackColours = [0xe69f00, 0x56b4e9, 0x009e73, 0xcc79a7, 0xd55e00] as const;
 
 export function trackColour(id: number): number {
   return trackColours[id % trackColours.length];

@@ -30,9 +30,9 @@ export class StaticLayer {
     if (showGrid) this.drawGrid(g, view, step);
     const o = toScreen(view, 0, 0);
     const far = Math.max(coverage.maxRangeM, step);
-    // Rings every `step` out to the coverage edge, labelled along the 45° spoke where they do not
-    // collide with the 0° spoke's labels.
-    const labelAz = Math.PI / 4;
+    // Rings every `step` out to the coverage edge, labelled along a line from the radar towards
+    // the middle of the screen (so labels stay in view when zoomed in), offset from any spoke.
+    const labelAz = ringLabelAzimuth(view);
     for (let r = step; r <= far + 1e-9; r += step) {
       g.circle(o.px, o.py, r * view.scale).stroke({ width: 1, color: ringColour, alpha: 0.55 });
       const p = toScreen(view, r * Math.sin(labelAz), r * Math.cos(labelAz));
@@ -89,6 +89,16 @@ export class StaticLayer {
     t.position.set(Math.round(x), Math.round(y));
     t.visible = true;
   }
+}
+
+/** Azimuth along which ring labels go: towards the view centre, or 45° when the radar is centred. */
+export function ringLabelAzimuth(view: View): number {
+  if (Math.hypot(view.centreX, view.centreY) * view.scale < 40) return Math.PI / 4;
+  const az = Math.atan2(view.centreX, view.centreY);
+  // Keep clear of the spokes (every 30°) so labels do not sit on a line.
+  const spoke = (SPOKE_STEP_DEG * Math.PI) / 180;
+  const off = ((az % spoke) + spoke) % spoke;
+  return off < spoke * 0.25 || off > spoke * 0.75 ? az + spoke * 0.3 : az;
 }
 
 /** "0.5", "1", "2.5": ring labels without trailing zeros. */

@@ -5,6 +5,7 @@
 import { clientMessage, serverMessage, type ClientMessage } from '../../../bridge/server/protocol.ts';
 import { applyMessage } from './reduce.ts';
 import { type DashboardState, type StateLimits, createState, defaultLimits } from './state.ts';
+import { pageToken, withToken } from './token.ts';
 
 export interface StreamClientOptions {
   /** WebSocket URL; defaults to /ws on the page's own host. */
@@ -30,7 +31,7 @@ export class StreamClient {
 
   constructor(options: StreamClientOptions = {}) {
     const proto = location.protocol === 'https:' ? 'wss:' : 'ws:';
-    this.url = options.url ?? `${proto}//${location.host}/ws`;
+    this.url = options.url ?? withToken(`${proto}//${location.host}/ws`, pageToken());
     this.limits = options.limits ?? defaultLimits;
     this.maxBackoffMs = options.maxBackoffMs ?? 5000;
   }

@@ -1,0 +1,138 @@
+/**
+ * The dashboard end to end: the built page in headless Chromium against a real bridge
+ * (`startBridge`) replaying a simulated turntable run through the real tracker.
+ *
+ * Without Chromium the test skips with a message, except under CI=true, where it fails.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { background, trackColour } from '../../web/src/plan/palette.ts';
+import {
+  buildDashboard, chromiumAvailable, colourDistance, launchChromium, repoRoot, rgbOf, samplePixels, CHROMIUM_PATH,
+} from '../web/fixtures/browser.ts';
+import { startDemoBridge, type DemoBridge } from '../web/fixtures/demo-run.ts';
+
+const inCi = process.env.CI === 'true';
+const haveChromium = chromiumAvailable();
+if (!haveChromium && !inCi) console.warn(`dashboard e2e skipped: no Chromium at ${CHROMIUM_PATH} (set CHROMIUM_PATH, or run with CI=true to make this a failure)`);
+const artifacts = join(repoRoot, 'test-artifacts');
+
+describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', () => {
+  let demo: DemoBridge;
+  let browser: Browser;
+  let page: Page;
+  const pageErrors: string[] = [];
+
+  beforeAll(async () => {
+    if (!haveChromium) throw new Error(`CI=true but no Chromium at ${CHROMIUM_PATH}`);
+    const dist = await buildDashboard();
+    demo = await startDemoBridge(dist, 'turntable');
+    browser = await launchChromium();
+    page = await browser.newPage({ viewport: { width: 1400, height: 860 } });
+    page.on('pageerror', (e) => pageErrors.push(e.message));
+    await page.goto(demo.bridge.url);
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await demo?.bridge.close();
+  });
+
+  const clock = () => page.locator('[data-testid=replay-clock]').innerText();
+  const sourceState = () => page.locator('[data-testid=source-status] [data-state]').getAttribute('data-state');
+
+  it('loads, reports the replay and lists tracks', async () => {
+    await page.waitForFunction(() => window.echotrail !== undefined);
+    expect(['webgl', 'canvas']).toContain(await page.evaluate(() => window.echotrail?.renderer));
+    await page.locator('[data-testid=source-status] [data-state="replay-playing"]').waitFor();
+    await page.locator('[data-testid=track-list] tbody tr[data-track-id]').first().waitFor({ timeout: 60_000 });
+    const ids = await page.locator('[data-testid=track-list] tbody tr[data-track-id]').evaluateAll((rows) => rows.map((r) => Number(r.getAttribute('data-track-id'))));
+    expect(ids.length).toBeGreaterThan(0);
+    expect(await page.locator('[data-testid=track-list]').innerText()).toMatch(/\d+\.\d\d m/);
+    expect(pageErrors).toEqual([]);
+  });
+
+  it('pauses and the picture stops; plays and it moves on', async () => {
+    await page.click('[data-testid=play-pause]');
+    await page.locator('[data-testid=source-status] [data-state="replay-paused"]').waitFor();
+    await page.locator('[data-testid=play-pause]', { hasText: 'Play' }).waitFor();
+    const paused = await clock();
+    const pausedT = await page.evaluate(() => window.echotrail!.timeS());
+    await page.waitForTimeout(1200);
+    expect(await clock()).toBe(paused);
+    expect(await page.evaluate(() => window.echotrail!.timeS())).toBe(pausedT);
+    await page.click('[data-testid=play-pause]');
+    await page.waitForFunction((before) => document.querySelector('[data-testid=replay-clock]')?.textContent?.trim() !== before, paused.trim());
+    expect(await sourceState()).toBe('replay-playing');
+  });
+
+  it('changes the replay speed through the bridge', async () => {
+    await page.selectOption('[data-testid=speed]', '5');
+    await page.waitForFunction(() => (document.querySelector('[data-testid=speed]') as HTMLSelectElement).value === '5');
+    expect(await page.locator('[data-testid=speed] option:checked').innerText()).toBe('5×');
+    await page.selectOption('[data-testid=speed]', '1');
+    await page.waitForFunction(() => (document.querySelector('[data-testid=speed]') as HTMLSelectElement).value === '1');
+  });
+
+  it('seeks with the timeline and the shown time follows', async () => {
+    await page.click('[data-testid=play-pause]');
+    await page.locator('[data-testid=source-status] [data-state="replay-paused"]').waitFor();
+    await page.locator('[data-testid=timeline]').fill('40');
+    await page.waitForFunction(() => document.querySelector('[data-testid=replay-clock]')?.textContent?.startsWith('0:40'));
+    await page.waitForFunction(() => Math.abs(window.echotrail!.timeS() - 40) < 1.5);
+    await page.locator('[data-testid=timeline]').fill('25');
+    await page.waitForFunction(() => document.querySelector('[data-testid=replay-clock]')?.textContent?.startsWith('0:25'));
+    await page.waitForFunction(() => Math.abs(window.echotrail!.timeS() - 25) < 1.5);
+    // Play on a little so tracks are re-established after the jump, then freeze for the pixel check.
+    await page.click('[data-testid=play-pause]');
+    await page.waitForFunction(() => window.echotrail!.timeS() > 29, undefined, { timeout: 30_000 });
+    await page.click('[data-testid=play-pause]');
+    await page.locator('[data-testid=source-status] [data-state="replay-paused"]').waitFor();
+  });
+
+  it('draws each track where it is: pixels of its colour at its projected position', async () => {
+    await page.keyboard.press('r');
+    await page.waitForTimeout(500);
+    const target = await page.evaluate(() => {
+      const h = window.echotrail!;
+      const rect = h.canvasRect();
+      const pts = h.trackIds().map((id) => ({ id, p: h.trackPosition(id)! })).map(({ id, p }) => ({ id, s: h.project(p.x, p.y) }));
+      // The track farthest from any other on screen, so its symbol is not covered by a neighbour's.
+      const inside = pts.filter(({ s }) => s.px > 20 && s.py > 90 && s.px < rect.width - 20 && s.py < rect.height - 120);
+      const score = (a: (typeof pts)[number]) => Math.min(...pts.filter((b) => b.id !== a.id).map((b) => Math.hypot(a.s.px - b.s.px, a.s.py - b.s.py)), 1e9);
+      inside.sort((a, b) => score(b) - score(a));
+      return inside[0] ? { id: inside[0].id, x: rect.left + inside[0].s.px, y: rect.top + inside[0].s.py, corner: { x: rect.left + rect.width - 4, y: rect.top + rect.height - 4 } } : null;
+    });
+    expect(target).not.toBeNull();
+    mkdirSync(artifacts, { recursive: true });
+    const png = await page.screenshot({ path: join(artifacts, 'dashboard-e2e.png') });
+    const [atTrack, atCorner] = await samplePixels(page, png, [{ x: target!.x, y: target!.y }, target!.corner], 2);
+    const want = rgbOf(trackColour(target!.id));
+    const best = Math.min(...atTrack.map((p) => colourDistance(p, want)));
+    expect(best).toBeLessThan(40);
+    // The far corner shows the plain background (outside the coverage): the decode is sound.
+    expect(colourDistance(atCorner[0], rgbOf(background))).toBeLessThan(12);
+
+    // Clicking the symbol selects the track in the shared selection.
+    await page.mouse.click(target!.x, target!.y);
+    await page.locator('[data-testid=selected-track]', { hasText: `T${target!.id}` }).waitFor();
+    await page.locator(`[data-testid=track-list] tr.selected[data-track-id="${target!.id}"]`).waitFor();
+    await page.mouse.move(target!.x + 1, target!.y + 1);
+    await page.locator('[data-testid=hover-tip]', { hasText: `Track T${target!.id}` }).waitFor();
+    await page.screenshot({ path: join(artifacts, 'dashboard-e2e-selected.png') });
+  });
+
+  it('opens the safety note and the shortcut list from the keyboard', async () => {
+    await page.mouse.move(5, 5);
+    await page.keyboard.press('s');
+    await page.locator('[data-testid=safety]', { hasText: 'IEEE C95.1-2019' }).waitFor();
+    await page.keyboard.press('Escape');
+    await page.keyboard.press('?');
+    await page.locator('[data-testid=help]', { hasText: 'Play / pause the replay' }).waitFor();
+    await page.keyboard.press('Escape');
+    expect(await page.locator('[role=dialog]').count()).toBe(0);
+    expect(pageErrors).toEqual([]);
+  });
+});
