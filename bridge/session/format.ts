@@ -36,7 +36,7 @@ export const RECORD_KINDS = {
   fix: 'fixed-echo map snapshot: timeS, echoes[] of {x, y, rangeM, azimuthRad, seen, amplitude}',
   cmd: 'commanded path (replaces the previous one): timeS, path[] of {timeS, x, y}',
   note: 'operator or program note: timeS, text',
-  end: 'clean close: timeS (run duration), summary {detections, tracks, lines}',
+  end: 'clean close: timeS (run duration), summary {detections, tracks, lines, hasCommanded}',
 } as const;
 
 export const sessionHeader = z.object({
