@@ -14,8 +14,8 @@ export interface ReplaySourceOptions {
   loop: boolean;
   /** Start playing on start(); otherwise start paused at 0. */
   autoplay: boolean;
-  /** Default step() length, run seconds (about one antenna revolution). */
-  stepS: number;
+  /** Default step() length, run seconds; null: one antenna revolution as recorded, else 0.5 s. */
+  stepS: number | null;
   /** Longest wait between two releases, wall ms (keeps the position display moving in gaps). */
   maxTickMs: number;
   /** Shortest wait between two releases, wall ms: records due meanwhile go out together. */
@@ -35,7 +35,7 @@ export function resolveReplaySourceOptions(o: Partial<ReplaySourceOptions> & { p
     speed: o.speed ?? 1,
     loop: o.loop ?? false,
     autoplay: o.autoplay ?? true,
-    stepS: o.stepS ?? 0.5,
+    stepS: o.stepS ?? null,
     maxTickMs: o.maxTickMs ?? 100,
     minTickMs: o.minTickMs ?? 4,
     maxPerTick: o.maxPerTick ?? 20_000,
@@ -44,6 +44,6 @@ export function resolveReplaySourceOptions(o: Partial<ReplaySourceOptions> & { p
   };
   if (!r.path) throw new EchotrailError('E_OPTION', 'replay needs a file path');
   if (!(r.speed >= 0.1 && r.speed <= 50)) throw new EchotrailError('E_OPTION', `replay speed ${r.speed} outside 0.1–50`);
-  if (!(r.stepS > 0)) throw new EchotrailError('E_OPTION', 'replay step must be a positive number of seconds');
+  if (r.stepS !== null && !(r.stepS > 0)) throw new EchotrailError('E_OPTION', 'replay step must be a positive number of seconds');
   return r;
 }

@@ -89,7 +89,7 @@ export class ReplaySource extends EventEmitter implements Source, ReplayControl 
     this.emit('state', 'paused');
   }
 
-  step(seconds = this.options.stepS): void {
+  step(seconds = this.options.stepS ?? this.timeline?.revolutionS ?? 0.5): void {
     if (!this.timeline) return;
     if (this.playing) this.pause();
     if (this.ended) return;

@@ -20,6 +20,8 @@ export interface ReplayTimeline {
   /** Lines refused when the file was read (at most a capped number), and their exact count. */
   readonly badLines: BadLine[];
   readonly badLineCount: number;
+  /** Antenna revolution period when known, s (the default replay step). */
+  readonly revolutionS: number | null;
   /** Records at or after `fromS`, in order. */
   cursor(fromS: number): Iterator<TimedSourceRecord>;
   snapshot(timeS: number): SessionSnapshot;
@@ -41,6 +43,7 @@ class SessionTimeline implements ReplayTimeline {
   get durationS() { return this.s.durationS; }
   get badLines() { return this.s.badLines; }
   get badLineCount() { return this.s.badLineCount; }
+  get revolutionS() { return this.s.revolutionS; }
   *cursor(fromS: number): Iterator<TimedSourceRecord> {
     for (const r of this.s.cursor(fromS)) if (isSource(r.record)) yield { timeS: r.timeS, record: r.record };
   }
@@ -67,6 +70,7 @@ function lowerBound(d: Detection[], t: number): number {
 class CsvTimeline implements ReplayTimeline {
   readonly carriesTracks = false;
   readonly durationS: number;
+  readonly revolutionS = null;
   constructor(readonly id: string, private readonly d: Detection[], readonly badLines: BadLine[], private readonly windowS: number) {
     this.durationS = d.length ? d[d.length - 1].timeS : 0;
   }

@@ -74,6 +74,8 @@ export class SessionReader {
   /** A last line without newline, ignored. */
   truncatedTail: { line: number; bytes: number } | null = null;
   index!: SeekIndex;
+  /** Antenna revolution period (median of the first revolutions), s; null for a staring antenna. */
+  revolutionS: number | null = null;
   private fd: number | null;
 
   constructor(readonly path: string, opts: Partial<OpenSessionOptions> = {}) {
@@ -168,6 +170,7 @@ export class SessionReader {
     this.header = h.data;
     this.index = new SeekIndex(this.opts.checkpointS, raw.offset + Buffer.byteLength(raw.text) + 1, 2);
     let n = 0;
+    const revolution = new RevolutionEstimate();
     for (const rawLine of it) {
       const r = parseSessionLine(rawLine);
       if (typeof r === 'string') {
@@ -182,11 +185,28 @@ export class SessionReader {
         if (r.record.kind === 'detection') this.detections++;
         else if (r.record.kind === 'track') this.trackIds.add(r.record.update.id);
         else if (r.record.kind === 'commanded') this.hasCommanded = true;
+        else if (r.record.kind === 'antenna') revolution.add(r.record.sample.timeS, r.record.sample.azimuthRad);
       }
       // Let a server keep serving while a long session is indexed.
       if (++n % 50_000 === 0) await new Promise((res) => setImmediate(res));
     }
     this.truncatedTail = reader.tail();
+    this.revolutionS = revolution.periodS();
+  }
+}
+
+/** Antenna period from the times the azimuth wraps through 0 (clockwise rotation). */
+class RevolutionEstimate {
+  private last: number | null = null;
+  private wraps: number[] = [];
+  add(timeS: number, azimuthRad: number): void {
+    if (this.wraps.length > 40) return;
+    if (this.last !== null && this.last > 1.5 * Math.PI && azimuthRad < 0.5 * Math.PI) this.wraps.push(timeS);
+    this.last = azimuthRad;
+  }
+  periodS(): number | null {
+    const d = this.wraps.slice(1).map((t, i) => t - this.wraps[i]).sort((a, b) => a - b);
+    return d.length ? d[d.length >> 1] : null;
   }
 }
 

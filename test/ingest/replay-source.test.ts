@@ -88,9 +88,14 @@ describe('ReplaySource over a session', () => {
     h.src.step(0.5);
     expect(h.src.state()).toMatchObject({ positionS: 0.5, playing: false });
     expect(h.records()).toEqual(syn.written.filter((w) => w.timeS <= 0.5).map((w) => w.record));
+    // Default step: one antenna revolution as recorded. The synthetic antenna turns 0.3 rad per
+    // 0.1 s scan, so 2π/3 s, seen to within one scan.
     h.src.step();
-    expect(h.src.state().positionS).toBe(1);
-    expect(h.records().length).toBe(syn.written.filter((w) => w.timeS <= 1).length);
+    const rev = h.src.state().positionS - 0.5;
+    expect(Math.abs(rev - (2 * Math.PI) / 3)).toBeLessThanOrEqual(0.1 + 1e-9);
+    expect(h.records().length).toBe(syn.written.filter((w) => w.timeS <= 0.5 + rev).length);
+    h.src.step(0.25);
+    expect(h.src.state().positionS).toBeCloseTo(0.75 + rev, 12);
     await h.src.close();
   });
 
