@@ -41,6 +41,8 @@ interface Candidate {
   /** Smoothed share of scans with a hit. */
   rate: number;
   lastScan: number;
+  /** First detection, s. */
+  firstS: number;
   /** Start of the current persistent stretch, s. */
   sinceS: number;
   lastSeenS: number;
@@ -87,12 +89,19 @@ export class FixedEchoMap {
     return best;
   }
 
-  /** d² of the measurement to the nearest fixed echo, or Infinity: the tracker lets the echo keep closer detections. */
+  /**
+   * Cost d² + ln|S| of explaining the measurement by the nearest fixed echo, or Infinity when no
+   * echo gates it. On the same scale as the assignment cost, so the tracker can let the echo keep
+   * a detection that it explains better than a moving track does.
+   */
   match(m: Measurement): number {
     const c = this.nearest(m, true);
     if (!c) return Infinity;
     const k = 1 + 1 / c.n;
-    return mahalanobis2(m.x - c.x, m.y - c.y, k * m.rxx + 1e-4, k * m.rxy, k * m.ryy + 1e-4);
+    const sxx = k * m.rxx + 1e-4;
+    const sxy = k * m.rxy;
+    const syy = k * m.ryy + 1e-4;
+    return mahalanobis2(m.x - c.x, m.y - c.y, sxx, sxy, syy) + Math.log(sxx * syy - sxy * sxy);
   }
 
   /**
@@ -104,7 +113,12 @@ export class FixedEchoMap {
     const c = this.nearest(m, false);
     if (!c) return false;
     const scan = Math.floor(m.timeS / this.scanS);
-    return c.fixed || (c.scansSeen >= 3 && c.rate * (1 - A) ** Math.max(0, scan - c.lastScan - 1) >= 0.3);
+    return c.fixed || (m.timeS - c.firstS >= this.settleS() && c.rate * (1 - A) ** Math.max(0, scan - c.lastScan - 1) >= 0.3);
+  }
+
+  /** How long a candidate must have been answering before it counts as persistent, s. */
+  settleS(): number {
+    return Math.max(3 * this.scanS, 2);
   }
 
   /** Learns from a detection no moving track took; true when it belongs to a fixed echo. */
@@ -112,7 +126,7 @@ export class FixedEchoMap {
     const scan = Math.floor(m.timeS / this.scanS);
     let c = this.nearest(m, false);
     if (!c) {
-      c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, lastScan: scan - 1, sinceS: m.timeS, lastSeenS: m.timeS, scansSeen: 0, fixed: false };
+      c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, scansSeen: 0, fixed: false };
       this.cands.set(c.id, c);
       this.grid.set(c.id, m.x, m.y, 0.5);
     }

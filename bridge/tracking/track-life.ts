@@ -40,6 +40,8 @@ export class Track {
   quality = 0.3;
   /** Sticky: set once the track has left its starting point. */
   moved = false;
+  /** Consecutive hits on detections inside a fixed echo's gate. */
+  echoHits = 0;
   lastNis: number | undefined;
   lastMeasurement: Measurement | undefined;
   private readonly mofn: MofN;
@@ -77,9 +79,10 @@ export class Track {
 
   /**
    * After the filter took `m`. `moveThresholdM` decides when the track has left its start;
-   * `onReflector` says the detection sits on a persistent stationary reflector.
+   * `onReflector` says the detection sits on a persistent stationary reflector; no track counts
+   * as moving before it is `settleS` old, the time the map needs to know the reflectors.
    */
-  onHit(m: Measurement, nis: number, d: Detection, moveThresholdM: number, onReflector = false): void {
+  onHit(m: Measurement, nis: number, d: Detection, moveThresholdM: number, onReflector = false, settleS = 0): void {
     this.hits++;
     this.misses = 0;
     this.lastHitS = m.timeS;
@@ -112,7 +115,7 @@ export class Track {
       if (onReflector) {
         // neither evidence of motion nor of rest
       } else if (this.status !== 'tentative' && d2 > 13.8155 && dx * dx + dy * dy > moveThresholdM * moveThresholdM) {
-        if (++this.outside >= 3) this.moved = true;
+        if (++this.outside >= 3 && m.timeS - this.createdS >= settleS) this.moved = true;
       } else {
         this.outside = 0;
         this.an++;

@@ -30,6 +30,8 @@ export interface TrackerOptions {
   fixedEchoes: FixedEchoOptions;
   /** Assignment batch window, s; 0 = one revolution (rotating) or half the staring interval. */
   batchS: number;
+  /** Also report confirmed tracks that never moved (they still turn into fixed echoes unless those are off). */
+  reportStationary: boolean;
   /** Warm-up used for inference ends after this much run time, s. */
   warmupS: number;
   /** ...or after this many detections, whichever comes first. */
@@ -48,6 +50,7 @@ export interface TrackerOptionsInput {
   deletion?: Partial<DeletionOptions>;
   fixedEchoes?: Partial<FixedEchoOptions>;
   batchS?: number;
+  reportStationary?: boolean;
   warmupS?: number;
   warmupDetections?: number;
 }
@@ -65,6 +68,7 @@ export function resolveTrackerOptions(o: TrackerOptionsInput = {}): TrackerOptio
     deletion: resolveDeletionOptions(o.deletion),
     fixedEchoes: resolveFixedEchoOptions(o.fixedEchoes),
     batchS: o.batchS ?? 0,
+    reportStationary: o.reportStationary ?? false,
     warmupS: o.warmupS ?? 12,
     warmupDetections: o.warmupDetections ?? 20000,
   };

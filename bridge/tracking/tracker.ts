@@ -111,24 +111,25 @@ export class Tracker implements TrackEngine {
     const ms: Measurement[] = dets.map((d) => toMeasurement(d, this.meas));
     const pairs: GatedPair[] = [];
     const missCost = new Map<number, number>();
-    const echoD2 = new Float64Array(ms.length).fill(Infinity);
+    const echoCost = new Float64Array(ms.length).fill(Infinity);
     const nearConfirmed = new Uint8Array(ms.length);
     const learn = o.fixedEchoes.enabled;
     for (let j = 0; j < ms.length; j++) {
       const m = ms[j];
-      if (learn) echoD2[j] = this.echoes.match(m);
+      if (learn) echoCost[j] = this.echoes.match(m);
       for (const id of this.grid.query(m.x, m.y)) {
         const t = this.live.get(id)!;
         // Inside a fixed echo's gate only a moving track may take a detection, and only one
         // that it explains better than the echo does.
-        if (echoD2[j] < gamma && !t.moved) continue;
+        if (echoCost[j] < Infinity && !t.moved) continue;
         const p = t.filter.peek(m.timeS);
         const sxx = p.pxx + m.rxx;
         const sxy = p.pxy + m.rxy;
         const syy = p.pyy + m.ryy;
         const d2 = mahalanobis2(m.x - p.x, m.y - p.y, sxx, sxy, syy);
-        if (!(d2 < gamma) || d2 > echoD2[j]) continue;
+        if (!(d2 < gamma)) continue;
         const logDet = Math.log(sxx * syy - sxy * sxy);
+        if (d2 + logDet > echoCost[j]) continue;
         pairs.push({ track: id, det: j, cost: d2 + logDet });
         missCost.set(id, Math.max(missCost.get(id) ?? -Infinity, gamma + logDet));
         if (t.status !== 'tentative') nearConfirmed[j] = 1;
@@ -144,10 +145,15 @@ export class Tracker implements TrackEngine {
       t.filter.predict(m.timeS);
       const nis = t.filter.update(m);
       const onReflector = learn && !t.moved && this.echoes.persistentAt(m);
-      t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, onReflector);
+      t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, onReflector, learn ? this.echoes.settleS() : 0);
+      // A "moving" track living on fixed-echo detections for five hits in a row is a track that
+      // wandered onto the echoes (a wall of reflectors): it loses its moving status and, with it,
+      // access to echo detections, so it coasts out.
+      t.echoHits = echoCost[j] < Infinity ? t.echoHits + 1 : 0;
+      if (t.echoHits >= 5) t.moved = false;
       if (this.becomesEcho(t, m.timeS, out)) continue;
       this.register(t);
-      if (t.status !== 'tentative' && t.moved) out.updates.push(t.update(true));
+      if (t.status !== 'tentative' && (t.moved || o.reportStationary)) out.updates.push(t.update(true));
     }
     for (let j = 0; j < ms.length; j++) {
       if (taken[j] === 2) continue;
@@ -189,7 +195,7 @@ export class Tracker implements TrackEngine {
         continue;
       }
       this.register(t);
-      if (t.status !== 'tentative' && t.moved) out.updates.push(t.update(false));
+      if (t.status !== 'tentative' && (t.moved || this.options.reportStationary)) out.updates.push(t.update(false));
     }
   }
 

@@ -1,0 +1,214 @@
+/**
+ * `echotrail track`: detections CSV in, tracks CSV out, no server (../../../shared/conventions.md).
+ *
+ * Streams: the reader hands over detections chunk by chunk, the tracker holds only live tracks and
+ * its fixed-echo map, and output lines leave in ~64 kB writes that wait for the file to drain, so
+ * memory stays flat on files of millions of rows. Options given on the command line override the
+ * profile, which overrides the defaults.
+ */
+import { createWriteStream } from 'node:fs';
+import { once } from 'node:events';
+import type { Writable } from 'node:stream';
+import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { EchotrailError } from '../errors.ts';
+import { formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
+import { loadTrackerProfile } from '../tracking/profile.ts';
+import { describeInference, Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
+import { TRACKS_CSV_HEADER, trackCsvLine } from '../tracking/tracks-csv.ts';
+
+const DEG = Math.PI / 180;
+
+const num = (v: string) => {
+  const n = Number(v);
+  if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('not a number');
+  return n;
+};
+const int = (v: string) => {
+  const n = num(v);
+  if (!Number.isInteger(n)) throw new InvalidArgumentError('not an integer');
+  return n;
+};
+const mOfN = (v: string) => {
+  const m = /^(\d+)\s*(?:\/|of)\s*(\d+)$/.exec(v.trim());
+  if (!m) throw new InvalidArgumentError('expected M/N, e.g. 3/4');
+  return { m: Number(m[1]), n: Number(m[2]) };
+};
+const oneOf = (...values: string[]) => (v: string) => {
+  if (!values.includes(v)) throw new InvalidArgumentError(`expected one of ${values.join(', ')}`);
+  return v;
+};
+
+function program(): Command {
+  return new Command('echotrail track')
+    .description(
+      'Track a detections CSV (time_s,azimuth_deg,range_m,amplitude) into a tracks CSV: one row per confirmed-track update, in time order.\n' +
+        'Antenna kind, revolution period and measurement noise are inferred from the run unless given; what was inferred is printed on stderr.',
+    )
+    .requiredOption('--in <file>', 'detections CSV; - for stdin')
+    .requiredOption('--out <file>', 'tracks CSV to write; - for stdout')
+    .option('--profile <file>', 'JSON tracker profile (format: bridge/tracking/profile.ts); command-line options override it')
+    .option('--antenna <kind>', 'auto, rotating or staring (default auto: from azimuth wrap-around)', oneOf('auto', 'rotating', 'staring'))
+    .option('--interval <s>', 'revolution period (rotating) or per-target update interval (staring), s (default: inferred)', num)
+    .option('--sigma-range <m>', 'range noise σ, m (default 0.05, or estimated from stationary reflectors)', num)
+    .option('--sigma-azimuth <deg>', 'azimuth noise σ, degrees (default 1.5, or estimated from stationary reflectors)', num)
+    .option('--no-estimate-noise', 'do not estimate the noise from the run; use the σ values (or their defaults)')
+    .option('--conversion <kind>', 'polar→Cartesian conversion: unbiased (Mo et al. 1998) or linearised (default unbiased)', oneOf('unbiased', 'linearised'))
+    .option('--range-offset <m>', 'added to every range, m (default 0)', num)
+    .option('--azimuth-offset <deg>', 'added to every azimuth, degrees (default 0)', num)
+    .option('--filter <kind>', 'imm (CV at two noise levels), kalman (CV) or alpha-beta (default imm)', oneOf('imm', 'kalman', 'alpha-beta'))
+    .option('--process-noise <model>', 'dwna or cwna process noise for kalman/imm (default dwna)', oneOf('dwna', 'cwna'))
+    .option('--sigma-accel <mps2>', 'acceleration noise σ of the kalman filter and of the α-β tracking index, m/s² (default 0.3)', num)
+    .option('--imm-low <mps2>', 'IMM quiet-model acceleration σ, m/s² (default 0.05)', num)
+    .option('--imm-high <mps2>', 'IMM manoeuvre-model acceleration σ, m/s² (default 1.0)', num)
+    .option('--alpha <a>', 'fixed α for alpha-beta, 0–1 (default: from Kalata\'s tracking index)', num)
+    .option('--beta <b>', 'fixed β for alpha-beta (default: from Kalata\'s tracking index)', num)
+    .option('--gate-probability <p>', 'χ² gate probability P_G, 0–1 (default 0.99)', num)
+    .option('--confirm <M/N>', 'M-of-N confirmation: M hits within N scans (default 3/4)', mOfN)
+    .option('--max-speed <mps>', 'fastest expected target, m/s; sizes the gate of new tracks (default 1.5)', num)
+    .option('--max-misses <n>', 'consecutive missed scans before a confirmed track is deleted (default 3)', int)
+    .option('--min-coast <s>', 'never delete for misses before this much coasting, s (default 1)', num)
+    .option('--max-sigma <m>', 'delete a track whose position σ exceeds this, m (default 1.5)', num)
+    .option('--no-fixed-echoes', 'do not learn fixed echoes (stationary reflectors then stay as tracks, see --stationary)')
+    .option('--fixed-after <s>', 'a reflector seen in most scans this long becomes a fixed echo, s (default max(10 s, 8 scans))', num)
+    .option('--move-threshold <m>', 'displacement that makes a track a moving target, m (default 0.15)', num)
+    .option('--fixed-forget <s>', 'forget a fixed echo not seen this long, s (default 60)', num)
+    .option('--stationary', 'also write confirmed tracks that never moved (default: only moving or recently moving targets)')
+    .option('--batch <s>', 'assignment batch window, s (default one revolution, or half the staring interval)', num)
+    .option('--max-range <m>', 'input rows with a larger range are skipped as absurd, m (default 1000)', num)
+    .exitOverride()
+    .configureOutput({ writeErr: (s) => process.stderr.write(s), writeOut: (s) => process.stdout.write(s) });
+}
+
+type Opts = Record<string, unknown>;
+
+/** Command-line options → tracker options; only what was given, so profile values survive. */
+export function optionsFromCli(o: Opts, given: (k: string) => boolean): TrackerOptionsInput {
+  const g = (k: string) => (given(k) ? o[k] : undefined);
+  const pick = <T extends object>(v: T): T | undefined => {
+    const e = Object.entries(v).filter(([, x]) => x !== undefined);
+    return e.length ? (Object.fromEntries(e) as T) : undefined;
+  };
+  const deg = (k: string) => (g(k) === undefined ? undefined : (g(k) as number) * DEG);
+  const confirm = g('confirm') as { m: number; n: number } | undefined;
+  const res: TrackerOptionsInput = {
+    antenna: g('antenna') as TrackerOptionsInput['antenna'],
+    intervalS: g('interval') as number | undefined,
+    estimateNoise: given('estimateNoise') ? (o.estimateNoise as boolean) : undefined,
+    batchS: g('batch') as number | undefined,
+    reportStationary: g('stationary') as boolean | undefined,
+    measurement: pick({
+      conversion: g('conversion') as 'unbiased' | 'linearised' | undefined,
+      sigmaRangeM: g('sigmaRange') as number | undefined,
+      sigmaAzimuthRad: deg('sigmaAzimuth'),
+      rangeOffsetM: g('rangeOffset') as number | undefined,
+      azimuthOffsetRad: deg('azimuthOffset'),
+    }),
+    filter: pick({
+      kind: g('filter') as 'imm' | 'kalman' | 'alpha-beta' | undefined,
+      processNoise: g('processNoise') as 'dwna' | 'cwna' | undefined,
+      sigmaAccel: g('sigmaAccel') as number | undefined,
+      sigmaLow: g('immLow') as number | undefined,
+      sigmaHigh: g('immHigh') as number | undefined,
+      alpha: g('alpha') as number | undefined,
+      beta: g('beta') as number | undefined,
+    }),
+    gate: pick({ probability: g('gateProbability') as number | undefined }),
+    initiation: pick({ m: confirm?.m, n: confirm?.n, maxSpeedMps: g('maxSpeed') as number | undefined }),
+    deletion: pick({ maxMisses: g('maxMisses') as number | undefined, minCoastS: g('minCoast') as number | undefined, maxPositionSigmaM: g('maxSigma') as number | undefined }),
+    fixedEchoes: pick({
+      enabled: given('fixedEchoes') ? (o.fixedEchoes as boolean) : undefined,
+      afterS: g('fixedAfter') as number | undefined,
+      moveThresholdM: g('moveThreshold') as number | undefined,
+      forgetS: g('fixedForget') as number | undefined,
+    }),
+  };
+  return Object.fromEntries(Object.entries(res).filter(([, v]) => v !== undefined)) as TrackerOptionsInput;
+}
+
+/** Profile, then command line, group by group. */
+function merge(a: TrackerOptionsInput, b: TrackerOptionsInput): TrackerOptionsInput {
+  const out: Record<string, unknown> = { ...a };
+  for (const [k, v] of Object.entries(b)) {
+    const prev = out[k];
+    out[k] = v && typeof v === 'object' && prev && typeof prev === 'object' ? { ...prev, ...v } : v;
+  }
+  return out as TrackerOptionsInput;
+}
+
+export async function run(argv: string[]): Promise<number> {
+  const cmd = program();
+  try {
+    cmd.parse(argv, { from: 'user' });
+  } catch (err) {
+    if (err instanceof CommanderError) return err.exitCode === 0 ? 0 : 2;
+    throw err;
+  }
+  const o = cmd.opts();
+  try {
+    const given = (k: string) => cmd.getOptionValueSource(k) === 'cli';
+    const fromProfile = o.profile ? await loadTrackerProfile(o.profile as string) : {};
+    const tracker = new Tracker(merge(fromProfile, optionsFromCli(o, given)));
+    await trackFile(tracker, o.in as string, o.out as string, o.maxRange as number | undefined);
+    return 0;
+  } catch (err) {
+    if (err instanceof EchotrailError) {
+      process.stderr.write(`echotrail track: ${err.message}\n`);
+      return err.code === 'E_OPTION' ? 2 : 1;
+    }
+    throw err;
+  }
+}
+
+/** The streaming loop: reader → tracker → CSV, with the stderr reports. */
+async function trackFile(tracker: Tracker, input: string, output: string, maxRangeM: number | undefined): Promise<void> {
+  const reader = readDetectionsCsv(input, maxRangeM !== undefined ? { maxRangeM } : {});
+  const out: Writable = output === '-' ? process.stdout : createWriteStream(output);
+  const failed = new Promise<never>((_, reject) =>
+    out.once('error', (e: Error) => reject(new EchotrailError('E_PATH', `cannot write ${output}: ${e.message}`, { cause: e }))),
+  );
+  failed.catch(() => undefined);
+  const tty = process.stderr.isTTY === true;
+  let told = false;
+  let lastProgress = 0;
+  let rows = 0;
+  let buf = TRACKS_CSV_HEADER + '\n';
+  const tell = () => {
+    const inf = tracker.inferred();
+    if (told || !inf) return;
+    told = true;
+    if (tty) process.stderr.write('\r\x1b[K');
+    for (const l of describeInference(inf)) process.stderr.write(`echotrail track: ${l}\n`);
+  };
+  const drain = async (force: boolean) => {
+    if (buf.length < 65536 && !force) return;
+    const ok = out.write(buf);
+    buf = '';
+    if (!ok) await Promise.race([once(out, 'drain'), failed]);
+  };
+  for await (const batch of reader.batches()) {
+    for (const d of batch) {
+      const r = tracker.push(d);
+      for (const u of r.updates) buf += trackCsvLine(u) + '\n';
+    }
+    rows += batch.length;
+    tell();
+    await drain(false);
+    if (tty && performance.now() - lastProgress > 500) {
+      lastProgress = performance.now();
+      const t = batch.length ? batch[batch.length - 1].timeS : 0;
+      process.stderr.write(`\r\x1b[K${rows} rows, ${t.toFixed(1)} s of run, ${tracker.tracks().length} live tracks`);
+    }
+  }
+  for (const u of tracker.flush().updates) buf += trackCsvLine(u) + '\n';
+  tell();
+  await drain(true);
+  if (output !== '-') {
+    out.end();
+    await Promise.race([once(out, 'finish'), failed]);
+  }
+  if (tty) process.stderr.write('\r\x1b[K');
+  const skipped = formatSkipReport(reader.report);
+  if (skipped) process.stderr.write(`echotrail track: ${skipped}\n`);
+  const inf = tracker.inferred();
+  if (inf?.outOfOrder) process.stderr.write(`echotrail track: ${inf.outOfOrder} detection(s) ignored: time went backwards\n`);
+}
