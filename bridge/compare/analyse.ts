@@ -9,7 +9,7 @@ import { deviations, type Deviation } from './deviation.ts';
 import { TrackFollower, type FollowOptions, type FollowSwitch } from './follow.ts';
 import { estimateLag, type LagEstimate, type LagOptions } from './lag.ts';
 import { findLegs, type Leg, type LegOptions } from './legs.ts';
-import { setMetricSeries, summariseSetSeries, type MultiOptions, type SetSample, type SetSummary } from './multi.ts';
+import { resolveMultiOptions, setMetricSeries, summariseSetSeries, type MultiOptions, type SetSample, type SetSummary } from './multi.ts';
 import { smoothTrack, type SmoothedState, type SmootherOptions } from './smoother.ts';
 import { summarise, type DeviationSummary } from './stats.ts';
 import { sampleAt, timeSpan, type TimedPath } from './timed-path.ts';
@@ -59,6 +59,8 @@ export interface Analysis {
   perLeg: { leg: Leg; filtered: SummaryPair; smoothed: SummaryPair | null }[];
   sets: SetSample[];
   setSummary: SetSummary;
+  /** Settings the set metrics were computed with (cut-off, order, grid). */
+  setOptions: MultiOptions;
   trackIds: number[];
 }
 
@@ -124,7 +126,8 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
     filtered: summaryPair(filtered, (d) => legOfSegment[d.segment] === leg.index),
     smoothed: smoothed ? summaryPair(smoothed.deviations, (d) => legOfSegment[d.segment] === leg.index) : null,
   }));
-  const sets = setMetricSeries(paths, rows, { ...o.multi, lagS: o.multi.lagS ?? lagS });
+  const setOptions = resolveMultiOptions({ ...o.multi, lagS: o.multi.lagS ?? lagS });
+  const sets = setMetricSeries(paths, rows, setOptions);
   return {
     commanded: path,
     legs,
@@ -138,6 +141,7 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
     perLeg,
     sets,
     setSummary: summariseSetSeries(sets),
+    setOptions,
     trackIds: [...new Set(rows.map((r) => r.id))].sort((a, b) => a - b),
   };
 }

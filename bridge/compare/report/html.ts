@@ -1,0 +1,149 @@
+/**
+ * The run report: one self-contained HTML file (inline CSS and SVG, no scripts, no network) with
+ * the key figures, the paths overlaid in plan, errors over time, OSPA/GOSPA, the lag search and
+ * the tables. Printable: the print stylesheet drops backgrounds and keeps figures whole.
+ */
+import type { Analysis } from '../analyse.ts';
+import type { SummaryMeta } from '../summary.ts';
+import { REPORT_CSS } from './style.ts';
+import { cell, legTable, wholeRunTable } from './tables.ts';
+import { esc, planPlot, timePlot, type Series } from './svg.ts';
+
+/** Report settings. */
+export interface ReportOptions {
+  /** Title line. */
+  title: string;
+  /** When it was generated (ISO 8601 UTC); passed in so the output is reproducible in tests. */
+  generatedUtc: string;
+}
+
+const C = { cmd: '#0f7c74', trk: '#d2641c', smo: '#6a3fb5', alt: '#2f6fb3', miss: '#b3261e', fal: '#c99a06' };
+
+function legend(items: { name: string; color: string; dash?: boolean }[]): string {
+  return `<div class="legend">${items.map((i) => `<span><i class="${i.dash ? 'dash' : ''}" style="border-top-color:${i.color}"></i>${esc(i.name)}</span>`).join('')}</div>`;
+}
+
+function figure(caption: string, svg: string, items: { name: string; color: string; dash?: boolean }[]): string {
+  // Width from the chart, so a long caption wraps instead of widening the figure.
+  const w = /width="(\d+)"/.exec(svg.slice(0, 300))?.[1];
+  return `<figure${w ? ` style="width:${Number(w) + 18}px"` : ''}>${legend(items)}${svg}<figcaption>${esc(caption)}</figcaption></figure>`;
+}
+
+function card(cls: string, k: string, v: string, n: string): string {
+  return `<div class="card ${cls}"><div class="k">${esc(k)}</div><div class="v">${v}</div><div class="n">${esc(n)}</div></div>`;
+}
+
+/** Break lines across gaps longer than `gapS` so a lost track is not drawn as a straight jump. */
+function withGaps(points: [number, number][], times: number[], gapS: number): [number, number][] {
+  const out: [number, number][] = [];
+  points.forEach((p, i) => {
+    if (i > 0 && times[i] - times[i - 1] > gapS) out.push([NaN, NaN]);
+    out.push(p);
+  });
+  return out;
+}
+
+/** Render the report. */
+export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): string {
+  const rows = a.followed;
+  const times = rows.map((r) => r.timeS);
+  const gap = Math.max(a.coverage.gapLimitS, 1e-6) * 2;
+  const sm = a.smoothed;
+  const smTimes = sm ? sm.states.map((s) => s.timeS) : [];
+  const wf = a.whole.filtered;
+  const ws = a.whole.smoothed;
+  const ratio = ws && wf.aligned.position.rmse ? (ws.aligned.position.rmse ?? NaN) / wf.aligned.position.rmse : null;
+  const markers = a.switches.filter((s) => s.from !== null).map((s) => ({ x: s.timeS, label: `id ${s.from}→${s.to}` }));
+
+  const cards = [
+    card('trk', 'position RMSE, filtered', `${cell(wf.noLag.position.rmse)} m`, `lag removed ${cell(wf.aligned.position.rmse)} m`),
+    card('smo', 'position RMSE, smoothed', `${cell(ws?.aligned.position.rmse)} m`, ratio !== null ? `× ${cell(ratio, 2)} of filtered (lag removed)` : 'no measurement columns'),
+    card('cmd', 'lag behind command', a.lag.lagS === null ? '–' : `${cell(a.lag.lagS, 3)} s`, a.lag.lagS === null ? 'path does not move' : `RMS ${cell(a.lag.rmsAtZeroM)} → ${cell(a.lag.rmsAtLagM)} m`),
+    card('', 'max error / p95', `${cell(wf.noLag.position.max, 2)} m`, `p95 ${cell(wf.noLag.position.p95)} m (raw)`),
+    card('', 'confirmed track', `${cell(a.coverage.confirmedFraction * 100, 1)} %`, `of the run; coasting ${cell(a.coverage.coastingFraction * 100, 1)} %`),
+    card('', 'mean GOSPA', `${cell(a.setSummary.meanGospaM)} m`, `mean OSPA ${cell(a.setSummary.meanOspaM)} m`),
+  ].join('');
+
+  const cmdPts: [number, number][] = a.commanded.points.map((p) => [p.x, p.y]);
+  const plan = planPlot(
+    [
+      { name: 'commanded', color: C.cmd, points: cmdPts, width: 2.5 },
+      { name: 'tracked (filtered)', color: C.trk, points: withGaps(rows.map((r) => [r.x, r.y]), times, gap), width: 1.3 },
+      ...(sm ? [{ name: 'smoothed', color: C.smo, points: withGaps(sm.states.map((s): [number, number] => [s.x, s.y]), smTimes, gap), width: 1.3, dash: true }] : []),
+    ],
+    { id: 'plan', width: 540, height: 480, xLabel: 'x, m (radar frame)', yLabel: 'y, m' },
+    [
+      { x: cmdPts[0][0], y: cmdPts[0][1], label: 'commanded start', color: C.cmd },
+      ...a.switches.filter((s) => s.from !== null).map((s) => {
+        const r = rows.find((q) => q.timeS === s.timeS && q.id === s.to)!;
+        return { x: r.x, y: r.y, label: `track id ${s.from} → ${s.to} at ${s.timeS.toFixed(2)} s`, color: C.miss };
+      }),
+    ],
+  );
+
+  const series = (f: (i: number) => number, color: string, name: string, dash = false): Series => ({ name, color, dash, points: withGaps(rows.map((r, i) => [r.timeS, f(i)]), times, gap) });
+  const smSeries = (f: (k: number) => number, color: string, name: string): Series[] =>
+    sm ? [{ name, color, dash: true, points: withGaps(sm.states.map((s, k) => [s.timeS, f(k)]), smTimes, gap) }] : [];
+
+  const errPlot = timePlot(
+    [series((i) => a.filtered.noLag[i].positionM, C.trk, 'filtered, raw'), series((i) => a.filtered.aligned[i].positionM, C.alt, 'filtered, lag removed'),
+      ...smSeries((k) => sm!.deviations.aligned[k].positionM, C.smo, 'smoothed, lag removed')],
+    { id: 'err', width: 1038, height: 240, xLabel: 'time, s', yLabel: 'position error, m', markers },
+  );
+  const acPlot = (key: 'alongM' | 'crossM', label: string, id: string) => timePlot(
+    [series((i) => a.filtered.noLag[i][key], C.trk, 'filtered, raw'), series((i) => a.filtered.aligned[i][key], C.alt, 'filtered, lag removed'),
+      ...smSeries((k) => sm!.deviations.aligned[k][key], C.smo, 'smoothed, lag removed')],
+    { id, width: 500, height: 220, xLabel: 'time, s', yLabel: label, zeroLine: true, symmetric: true, markers },
+  );
+  const spPlot = timePlot([series((i) => a.filtered.aligned[i].speedMps ?? NaN, C.trk, 'speed error')], { id: 'spd', width: 500, height: 200, xLabel: 'time, s', yLabel: 'speed error, m/s', zeroLine: true, symmetric: true });
+  const hdPlot = timePlot([series((i) => { const h = a.filtered.aligned[i].headingRad; return h === null ? NaN : (h * 180) / Math.PI; }, C.trk, 'heading error')], { id: 'hdg', width: 500, height: 200, xLabel: 'time, s', yLabel: 'heading error, °', zeroLine: true, symmetric: true });
+  const setPts = (f: (s: (typeof a.sets)[number]) => number): [number, number][] => a.sets.map((s) => [s.timeS, f(s)]);
+  const setPlot = timePlot(
+    [{ name: 'GOSPA', color: C.smo, points: setPts((s) => s.gospaM), width: 2 }, { name: 'OSPA', color: C.cmd, points: setPts((s) => s.ospaM) },
+      { name: '√ localisation part', color: C.alt, points: setPts((s) => Math.sqrt(s.localisation)), dash: true },
+      { name: '√ missed part', color: C.miss, points: setPts((s) => Math.sqrt(s.missed)), dash: true },
+      { name: '√ false part', color: C.fal, points: setPts((s) => Math.sqrt(s.false)), dash: true }],
+    { id: 'sets', width: 1038, height: 220, xLabel: 'time, s', yLabel: 'metres' },
+  );
+  const lagPlot = a.lag.curve.length
+    ? timePlot([{ name: 'RMS distance', color: C.cmd, points: a.lag.curve.map((c) => [c.lagS, c.rmsM]), width: 2 }],
+      { id: 'lag', width: 470, height: 260, xLabel: 'candidate lag, s (track behind command +)', yLabel: 'RMS distance, m', markers: a.lag.lagS === null ? [] : [{ x: a.lag.lagS, label: `${a.lag.lagS.toFixed(3)} s` }] })
+    : '<p class="note">The commanded path does not move over the compared samples: no lag can be estimated.</p>';
+
+  const warnings = [...meta.warnings];
+  if (a.coverage.confirmedFraction < 0.8) warnings.push(`The target was held by a confirmed track for only ${(a.coverage.confirmedFraction * 100).toFixed(0)} % of the run.`);
+  if (!sm) warnings.push('The tracks carry no measurement columns: no smoothed figures.');
+
+  const ids = a.switches.map((s) => s.to);
+  return `<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${esc(o.title)}</title><style>${REPORT_CSS}</style></head>
+<body><main>
+<header class="run"><h1>${esc(o.title)}</h1>
+<div class="sub">tracks: ${esc(meta.tracks)} · commanded: ${esc(meta.commanded.join(', '))} · run ${cell(a.commanded.points[0].timeS, 1)}–${cell(a.commanded.points[a.commanded.points.length - 1].timeS, 1)} s, ${cell(a.commanded.cumulativeM[a.commanded.cumulativeM.length - 1], 2)} m commanded · followed track id${ids.length > 1 ? 's' : ''} ${esc(ids.join(' → ') || '–')}</div></header>
+${warnings.length ? `<p class="note warn">${warnings.map(esc).join('<br>')}</p>` : ''}
+<section class="cards">${cards}</section>
+<h2>Paths in the radar frame</h2>
+<div class="row">${figure('Commanded path, the followed track as the live view showed it, and the smoothed track. Red dots: the followed track changed id.', plan,
+    [{ name: 'commanded', color: C.cmd }, { name: 'tracked (filtered)', color: C.trk }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
+<div style="flex:1;min-width:300px">${figure('Least-squares lag search: RMS distance between the track and the commanded path shifted by each candidate lag.', lagPlot, [{ name: 'RMS distance', color: C.cmd }])}
+<p class="note">The lag gathers positioner latency, radar update interval and filter lag. “Lag removed” figures compare the track at t with the command at t − lag.</p></div></div>
+<h2>Error over time</h2>
+${figure('Euclidean distance between the estimate and the commanded position.', errPlot, [{ name: 'filtered, raw', color: C.trk }, { name: 'filtered, lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed, lag removed', color: C.smo, dash: true }] : [])])}
+<div class="row" style="margin-top:12px">${figure('Along-track error: positive ahead of the commanded point.', acPlot('alongM', 'along-track, m', 'along'), [{ name: 'filtered, raw', color: C.trk }, { name: 'lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
+${figure('Cross-track error: positive left of the commanded direction of travel.', acPlot('crossM', 'cross-track, m', 'cross'), [{ name: 'filtered, raw', color: C.trk }, { name: 'lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}</div>
+<div class="row" style="margin-top:12px">${figure('Track speed minus commanded speed (lag removed).', spPlot, [{ name: 'filtered', color: C.trk }])}
+${figure('Track heading minus commanded heading (lag removed); blank while either stands still.', hdPlot, [{ name: 'filtered', color: C.trk }])}</div>
+<h2>Figures for the whole run</h2>
+${wholeRunTable(a)}
+<h2>Figures per leg</h2>
+<p class="note">Legs: straight runs between corners and holds of the commanded path (or the legs named in the input).</p>
+${legTable(a)}
+<h2>All tracks against all commanded targets</h2>
+${figure(`OSPA (Schuhmacher, Vo & Vo 2008) and GOSPA with α = 2 (Rahmathullah, García-Fernández & Svensson 2017), c = ${cell(a.setOptions.cutoffM, 2)} m, p = ${a.setOptions.order}, grid ${cell(a.setOptions.stepS, 2)} s, every track confirmed or coasting. The GOSPA parts are drawn as square roots so that they share the metre scale.`, setPlot,
+    [{ name: 'GOSPA', color: C.smo }, { name: 'OSPA', color: C.cmd }, { name: 'localisation', color: C.alt, dash: true }, { name: 'missed', color: C.miss, dash: true }, { name: 'false', color: C.fal, dash: true }])}
+<p class="note">Means over ${a.setSummary.samples} instants: OSPA ${cell(a.setSummary.meanOspaM)} m, GOSPA ${cell(a.setSummary.meanGospaM)} m; GOSPA² parts: localisation ${cell(a.setSummary.meanLocalisation, 4)}, missed ${cell(a.setSummary.meanMissed, 4)}, false ${cell(a.setSummary.meanFalse, 4)} m².</p>
+<footer>echotrail compare · generated ${esc(o.generatedUtc)} · smoother: fixed-interval Rauch–Tung–Striebel (1965) over a constant-velocity Kalman filter run on the tracker's measurements · all positions in the radar frame (x = r·sin az, y = r·cos az).</footer>
+</main></body></html>
+`;
+}

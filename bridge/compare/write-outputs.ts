@@ -1,0 +1,43 @@
+/** Writes the comparison's files into one folder: summary.json, the CSV series and report.html. */
+import { mkdir, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { EchotrailError } from '../errors.ts';
+import type { Analysis } from './analyse.ts';
+import { renderReport, type ReportOptions } from './report/html.ts';
+import { buildSummary, lagCsv, seriesCsv, setsCsv, type SummaryMeta } from './summary.ts';
+
+/** File names written, relative to the output folder. */
+export const OUTPUT_FILES = {
+  summary: 'summary.json',
+  series: 'errors.csv',
+  sets: 'ospa-gospa.csv',
+  lag: 'lag-search.csv',
+  report: 'report.html',
+} as const;
+
+/** Write every output; returns the paths written. */
+export async function writeOutputs(dir: string, a: Analysis, meta: SummaryMeta, report: ReportOptions): Promise<string[]> {
+  try {
+    await mkdir(dir, { recursive: true });
+  } catch (err) {
+    throw new EchotrailError('E_OPTION', `cannot create output folder '${dir}': ${(err as Error).message}`, { cause: err });
+  }
+  const files: [string, string][] = [
+    [OUTPUT_FILES.summary, JSON.stringify(buildSummary(a, meta), null, 2) + '\n'],
+    [OUTPUT_FILES.series, seriesCsv(a)],
+    [OUTPUT_FILES.sets, setsCsv(a)],
+    [OUTPUT_FILES.lag, lagCsv(a)],
+    [OUTPUT_FILES.report, renderReport(a, meta, report)],
+  ];
+  const written: string[] = [];
+  for (const [name, text] of files) {
+    const p = join(dir, name);
+    try {
+      await writeFile(p, text);
+    } catch (err) {
+      throw new EchotrailError('E_OPTION', `cannot write '${p}': ${(err as Error).message}`, { cause: err });
+    }
+    written.push(p);
+  }
+  return written;
+}
