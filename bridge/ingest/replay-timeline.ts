@@ -6,7 +6,7 @@ import type { BadLine, SourceRecord } from './source.ts';
 import type { Detection } from '../types.ts';
 import { openSession, type OpenSessionOptions, type SessionReader } from '../session/reader.ts';
 import type { SessionSnapshot } from '../session/run-state.ts';
-import { loadDetectionsForReplay } from './csv-replay-loader.ts';
+import { formatSkipReport, readDetectionsCsv } from './detections-csv.ts';
 
 export interface TimedSourceRecord {
   timeS: number;
@@ -95,6 +95,13 @@ class CsvTimeline implements ReplayTimeline {
 /** Opens a session file (`*.jsonl`) or a detections CSV (`*.csv`) for replay. */
 export async function openTimeline(path: string, format: 'session' | 'csv', id: string, session: Partial<OpenSessionOptions>): Promise<ReplayTimeline> {
   if (format === 'session') return new SessionTimeline(await openSession(path, session));
-  const { detections, bad } = await loadDetectionsForReplay(path);
+  // The CSV reader streams; a replay needs random access for seeks, so the detections are held
+  // in memory (about 100 bytes each: a million rows is ~100 MB).
+  const csv = readDetectionsCsv(path);
+  const detections: Detection[] = [];
+  for await (const batch of csv.batches()) for (const d of batch) detections.push(d);
+  // The reader keeps the first skipped row and counts the rest by kind: one BadLine says both.
+  const first = csv.report.firstSkipped;
+  const bad: BadLine[] = first ? [{ line: first.line, reason: csv.report.skipped > 1 ? formatSkipReport(csv.report) : first.reason, text: '' }] : [];
   return new CsvTimeline(id, detections, bad, session.recentDetectionsS ?? 1);
 }

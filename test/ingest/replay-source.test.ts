@@ -182,11 +182,15 @@ describe('ReplaySource over a detections CSV', () => {
     const rows = ['amplitude,time_s,range_m,azimuth_deg,extra'];
     for (let i = 0; i < 100; i++) rows.push(`${10 + i},${(i * 0.05).toFixed(2)},${(2 + i * 0.01).toFixed(2)},${(i * 3) % 360},x`);
     rows.splice(20, 0, '5,0.96,abc,10,x');
+    rows.splice(30, 0, '-1,1.41,2,10,x'); // amplitude not positive
+
     writeFileSync(path, rows.join('\n') + '\n');
     const h = harness(path);
     await h.src.start();
     expect(h.src.carriesTracks).toBe(false);
+    // The CSV reader keeps the first skipped row and counts the others: one report says both.
     expect(h.bad.map((b) => b.line)).toEqual([21]);
+    expect(h.bad[0].reason).toMatch(/^2 rows skipped: first at line 21: range_m "abc" is not a number/);
     h.clock.advance(1000);
     const recs = h.records();
     expect(recs.every((r) => r.kind === 'detection')).toBe(true);
