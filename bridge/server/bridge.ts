@@ -6,7 +6,9 @@ import { createServer, type IncomingMessage, type ServerResponse } from 'node:ht
 import type { Duplex } from 'node:stream';
 import { randomBytes } from 'node:crypto';
 import { WebSocketServer } from 'ws';
-import type { Source } from '../ingest/source.ts';
+import type { Source, SourceState } from '../ingest/source.ts';
+import { EchotrailError } from '../errors.ts';
+import { Playlist } from './playlist.ts';
 import type { SessionInfo } from './protocol.ts';
 import { resolveBridgeOptions, type BridgeOptions, type ResolvedBridgeOptions } from './options.ts';
 import { checkAccess, checkOrigin } from './security.ts';
@@ -77,18 +79,29 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
     log: o.log,
   });
 
+  const sessionDirs = [o.sessionsDir, ...o.extraSessionDirs];
   let sessionsCache: { at: number; list: SessionInfo[] } | null = null;
   const sessions = async (): Promise<SessionInfo[]> => {
     if (sessionsCache && performance.now() - sessionsCache.at < SESSIONS_CACHE_MS) return sessionsCache.list;
-    const list = await listSessions(o.sessionsDir);
+    const list = await listSessions(sessionDirs);
     sessionsCache = { at: performance.now(), list };
     return list;
   };
 
+  const replaySettings = { loop: o.loop, speed: o.speed, autoplay: o.autoplay };
+  // A live serial run is never replaced from the dashboard: that would stop the recording.
   const openSession = async (sessionId: string): Promise<void> => {
-    const path = await sessionPath(o.sessionsDir, sessionId);
-    await pipeline.setSource(await openReplaySource(path, { loop: o.loop, speed: o.speed, autoplay: o.autoplay }));
+    if (pipeline.current?.kind === 'serial') throw new EchotrailError('E_OPTION', 'the bridge is on a live serial input; restart it without --serial to replay sessions');
+    const path = await sessionPath(sessionDirs, sessionId);
+    const source = await openReplaySource(path, replaySettings);
+    playlist?.stop();
+    await pipeline.setSource(source);
   };
+
+  const playlist = !o.serial && !o.replay && !o.createSource && (o.playlist?.length ?? 0) > 1
+    ? new Playlist(o.playlist as string[], o.loop, (path) => openReplaySource(path, { ...replaySettings, loop: false, autoplay: true }), (s) => pipeline.setSource(s), o.log)
+    : null;
+  if (playlist) pipeline.on('source-state', (s: SourceState) => playlist.onState(s));
 
   const hub = new Hub({
     maxBufferedBytes: o.maxBufferedBytes,
@@ -176,6 +189,7 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
     setSource: (source) => pipeline.setSource(source),
     close: () =>
       (closing ??= (async () => {
+        playlist?.stop();
         hub.close();
         wss.close();
         const closed = new Promise<void>((r) => server.close(() => r()));

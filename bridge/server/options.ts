@@ -42,6 +42,10 @@ export interface BridgeOptions {
   sessionsDir: string;
   /** Session file or detections CSV to replay. Ignored when `serial` is set. */
   replay?: string;
+  /** Replays played one after another (demo sessions); with `loop`, round and round. Ignored when `serial` or `replay` is set. */
+  playlist?: string[];
+  /** Further folders whose sessions are listed and can be opened (read-only, e.g. the demo replays/). */
+  extraSessionDirs: string[];
   /** Live serial input; when set, the run is recorded to `sessionsDir`. */
   serial?: SerialSettings;
   /** Replay: start again at the end. Default false. */
@@ -114,6 +118,8 @@ export function resolveBridgeOptions(input: Partial<BridgeOptions> = {}): Resolv
     staticDir: resolve(input.staticDir ?? resolve(repoRoot, 'web', 'dist')),
     sessionsDir: resolve(input.sessionsDir ?? resolve(repoRoot, 'sessions')),
     replay: input.replay,
+    playlist: input.playlist,
+    extraSessionDirs: (input.extraSessionDirs ?? []).map((d) => resolve(d)),
     serial: input.serial,
     loop: input.loop ?? false,
     speed: input.speed ?? 1,

@@ -5,7 +5,8 @@
  * protocol messages. It emits:
  * - 'scan' (scan: ScanMessage): a paced, merged increment for every client;
  * - 'message' (msg: ServerMessage): other increments (source, replay, fixed-echoes, commanded, ...);
- * - 'resync' (): the state was rebuilt (replay seek, new source); every client needs a fresh snapshot.
+ * - 'resync' (): the state was rebuilt (replay seek, new source); every client needs a fresh snapshot;
+ * - 'source-state' (state: SourceState): the source changed state (the playlist listens for 'ended').
  */
 import { EventEmitter } from 'node:events';
 import type { BadLine, Source, SourceRecord, SourceState } from '../ingest/source.ts';
@@ -242,6 +243,7 @@ export class Pipeline extends EventEmitter {
 
   private onState(s: SourceState, detail?: string): void {
     this.stats.state = s;
+    this.emit('source-state', s);
     if (detail) this.options.log(`source ${this.source?.name ?? ''}: ${s} (${detail})`);
     // A pause in the stream: let the tracker finish what it buffered.
     if (this.tracker && s !== 'live' && s !== 'playing') this.applyOutput(this.runTracker((t) => t.flush()), undefined);

@@ -40,12 +40,13 @@ export async function openConfiguredSource(o: ResolvedBridgeOptions): Promise<So
   if (o.createSource) return o.createSource(o);
   if (o.serial) return openSerialSource(o.serial);
   if (o.replay) return openReplaySource(o.replay, { loop: o.loop, speed: o.speed, autoplay: o.autoplay });
+  if (o.playlist?.length) return openReplaySource(o.playlist[0], { loop: o.loop && o.playlist.length === 1, speed: o.speed, autoplay: o.autoplay });
   return null;
 }
 
 /** Resolves a session id from a client to its file in the sessions folder (unsafe ids are refused). */
-export async function sessionPath(sessionsDir: string, sessionId: string): Promise<string> {
-  const path = await findSession(sessionsDir, sessionId);
+export async function sessionPath(sessionDirs: string[], sessionId: string): Promise<string> {
+  const path = await findSession(sessionDirs, sessionId);
   if (!path) throw new EchotrailError('E_PATH', `no session '${sessionId.slice(0, 80)}' in the sessions folder; pick one from the session list`);
   return path;
 }
