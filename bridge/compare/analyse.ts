@@ -71,7 +71,10 @@ export function checkOverlap(path: TimedPath, rows: readonly TrackRow[], minOver
   const t1 = rows[rows.length - 1].timeS;
   const overlap = Math.min(c.endS, t1) - Math.max(c.startS, t0);
   const shorter = Math.min(c.endS - c.startS, t1 - t0);
-  if (overlap <= 0 || (shorter > 0 && overlap / shorter < minOverlap)) {
+  const longer = Math.max(c.endS - c.startS, t1 - t0);
+  // Two tests: most of the shorter span must be shared, and at least a tenth of the longer one
+  // (a span 1000× the other is a unit mix-up even though it contains it).
+  if (overlap <= 0 || (shorter > 0 && overlap / shorter < minOverlap) || overlap / longer < 0.1) {
     const ratio = (t1 - t0) / (c.endS - c.startS);
     const hint = ratio > 300 && ratio < 3000 ? ' — the tracks look like milliseconds' : ratio < 1 / 300 && ratio > 1 / 3000 ? ' — the commanded times look like milliseconds' : '';
     throw new EchotrailError(

@@ -44,7 +44,8 @@ export function niceTicks(lo: number, hi: number, n = 6): number[] {
   const mag = 10 ** Math.floor(Math.log10(raw));
   const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
   const out: number[] = [];
-  for (let v = Math.ceil(lo / step) * step; v <= hi + step * 1e-9; v += step) out.push(Math.abs(v) < step * 1e-9 ? 0 : v);
+  // Integer multiples, rounded: accumulating the step would print 0.6000000000000001.
+  for (let i = Math.ceil(lo / step - 1e-9); i <= Math.floor(hi / step + 1e-9); i++) out.push(i === 0 ? 0 : Number((i * step).toPrecision(12)));
   return out;
 }
 

@@ -1,0 +1,58 @@
+// The run analysis end to end on seeded analytic runs (bench-run.ts): lag recovery (least squares,
+// lag.ts), track hand-over, coverage and the time-range check. Expected values follow from the
+// construction of the run (lag, break, ghost), not from earlier outputs.
+import { describe, expect, it } from 'vitest';
+import { analyse } from '../../bridge/compare/analyse.ts';
+import { makeTimedPath } from '../../bridge/compare/timed-path.ts';
+import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
+import { EchotrailError } from '../../bridge/errors.ts';
+import { benchRun } from './bench-run.ts';
+
+const path = waypointsToPath([
+  { x: -1, y: 2, dwellS: 1 }, { x: 1, y: 2, speedMps: 0.4 }, { x: 1, y: 4, speedMps: 0.4 },
+  { x: -1, y: 4, speedMps: 0.4 }, { x: -1, y: 2, speedMps: 0.4, dwellS: 1 },
+]);
+
+describe('analyse', () => {
+  const run = benchRun(path, { seed: 5, lagS: 0.4, breakAtS: 9, ghost: { x: 2.5, y: 1 } });
+  const a = analyse([path], run.rows);
+
+  it('follows the target across the id change and never the ghost', () => {
+    expect(a.switches.map((s) => s.to)).toEqual([1, 2]);
+    expect(a.followed.some((r) => r.id === 99)).toBe(false);
+  });
+
+  it('estimates the positioner lag plus the tracker lag, and aligning reduces the error', () => {
+    // Positioner lag 0.4 s by construction; the CV filter adds a little (it trails on corners).
+    expect(a.lag.lagS!).toBeGreaterThan(0.38);
+    expect(a.lag.lagS!).toBeLessThan(0.55);
+    expect(a.whole.filtered.aligned.position.rmse!).toBeLessThan(0.6 * a.whole.filtered.noLag.position.rmse!);
+    // Without alignment a late track is behind: along-track mean ≈ −speed × lag = −0.16 m on moving legs.
+    const move = a.perLeg.find((l) => l.leg.kind === 'move')!;
+    expect(move.filtered.noLag.along.mean!).toBeLessThan(-0.1);
+  });
+
+  it('smoothed beats filtered, and coverage reflects the 1 s outage plus start-up', () => {
+    expect(a.whole.smoothed!.aligned.position.rmse!).toBeLessThan(a.whole.filtered.aligned.position.rmse!);
+    // Lost: about 1 s of the break plus two tentative scans after each (re)start, of a 22 s run.
+    expect(a.coverage.confirmedFraction).toBeGreaterThan(0.85);
+    expect(a.coverage.confirmedFraction).toBeLessThan(0.97);
+  });
+
+  it('counts the ghost as a false track in GOSPA (c²/2 = 0.5 m² with c = 1 m)', () => {
+    expect(a.setSummary.meanFalse!).toBeGreaterThan(0.45);
+    expect(a.setSummary.meanFalse!).toBeLessThan(0.55);
+  });
+
+  it('refuses time ranges that do not overlap, suggesting milliseconds where it fits', () => {
+    const msPath = makeTimedPath(path.points.map((p) => ({ ...p, timeS: p.timeS * 1000 })));
+    try {
+      analyse([msPath], run.rows);
+      throw new Error('expected a failure');
+    } catch (e) {
+      expect(e).toBeInstanceOf(EchotrailError);
+      expect((e as EchotrailError).code).toBe('E_PATH');
+      expect((e as EchotrailError).message).toMatch(/time ranges do not match.*commanded times look like milliseconds/);
+    }
+  });
+});
