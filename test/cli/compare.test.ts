@@ -1,0 +1,105 @@
+// `echotrail compare` end to end on a small generated run (seeded analytic trajectory and
+// stand-in tracker, test/compare/bench-run.ts): files written, figures consistent with the
+// construction (lag), clear one-line failures on bad input. Exit codes per bridge/cli/main.ts.
+import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { run } from '../../bridge/cli/compare.ts';
+import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
+import { benchRun, commandedCsv, tracksCsv } from '../compare/bench-run.ts';
+
+let dir = '';
+
+async function capture(argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  const o = vi.spyOn(process.stdout, 'write').mockImplementation((s) => ((out += String(s)), true));
+  const e = vi.spyOn(process.stderr, 'write').mockImplementation((s) => ((err += String(s)), true));
+  try {
+    return { code: await run(argv), out, err };
+  } finally {
+    o.mockRestore();
+    e.mockRestore();
+  }
+}
+
+const waypoints = {
+  start_s: 0,
+  waypoints: [
+    { x_m: -1, y_m: 2, dwell_s: 1 }, { x_m: 1, y_m: 2, speed_mps: 0.4 }, { x_m: 1, y_m: 4, speed_mps: 0.4 },
+    { x_m: -1, y_m: 4, speed_mps: 0.4, dwell_s: 1 },
+  ],
+};
+
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'echotrail-compare-'));
+  const path = waypointsToPath(waypoints.waypoints.map((w) => ({ x: w.x_m, y: w.y_m, speedMps: w.speed_mps, dwellS: w.dwell_s })));
+  const r = benchRun(path, { seed: 9, lagS: 0.3, pd: 0.9 });
+  await writeFile(join(dir, 'tracks.csv'), tracksCsv(r.rows));
+  await writeFile(join(dir, 'path.csv'), commandedCsv(path));
+  await writeFile(join(dir, 'waypoints.json'), JSON.stringify(waypoints));
+  await writeFile(join(dir, 'one-point.csv'), 'time_s,x_m,y_m\n0,1,2\n');
+  await writeFile(join(dir, 'late.csv'), commandedCsv({ ...path, points: path.points.map((p) => ({ ...p, timeS: p.timeS + 500 })) }));
+});
+
+afterAll(async () => {
+  if (dir) await rm(dir, { recursive: true, force: true });
+});
+
+describe('echotrail compare', () => {
+  it('writes summary.json, CSV series and report.html for a tracks CSV and a commanded CSV', async () => {
+    const out = join(dir, 'out');
+    const r = await capture(['--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'path.csv'), '--out', out]);
+    expect(r.err).toBe('');
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/^lag 0\.\d{3} s · position RMSE/);
+    const summary = JSON.parse(await readFile(join(out, 'summary.json'), 'utf8'));
+    expect(summary.format).toBe('echotrail-compare-summary');
+    // Lag by construction 0.3 s plus the stand-in tracker's own lag (about 0.1 s).
+    expect(summary.lag.lag_s).toBeGreaterThan(0.28);
+    expect(summary.lag.lag_s).toBeLessThan(0.45);
+    expect(summary.smoothed_to_filtered_rmse).toBeLessThan(1);
+    const errors = await readFile(join(out, 'errors.csv'), 'utf8');
+    expect(errors.split('\n')[0]).toMatch(/^time_s,track_id,status,/);
+    expect(errors.trim().split('\n').length).toBe(summary.tracks.followed_rows + 1);
+    expect(await readFile(join(out, 'ospa-gospa.csv'), 'utf8')).toMatch(/^time_s,truths,estimates,ospa_m,gospa_m/);
+    expect(await readFile(join(out, 'report.html'), 'utf8')).toMatch(/^<!doctype html>/);
+  });
+
+  it('accepts waypoints instead of a commanded CSV, with the same lag', async () => {
+    const a = await capture(['--tracks', join(dir, 'tracks.csv'), '--waypoints', join(dir, 'waypoints.json'), '--out', join(dir, 'out-wp')]);
+    expect(a.code).toBe(0);
+    const s = JSON.parse(await readFile(join(dir, 'out-wp', 'summary.json'), 'utf8'));
+    const c = JSON.parse(await readFile(join(dir, 'out', 'summary.json'), 'utf8'));
+    expect(s.lag.lag_s).toBeCloseTo(c.lag.lag_s, 4);
+  });
+
+  it('fails with one clear line on a one-point path and on mismatched time ranges', async () => {
+    const one = await capture(['--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'one-point.csv'), '--out', join(dir, 'x')]);
+    expect(one.code).toBe(1);
+    expect(one.err).toMatch(/^echotrail compare: E_PATH: .*1 point\(s\)/);
+    expect(one.err.trim().split('\n')).toHaveLength(1);
+    const late = await capture(['--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'late.csv'), '--out', join(dir, 'x')]);
+    expect(late.code).toBe(1);
+    expect(late.err).toMatch(/E_PATH: time ranges do not match/);
+  });
+
+  it('refuses bad options and a missing input with exit code 2 or 1', async () => {
+    expect((await capture(['--tracks', 'a.csv', '--commanded', 'b.csv', '--out', dir, '--cutoff', 'abc'])).code).toBe(2);
+    const none = await capture(['--out', dir]);
+    expect(none.code).toBe(1);
+    expect(none.err).toMatch(/E_OPTION: give --tracks/);
+    expect((await capture(['--commanded', 'x.csv'])).code).toBe(2); // --out is required
+  });
+
+  it('documents every option with units and defaults in --help', async () => {
+    const h = await capture(['--help']);
+    expect(h.code).toBe(0);
+    for (const opt of ['--tracks', '--commanded', '--waypoints', '--session', '--session-path', '--out', '--follow-gate', '--max-lag', '--smoother-q', '--cutoff', '--order', '--max-range', '--max-speed']) {
+      expect(h.out).toContain(opt);
+    }
+    expect(h.out).toMatch(/metres \(default: 1\)/);
+    expect(h.out).toMatch(/m²\/s³ \(default: 0\.05\)/);
+  });
+});
