@@ -105,7 +105,7 @@ export async function run(argv: string[]): Promise<number> {
     process.stdout.write(`echotrail: ${what}\n  dashboard  ${bridge.url}\n  websocket  ${bridge.wsUrl}\n`);
     await new Promise<void>((resolve) => {
       const stop = (): void => {
-        process.stderr.write('echotrail: stopping (recording closed cleanly)\n');
+        process.stderr.write(`echotrail: stopping${options.serial ? '; closing the recording' : ''}\n`);
         void bridge.close().then(resolve);
       };
       process.once('SIGINT', stop);
