@@ -1,0 +1,74 @@
+// Comparison inputs from a recorded session, written with the project's own recorder
+// (bridge/session/recorder.ts) and read back through its reader; the comparison then runs as on
+// CSV input. Expected values follow from the construction of the run (bench-run.ts).
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { analyse } from '../../bridge/compare/analyse.ts';
+import { readSessionInput } from '../../bridge/compare/session-input.ts';
+import { sampleAt } from '../../bridge/compare/timed-path.ts';
+import type { TrackRow } from '../../bridge/compare/track-rows.ts';
+import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
+import { startRecording } from '../../bridge/session/recorder.ts';
+import type { TrackUpdate } from '../../bridge/types.ts';
+import { benchRun } from './bench-run.ts';
+
+const path = waypointsToPath([{ x: -1, y: 2, dwellS: 1 }, { x: 1, y: 2, speedMps: 0.4 }, { x: 1, y: 4, speedMps: 0.4 }]);
+const run = benchRun(path, { seed: 3, lagS: 0.3 });
+let dir = '';
+let withCmd = '';
+let positionerOnly = '';
+
+const toUpdate = (r: TrackRow): TrackUpdate => ({
+  timeS: r.timeS, id: r.id, status: r.status, x: r.x, y: r.y, vx: r.vx, vy: r.vy, speed: r.speed, headingRad: r.headingRad,
+  pxx: 0.01, pxy: 0, pyy: 0.01, quality: 0.9, moving: true, hits: 3, misses: 0,
+  measurement: r.meas ? { timeS: r.timeS, x: r.meas.x, y: r.meas.y, rxx: r.meas.sxx, rxy: r.meas.sxy, ryy: r.meas.syy } : undefined,
+});
+
+async function record(fileName: string, commandedRecord: boolean): Promise<string> {
+  const rec = startRecording({ dir, fileName, name: 'compare-test', startUtc: new Date('2026-01-01T00:00:00Z') });
+  if (commandedRecord) rec.record({ kind: 'commanded', path: path.points.map((p) => ({ timeS: p.timeS, x: p.x, y: p.y })) }, 0);
+  const rows = [...run.rows];
+  for (let t = 0; t <= path.points[path.points.length - 1].timeS + 1e-9; t += 0.1) {
+    const c = sampleAt(path, t);
+    rec.record({ kind: 'positioner', sample: { timeS: t, cmdX: c.x, cmdY: c.y } });
+    while (rows.length && rows[0].timeS <= t) rec.record({ kind: 'track', update: toUpdate(rows.shift()!) });
+  }
+  for (const r of rows) rec.record({ kind: 'track', update: toUpdate(r) }); // any left by float steps
+  await rec.close();
+  return rec.status().path ?? join(dir, fileName);
+}
+
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'echotrail-session-'));
+  withCmd = await record('with-cmd.session.jsonl', true);
+  positionerOnly = await record('pos.session.jsonl', false);
+});
+afterAll(async () => {
+  if (dir) await rm(dir, { recursive: true, force: true });
+});
+
+describe('readSessionInput', () => {
+  it('takes the commanded-path record when there is one, and every track update', async () => {
+    const s = await readSessionInput(withCmd);
+    expect(s.pathSource).toBe('commanded');
+    expect(s.commanded.points).toHaveLength(path.points.length);
+    expect(s.rows).toHaveLength(run.rows.length);
+    expect(s.rows.filter((r) => r.meas).length).toBe(run.rows.filter((r) => r.meas).length);
+  });
+
+  it('falls back to positioner records, and both give the same lag', async () => {
+    const a = await readSessionInput(withCmd);
+    const b = await readSessionInput(positionerOnly);
+    expect(b.pathSource).toBe('positioner');
+    const la = analyse([a.commanded], a.rows).lag.lagS!;
+    const lb = analyse([b.commanded], b.rows).lag.lagS!;
+    expect(lb).toBeCloseTo(la, 3);
+    expect(la).toBeGreaterThan(0.28); // 0.3 s by construction plus the tracker's own lag
+  });
+
+  it('says so when asked for a commanded-path record the session lacks', async () => {
+    await expect(readSessionInput(positionerOnly, 'commanded')).rejects.toThrow(/holds no commanded-path record/);
+  });
+});
