@@ -4,7 +4,7 @@
  * that the same gains imply: predicted position variance P⁻ = R·α/(1 − α) (from K = P⁻/(P⁻ + R)).
  */
 import type { Measurement } from '../types.ts';
-import { mahalanobis2, type FilterEstimate, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { gateAgainst, mahalanobis2, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { EchotrailError } from '../errors.ts';
 
 /** Kalata's tracking index λ = σ_w·T²/σ_v (σ_w process acceleration std, σ_v measurement std). */
@@ -85,6 +85,10 @@ export class AlphaBetaFilter implements TrackFilter {
     this.r = 0.5 * (m.rxx + m.ryy);
     this.n++;
     return nis;
+  }
+
+  gate(m: Measurement): GateResult {
+    return gateAgainst(this.peek(m.timeS), m);
   }
 
   estimate(): FilterEstimate {

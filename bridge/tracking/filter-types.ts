@@ -27,6 +27,24 @@ export interface TrackFilter {
   update(m: Measurement): number;
   /** Current estimate. */
   estimate(): FilterEstimate;
+  /**
+   * Gate statistic d² = νᵀS⁻¹ν of a measurement against the prediction at its time, and ln|S|
+   * for the assignment cost. Does not change the filter.
+   */
+  gate(m: Measurement): GateResult;
+}
+
+export interface GateResult {
+  d2: number;
+  logDetS: number;
+}
+
+/** d² and ln|S| of `m` against a position prediction (S = P + R). */
+export function gateAgainst(p: PositionPrediction, m: Measurement): GateResult {
+  const sxx = p.pxx + m.rxx;
+  const sxy = p.pxy + m.rxy;
+  const syy = p.pyy + m.ryy;
+  return { d2: mahalanobis2(m.x - p.x, m.y - p.y, sxx, sxy, syy), logDetS: Math.log(sxx * syy - sxy * sxy) };
 }
 
 /** d² = νᵀS⁻¹ν for a 2-vector ν and a symmetric 2×2 S; Infinity when S is not positive definite. */

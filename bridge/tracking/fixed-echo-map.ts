@@ -72,12 +72,21 @@ export class FixedEchoMap {
     private readonly staring: boolean,
   ) {}
 
-  private nearest(m: Measurement, fixedOnly: boolean): Candidate | null {
+  /**
+   * An echo unseen for this long is "vacated": it no longer blanks detections. That is what a
+   * target parked at the start of a run leaves behind once it drives off; when it comes back to
+   * park there its detections go to its moving track, so the vacated echo never wakes up again.
+   */
+  private vacateS(): number {
+    return Math.max(8 * this.scanS, 8);
+  }
+
+  private nearest(m: Measurement, activeFixedOnly: boolean): Candidate | null {
     let best: Candidate | null = null;
     let bd = this.gamma;
     for (const id of this.grid.query(m.x, m.y)) {
       const c = this.cands.get(id)!;
-      if (fixedOnly && !c.fixed) continue;
+      if (activeFixedOnly && (!c.fixed || m.timeS - c.lastSeenS > this.vacateS())) continue;
       // Gate on R·(1 + 1/n): the detection's own noise plus that of the candidate's mean.
       const k = 1 + 1 / c.n;
       const d2 = mahalanobis2(m.x - c.x, m.y - c.y, k * m.rxx + 1e-4, k * m.rxy, k * m.ryy + 1e-4);

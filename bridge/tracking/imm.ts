@@ -13,7 +13,7 @@
  * is 1 − exp(−dt/τ_i), so the filter behaves the same at 2 s revolutions and at 200 Hz staring.
  */
 import type { Measurement } from '../types.ts';
-import type { FilterEstimate, PositionPrediction, TrackFilter } from './filter-types.ts';
+import { gateAgainst, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { KalmanCv } from './kalman-cv.ts';
 import type { ProcessNoiseModel } from './process-noise.ts';
 
@@ -66,6 +66,16 @@ export class ImmCv2 implements TrackFilter {
     const a = this.models[0].peek(t);
     const b = this.models[1].peek(t);
     return combine(a, b, c[0], c[1]);
+  }
+
+  /**
+   * Union of the two models' gates: a detection the manoeuvre model expects is in the gate even
+   * while the quiet model dominates, which is exactly the moment a stop or a reversal begins.
+   */
+  gate(m: Measurement): GateResult {
+    const a = gateAgainst(this.models[0].peek(m.timeS), m);
+    const b = gateAgainst(this.models[1].peek(m.timeS), m);
+    return a.d2 <= b.d2 ? a : b;
   }
 
   predict(t: number): void {

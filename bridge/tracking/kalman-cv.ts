@@ -7,7 +7,7 @@
  * allocate on every call.
  */
 import type { Measurement } from '../types.ts';
-import { mahalanobis2, type FilterEstimate, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { gateAgainst, mahalanobis2, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { cvProcessNoise, type ProcessNoiseModel } from './process-noise.ts';
 
 export interface KalmanCvOptions {
@@ -132,6 +132,10 @@ export class KalmanCv implements TrackFilter {
     this.lastNis = nis;
     this.lastDetS = det;
     return nis;
+  }
+
+  gate(m: Measurement): GateResult {
+    return gateAgainst(this.peek(m.timeS), m);
   }
 
   estimate(): FilterEstimate {

@@ -11,7 +11,6 @@
 import type { Detection, FixedEcho, Measurement, TrackDeletion, TrackEngine, TrackerOutput, TrackUpdate } from '../types.ts';
 import { assign, type GatedPair } from './assignment.ts';
 import { createFilter } from './filter.ts';
-import { mahalanobis2 } from './filter-types.ts';
 import { FixedEchoMap } from './fixed-echo-map.ts';
 import { gateThreshold } from './gate.ts';
 import { decide, describeInference, type TrackerInference } from './inference.ts';
@@ -122,13 +121,8 @@ export class Tracker implements TrackEngine {
         // Inside a fixed echo's gate only a moving track may take a detection, and only one
         // that it explains better than the echo does.
         if (echoCost[j] < Infinity && !t.moved) continue;
-        const p = t.filter.peek(m.timeS);
-        const sxx = p.pxx + m.rxx;
-        const sxy = p.pxy + m.rxy;
-        const syy = p.pyy + m.ryy;
-        const d2 = mahalanobis2(m.x - p.x, m.y - p.y, sxx, sxy, syy);
+        const { d2, logDetS: logDet } = t.filter.gate(m);
         if (!(d2 < gamma)) continue;
-        const logDet = Math.log(sxx * syy - sxy * sxy);
         if (d2 + logDet > echoCost[j]) continue;
         pairs.push({ track: id, det: j, cost: d2 + logDet });
         missCost.set(id, Math.max(missCost.get(id) ?? -Infinity, gamma + logDet));
@@ -146,11 +140,12 @@ export class Tracker implements TrackEngine {
       const nis = t.filter.update(m);
       const onReflector = learn && !t.moved && this.echoes.persistentAt(m);
       t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, onReflector, learn ? this.echoes.settleS() : 0);
-      // A "moving" track living on fixed-echo detections for five hits in a row is a track that
+      // A "moving" track living on fixed-echo detections for four hits in a row is a track that
       // wandered onto the echoes (a wall of reflectors): it loses its moving status and, with it,
-      // access to echo detections, so it coasts out.
+      // access to echo detections, so it coasts out. Four hits come well before an echo starved
+      // of its detections counts as vacated (8 scans).
       t.echoHits = echoCost[j] < Infinity ? t.echoHits + 1 : 0;
-      if (t.echoHits >= 5) t.moved = false;
+      if (t.echoHits >= 4) t.moved = false;
       if (this.becomesEcho(t, m.timeS, out)) continue;
       this.register(t);
       if (t.status !== 'tentative' && (t.moved || o.reportStationary)) out.updates.push(t.update(true));
