@@ -10,6 +10,8 @@ export interface RawLine {
   text: string;
   offset: number;
   line: number;
+  /** Length in bytes, without the newline (text may differ in length: UTF-8, invalid bytes). */
+  bytes: number;
   /** Set when the line was longer than the cap: text is empty and the line must be refused. */
   oversized?: number;
 }
@@ -62,11 +64,11 @@ export class LineReader {
       for (let i = chunk.indexOf(NL, 0); i !== -1 && i < n; i = chunk.indexOf(NL, start)) {
         const len = pendingBytes + (i - start);
         if (skipping || len > this.opts.maxLineBytes) {
-          yield { text: '', offset: lineStart, line: lineNo, oversized: pos + i - lineStart };
+          yield { text: '', offset: lineStart, line: lineNo, bytes: pos + i - lineStart, oversized: pos + i - lineStart };
         } else {
           const part = chunk.subarray(start, i);
           const text = pendingBytes === 0 ? part.toString('utf8') : Buffer.concat([...pending, part]).toString('utf8');
-          yield { text, offset: lineStart, line: lineNo };
+          yield { text, offset: lineStart, line: lineNo, bytes: len };
         }
         pending = [];
         pendingBytes = 0;

@@ -1,31 +1,33 @@
 /**
  * The session list for the dashboard. Cheap on the common path: the header line and the `end`
  * summary a clean close writes at the tail. A session without one (killed, or still being
- * recorded) is scanned in full once; the result is cached while the file's size and mtime stay.
+ * recorded) is scanned once, and later calls read on only from where the last one stopped, so
+ * listing while a long run records stays cheap. Results are cached while size and mtime stay.
  */
 import { closeSync, openSync, readSync } from 'node:fs';
 import { readdir, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { SessionInfo } from '../server/protocol.ts';
 import { SESSION_SUFFIX, sessionHeader, sessionLine } from './format.ts';
-import { openSession, sessionIdOf } from './reader.ts';
+import { parseSessionLine, sessionIdOf } from './reader.ts';
+import { LineReader } from './line-reader.ts';
 
 const TAIL_BYTES = 64 * 1024;
 const cache = new Map<string, { key: string; info: SessionInfo }>();
 
-/** The first line and the last complete line of a file (each within 64 KiB of its end). */
-function headAndLastLine(path: string, size: number): { head: string; last: string } {
+/** The first line (with its byte length) and the last complete line (within 64 KiB of the end). */
+function headAndLastLine(path: string, size: number): { head: string; headBytes: number; last: string } {
   const fd = openSync(path, 'r');
   try {
-    const head = Buffer.alloc(Math.min(size, TAIL_BYTES));
-    readSync(fd, head, 0, head.length, 0);
+    const first = new LineReader(fd, { chunkBytes: 16 * 1024 }).lines(0, 1).next();
+    if (first.done) return { head: '', headBytes: 0, last: '' };
     const tailLen = Math.min(size, TAIL_BYTES);
     const tail = Buffer.alloc(tailLen);
     readSync(fd, tail, 0, tailLen, size - tailLen);
     const text = tail.toString('utf8');
     const end = text.lastIndexOf('\n');
     const start = text.lastIndexOf('\n', end - 1);
-    return { head: head.toString('utf8').split('\n', 1)[0], last: end > 0 ? text.slice(start + 1, end) : '' };
+    return { head: first.value.text, headBytes: first.value.bytes, last: end > 0 ? text.slice(start + 1, end) : '' };
   } finally {
     closeSync(fd);
   }
@@ -39,6 +41,44 @@ function parseJson(text: string): unknown {
   }
 }
 
+/** Counts of a session without summary, as far as it has been read, so a growing file is read on from there. */
+interface Scan {
+  head: string;
+  offset: number;
+  line: number;
+  durationS: number;
+  detections: number;
+  trackIds: Set<number>;
+  hasCommanded: boolean;
+}
+const scans = new Map<string, Scan>();
+
+/** Reads the lines added since the last scan of `path` (all of them the first time). */
+function scanOn(path: string, head: string, headBytes: number): Scan {
+  let sc = scans.get(path);
+  if (!sc || sc.head !== head) {
+    sc = { head, offset: headBytes, line: 2, durationS: 0, detections: 0, trackIds: new Set(), hasCommanded: false };
+    scans.set(path, sc);
+  }
+  const fd = openSync(path, 'r');
+  try {
+    for (const raw of new LineReader(fd).lines(sc.offset, sc.line)) {
+      sc.offset = raw.offset + raw.bytes + 1;
+      sc.line = raw.line + 1;
+      const r = parseSessionLine(raw);
+      if (typeof r === 'string') continue;
+      sc.durationS = Math.max(sc.durationS, r.timeS);
+      if ('end' in r) continue;
+      if (r.record.kind === 'detection') sc.detections++;
+      else if (r.record.kind === 'track') sc.trackIds.add(r.record.update.id);
+      else if (r.record.kind === 'commanded') sc.hasCommanded = true;
+    }
+  } finally {
+    closeSync(fd);
+  }
+  return sc;
+}
+
 /** Summary of one session file, or null when it is not a readable session. */
 export async function sessionInfo(path: string): Promise<SessionInfo | null> {
   let st;
@@ -50,21 +90,21 @@ export async function sessionInfo(path: string): Promise<SessionInfo | null> {
   const key = `${st.size}:${st.mtimeMs}`;
   const hit = cache.get(path);
   if (hit && hit.key === key) return hit.info;
-  let info: SessionInfo | null = null;
+  let info: SessionInfo;
   try {
-    const { head, last } = headAndLastLine(path, st.size);
+    const { head, headBytes, last } = headAndLastLine(path, st.size);
     const h = sessionHeader.safeParse(parseJson(head));
     if (!h.success) return null;
     const end = sessionLine.safeParse(parseJson(last));
-    const id = sessionIdOf(path);
+    const base = { id: sessionIdOf(path), name: h.data.name, startUtc: h.data.startUtc };
     if (end.success && end.data.k === 'end') {
       const s = end.data.summary;
-      info = { id, name: h.data.name, startUtc: h.data.startUtc, durationS: end.data.timeS, detections: s.detections, tracks: s.tracks, hasCommanded: s.hasCommanded };
+      info = { ...base, durationS: end.data.timeS, detections: s.detections, tracks: s.tracks, hasCommanded: s.hasCommanded };
+      scans.delete(path);
     } else {
-      // No summary (kill -9, or still recording): count by reading every line.
-      const r = await openSession(path);
-      info = { id, name: r.header.name, startUtc: r.header.startUtc, durationS: r.durationS, detections: r.detections, tracks: r.trackIds.size, hasCommanded: r.hasCommanded };
-      r.close();
+      // No summary (kill -9, or still recording): count the lines, continuing where the last call stopped.
+      const sc = scanOn(path, head, headBytes + 1);
+      info = { ...base, durationS: sc.durationS, detections: sc.detections, tracks: sc.trackIds.size, hasCommanded: sc.hasCommanded };
     }
   } catch {
     return null;

@@ -168,7 +168,7 @@ export class SessionReader {
     if (!h.success) throw new EchotrailError('E_SESSION_FORMAT', `${this.path}: line 1 is not an echotrail session header (${h.error.issues[0]?.message ?? 'not JSON'})`);
     if (h.data.version > SESSION_VERSION) throw new EchotrailError('E_SESSION_FORMAT', `${this.path}: format version ${h.data.version} is newer than this echotrail reads (${SESSION_VERSION}); update echotrail`);
     this.header = h.data;
-    this.index = new SeekIndex(this.opts.checkpointS, raw.offset + Buffer.byteLength(raw.text) + 1, 2);
+    this.index = new SeekIndex(this.opts.checkpointS, raw.offset + raw.bytes + 1, 2);
     let n = 0;
     const revolution = new RevolutionEstimate();
     for (const rawLine of it) {

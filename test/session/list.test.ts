@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { findSession, listSessions } from '../../bridge/session/list.ts';
 import { Recorder } from '../../bridge/session/recorder.ts';
+import { openSession } from '../../bridge/session/reader.ts';
 import { sessionInfo as sessionInfoSchema } from '../../bridge/server/protocol.ts';
 
 const root = mkdtempSync(join(tmpdir(), 'echotrail-list-'));
@@ -51,6 +52,24 @@ describe('listSessions', () => {
     const copy = list.find((s) => s.id === '20261202-010000-copy')!;
     const original = (await listSessions(a))[0];
     expect({ ...copy, id: original.id }).toEqual(original);
+  });
+
+  it('follows a session that is still being recorded, reading on from where it stopped', async () => {
+    const c = join(root, 'c');
+    const r = new Recorder({ dir: c, name: 'growing', startUtc: new Date('2026-12-02T04:00:00Z') });
+    r.open();
+    const det = (t: number) => ({ kind: 'detection' as const, detection: { timeS: t, azimuthRad: 1, rangeM: 2, amplitude: 3 } });
+    for (let i = 0; i < 10; i++) r.record(det(i * 0.1));
+    expect((await listSessions(c))[0]).toMatchObject({ detections: 10, tracks: 0 });
+    for (let i = 10; i < 25; i++) r.record(det(i * 0.1));
+    r.record({ kind: 'track', update: { timeS: 2.5, id: 9, status: 'tentative', x: 0, y: 1, vx: 0, vy: 0, speed: 0, headingRad: 0, pxx: 1, pxy: 0, pyy: 1, quality: 0.1, moving: false, hits: 1, misses: 0 } });
+    const grown = (await listSessions(c))[0];
+    const full = await openSession(join(c, grown.id + '.session.jsonl'));
+    expect(grown).toMatchObject({ detections: full.detections, tracks: full.trackIds.size, durationS: full.durationS });
+    expect(grown.detections).toBe(25);
+    full.close();
+    r.closeSync();
+    expect((await listSessions(c))[0]).toMatchObject({ detections: 25, tracks: 1, durationS: 2.5 });
   });
 
   it('finds a session by id and refuses ids that try to leave the folders', async () => {
