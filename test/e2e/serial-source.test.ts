@@ -119,4 +119,27 @@ describe.skipIf(!haveSocat)('SerialSource over a socat pty pair', () => {
     expect(states).toContain('waiting');
     expect(states.filter((s) => s === 'live').length).toBeGreaterThanOrEqual(2);
   });
+
+  it('waits for a device that is not there yet and goes live when it appears', async () => {
+    const late = join(dir, 'late');
+    const lateFar = join(dir, 'late-far');
+    const src = new SerialSource({ path: late, reopenInitialMs: 50, reopenMaxMs: 200 });
+    const got: SourceRecord[] = [];
+    src.on('record', (r: SourceRecord) => got.push(r));
+    await src.start(); // resolves although the device is absent
+    expect(src.state).toBe('waiting');
+    const p = spawn(SOCAT, ['-d', '-d', `pty,raw,echo=0,link=${late}`, `pty,raw,echo=0,link=${lateFar}`], { stdio: 'ignore' });
+    try {
+      await waitFor(() => src.state === 'live', 'the late device to be opened');
+      const fd = openSync(lateFar, 'w');
+      writeSync(fd, encodeLine({ kind: 'positioner', sample: { timeS: 2, cmdX: 1, cmdY: 1 } }) + '\n');
+      closeSync(fd);
+      await waitFor(() => got.length === 1, 'a record from the late device');
+      expect(got[0].kind).toBe('positioner');
+    } finally {
+      await src.close();
+      expect(src.state).toBe('disconnected');
+      p.kill('SIGKILL');
+    }
+  });
 });
