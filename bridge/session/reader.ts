@@ -7,9 +7,12 @@ import { closeSync, openSync } from 'node:fs';
 import { basename } from 'node:path';
 import { EchotrailError } from '../errors.ts';
 import type { BadLine } from '../ingest/source.ts';
-import { SESSION_SUFFIX, SESSION_VERSION, sessionHeader, sessionLine, fromLine, type SessionHeader, type StoredRecord, type SessionSummary, type TimedRecord } from './format.ts';
-import { recordTime } from './record-time.ts';
-import { LineReader, type RawLine } from './line-reader.ts';
+import { SESSION_SUFFIX, SESSION_VERSION, sessionHeader, type SessionHeader, type StoredRecord, type SessionSummary, type TimedRecord } from './format.ts';
+import { parseSessionLine } from './parse-line.ts';
+import { RevolutionEstimate } from './revolution.ts';
+
+export { parseSessionLine };
+import { LineReader } from './line-reader.ts';
 import { SeekIndex } from './seek-index.ts';
 import { buildSnapshot, type SessionSnapshot } from './run-state.ts';
 
@@ -36,26 +39,6 @@ export function resolveOpenSessionOptions(o: Partial<OpenSessionOptions> = {}): 
 export function sessionIdOf(path: string): string {
   const b = basename(path);
   return b.endsWith(SESSION_SUFFIX) ? b.slice(0, -SESSION_SUFFIX.length) : b.replace(/\.[^.]*$/, '');
-}
-
-/** Validates one raw record line; returns the record or the reason it was refused. */
-export function parseSessionLine(raw: RawLine): TimedRecord | { end: SessionSummary; timeS: number } | string {
-  if (raw.oversized !== undefined) return `line of ${raw.oversized} bytes is too long`;
-  let json: unknown;
-  try {
-    json = JSON.parse(raw.text);
-  } catch {
-    return 'not valid JSON';
-  }
-  const r = sessionLine.safeParse(json);
-  if (!r.success) {
-    const issue = r.error.issues[0];
-    return `${issue.path.join('.') || 'record'}: ${issue.message}`;
-  }
-  const l = r.data;
-  if (l.k === 'end') return { end: l.summary, timeS: l.timeS };
-  const record = fromLine(l)!;
-  return { timeS: recordTime(record) ?? l.timeS, record, line: raw.line, offset: raw.offset };
 }
 
 export class SessionReader {
@@ -192,21 +175,6 @@ export class SessionReader {
     }
     this.truncatedTail = reader.tail();
     this.revolutionS = revolution.periodS();
-  }
-}
-
-/** Antenna period from the times the azimuth wraps through 0 (clockwise rotation). */
-class RevolutionEstimate {
-  private last: number | null = null;
-  private wraps: number[] = [];
-  add(timeS: number, azimuthRad: number): void {
-    if (this.wraps.length > 40) return;
-    if (this.last !== null && this.last > 1.5 * Math.PI && azimuthRad < 0.5 * Math.PI) this.wraps.push(timeS);
-    this.last = azimuthRad;
-  }
-  periodS(): number | null {
-    const d = this.wraps.slice(1).map((t, i) => t - this.wraps[i]).sort((a, b) => a - b);
-    return d.length ? d[d.length >> 1] : null;
   }
 }
 
