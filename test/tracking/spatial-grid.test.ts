@@ -1,0 +1,44 @@
+import { describe, expect, it } from 'vitest';
+import { SpatialGrid } from '../../bridge/tracking/spatial-grid.ts';
+import { createRng } from '../../bridge/sim/prng.ts';
+
+describe('SpatialGrid', () => {
+  it('finds every registration whose reach square covers the query point (against brute force)', () => {
+    const rng = createRng(4);
+    const g = new SpatialGrid(0.5, 6);
+    const items = new Map<number, { x: number; y: number; r: number }>();
+    for (let id = 0; id < 300; id++) {
+      const it = { x: rng.between(-10, 10), y: rng.between(-10, 10), r: rng.between(0, 1.5) };
+      items.set(id, it);
+      g.set(id, it.x, it.y, it.r);
+    }
+    // Move and remove some, as the tracker does.
+    for (let id = 0; id < 100; id++) {
+      const it = { x: rng.between(-10, 10), y: rng.between(-10, 10), r: rng.between(0, 1.5) };
+      items.set(id, it);
+      g.set(id, it.x, it.y, it.r);
+    }
+    for (let id = 100; id < 150; id++) {
+      items.delete(id);
+      g.remove(id);
+    }
+    expect(g.size).toBe(250);
+    for (let q = 0; q < 2000; q++) {
+      const x = rng.between(-11, 11);
+      const y = rng.between(-11, 11);
+      const found = new Set(g.query(x, y));
+      for (const [id, it] of items) {
+        // Inside the square of half-side r: must be found (the grid may return more: cell granularity).
+        if (Math.abs(x - it.x) <= it.r && Math.abs(y - it.y) <= it.r) expect(found.has(id)).toBe(true);
+      }
+      for (const id of found) expect(items.has(id)).toBe(true);
+    }
+  });
+
+  it('caps a registration at maxReachCells around its centre', () => {
+    const g = new SpatialGrid(1, 2);
+    g.set(1, 0.5, 0.5, 100);
+    expect(g.query(2.5, 0.5)).toContain(1);
+    expect(g.query(3.5, 0.5)).not.toContain(1);
+  });
+});
