@@ -9,6 +9,7 @@ import { Command, CommanderError, Option } from 'commander';
 import { EchotrailError } from '../errors.ts';
 import { analyse } from '../compare/analyse.ts';
 import { readCommandedCsv } from '../compare/commanded-csv.ts';
+import { pathToRadarFrame, type FrameTransform } from '../compare/frame.ts';
 import { readSessionInput, type SessionPathSource } from '../compare/session-input.ts';
 import type { TimedPath } from '../compare/timed-path.ts';
 import { readTracksCsv, type TrackRow } from '../compare/track-rows.ts';
@@ -31,6 +32,9 @@ function program(): Command {
     .option('--tracks <file>', 'tracks CSV as written by `echotrail track`')
     .option('--commanded <files...>', 'commanded path CSV(s): time_s,x_m,y_m or time_s,azimuth_deg,range_m (optional segment column); the first is compared with the followed track, all enter OSPA/GOSPA')
     .option('--waypoints <file>', 'waypoints with speeds instead of --commanded: JSON {"start_s", "waypoints": [{x_m, y_m, speed_mps, dwell_s}]} or CSV x_m,y_m,speed_mps,dwell_s')
+    .option('--target <id>', 'with a target_id column in --commanded: the target compared with the followed track (default: the first in the file)')
+    .option('--frame-rotation <deg>', 'commanded positions are in the positioner frame turned this much counter-clockwise from the radar frame, degrees', num('frame-rotation'), 0)
+    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres', pair, [0, 0])
     .option('--session <file>', 'recorded session (.session.jsonl): its track updates, and its commanded path unless --commanded/--waypoints is given')
     .addOption(new Option('--session-path <source>', 'which session records give the commanded path').choices(['auto', 'commanded', 'positioner']).default('auto'))
     .requiredOption('--out <dir>', 'output folder (created if missing)')
@@ -52,8 +56,14 @@ function program(): Command {
     .addHelpText('after', '\nExample:\n  echotrail compare --tracks run7.tracks.csv --commanded run7.path.csv --out reports/run7\n  echotrail compare --session sessions/run7.session.jsonl --out reports/run7');
 }
 
+function pair(v: string): [number, number] {
+  const parts = v.split(',').map((p) => Number(p.trim()));
+  if (parts.length !== 2 || !parts.every(Number.isFinite)) throw new EchotrailError('E_OPTION', `--frame-translation '${v}' is not two numbers x,y in metres`);
+  return [parts[0], parts[1]];
+}
+
 interface Parsed {
-  tracks?: string; commanded?: string[]; waypoints?: string; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
+  tracks?: string; commanded?: string[]; waypoints?: string; target?: string; frameRotation: number; frameTranslation: [number, number]; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
   followGate: number; followStale: number; switchMargin: number; maxLag: number; lagStep: number; smootherQ: number; corner: number;
   cutoff: number; order: number; setStep: number; maxAge: number; minOverlap: number; maxRange: number; maxSpeed: number;
 }
@@ -88,11 +98,20 @@ async function compare(o: Parsed): Promise<number> {
   if (!o.tracks && !o.session) throw new EchotrailError('E_OPTION', 'give --tracks TRACKS.csv or --session FILE');
   if (o.tracks && o.session) throw new EchotrailError('E_OPTION', 'give either --tracks or --session, not both');
   if (o.commanded && o.waypoints) throw new EchotrailError('E_OPTION', 'give either --commanded or --waypoints, not both');
-  const paths: TimedPath[] = [];
+  let paths: TimedPath[] = [];
   const names: string[] = [];
   for (const f of o.commanded ?? []) {
-    paths.push(await readCommandedCsv(f, units));
-    names.push(f);
+    const targets = await readCommandedCsv(f, units);
+    // The chosen target first: it is the one the single-target figures use.
+    if (o.target !== undefined && paths.length === 0) {
+      const i = targets.findIndex((t) => t.target === o.target);
+      if (i < 0) throw new EchotrailError('E_OPTION', `--target ${o.target}: ${f} has targets ${targets.map((t) => t.target || '(none)').join(', ')}`);
+      targets.unshift(...targets.splice(i, 1));
+    }
+    for (const t of targets) {
+      paths.push(t.path);
+      names.push(t.target ? `${f} target ${t.target}` : f);
+    }
   }
   if (o.waypoints) {
     paths.push(await readWaypoints(o.waypoints, units));
@@ -112,6 +131,8 @@ async function compare(o: Parsed): Promise<number> {
     if (paths.length === 0) throw new EchotrailError('E_OPTION', 'give the commanded path: --commanded PATH.csv or --waypoints FILE');
     rows = await readTracksCsv(o.tracks!, units);
   }
+  const frame: FrameTransform = { rotationRad: (o.frameRotation * Math.PI) / 180, tx: o.frameTranslation[0], ty: o.frameTranslation[1] };
+  paths = paths.map((p) => pathToRadarFrame(p, frame));
   const analysis = analyse(paths, rows, {
     follow: { gateM: o.followGate, staleS: o.followStale, switchMarginM: o.switchMargin },
     lag: { maxLagS: o.maxLag, stepS: o.lagStep },

@@ -1,16 +1,44 @@
 /**
  * Commanded path from CSV: `time_s,x_m,y_m`, or `time_s,azimuth_deg,range_m` (converted with
- * x = r·sin(az), y = r·cos(az)). An optional `segment` column labels legs for per-leg figures.
+ * x = r·sin(az), y = r·cos(az)). An optional `segment` column labels legs for per-leg figures; an
+ * optional `target_id` column holds several targets' paths in one file (as `echotrail simulate
+ * --commanded` writes them), each validated on its own.
  */
 import { readFile } from 'node:fs/promises';
 import { EchotrailError } from '../errors.ts';
-import { findColumn, numberCell, parseCsvTable, requireColumn } from './csv-table.ts';
+import { findColumn, numberCell, parseCsvTable, requireColumn, type CsvTable } from './csv-table.ts';
 import { makeTimedPath, type PathPoint, type TimedPath } from './timed-path.ts';
 import { checkAzimuthDegrees, checkPositions, checkSpeeds, resolveUnitCheckOptions, type UnitCheckOptions } from './units.ts';
 
-/** Parse commanded-path CSV text. */
-export function parseCommandedCsv(text: string, what = 'commanded path CSV', units: Partial<UnitCheckOptions> = {}): TimedPath {
+/** One target's commanded path. */
+export interface CommandedTarget {
+  /** The `target_id` cell, or '' when the file has no such column. */
+  target: string;
+  path: TimedPath;
+}
+
+/** Parse commanded-path CSV text: one path per target, in order of first appearance. */
+export function parseCommandedTargets(text: string, what = 'commanded path CSV', units: Partial<UnitCheckOptions> = {}): CommandedTarget[] {
   const t = parseCsvTable(text, what);
+  const cTarget = findColumn(t, 'target_id');
+  const groups = new Map<string, CsvTable['rows']>();
+  for (const row of t.rows) {
+    const k = cTarget >= 0 ? (row.cells[cTarget] ?? '') : '';
+    if (!groups.has(k)) groups.set(k, []);
+    groups.get(k)!.push(row);
+  }
+  return [...groups].map(([target, rows]) => ({
+    target,
+    path: pathFromRows({ ...t, rows }, cTarget >= 0 ? `${what} target ${target}` : what, units),
+  }));
+}
+
+/** Parse commanded-path CSV text holding one target (or take the first target of several). */
+export function parseCommandedCsv(text: string, what = 'commanded path CSV', units: Partial<UnitCheckOptions> = {}): TimedPath {
+  return parseCommandedTargets(text, what, units)[0].path;
+}
+
+function pathFromRows(t: CsvTable, what: string, units: Partial<UnitCheckOptions>): TimedPath {
   const cTime = requireColumn(t, 'time_s', 'the commanded path needs time_s plus x_m,y_m or azimuth_deg,range_m');
   const cx = findColumn(t, 'x_m');
   const cy = findColumn(t, 'y_m');
@@ -59,7 +87,7 @@ export function parseCommandedCsv(text: string, what = 'commanded path CSV', uni
   return path;
 }
 
-/** Read a commanded-path CSV file. */
-export async function readCommandedCsv(file: string, units: Partial<UnitCheckOptions> = {}): Promise<TimedPath> {
-  return parseCommandedCsv(await readFile(file, 'utf8'), `commanded path ${file}`, units);
+/** Read a commanded-path CSV file: every target in it. */
+export async function readCommandedCsv(file: string, units: Partial<UnitCheckOptions> = {}): Promise<CommandedTarget[]> {
+  return parseCommandedTargets(await readFile(file, 'utf8'), `commanded path ${file}`, units);
 }

@@ -7,6 +7,11 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { run } from '../../bridge/cli/compare.ts';
 import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
+import { simulateRun } from '../../bridge/sim/run.ts';
+import { SCENARIOS } from '../../bridge/sim/scenarios.ts';
+import { COMMANDED_CSV_HEADER, commandedCsvLine } from '../../bridge/sim/csv-sink.ts';
+import { Tracker } from '../../bridge/tracking/tracker.ts';
+import { TRACKS_CSV_HEADER, trackCsvLine } from '../../bridge/tracking/tracks-csv.ts';
 import { benchRun, commandedCsv, tracksCsv } from '../compare/bench-run.ts';
 
 let dir = '';
@@ -40,6 +45,17 @@ beforeAll(async () => {
   await writeFile(join(dir, 'path.csv'), commandedCsv(path));
   await writeFile(join(dir, 'waypoints.json'), JSON.stringify(waypoints));
   await writeFile(join(dir, 'one-point.csv'), 'time_s,x_m,y_m\n0,1,2\n');
+  // Two crossing targets from the project simulator, tracked by the project tracker, written by
+  // the project's own CSV writers.
+  const sim = simulateRun(SCENARIOS['crossing-pair']);
+  const tracker = new Tracker({});
+  const lines = [TRACKS_CSV_HEADER];
+  for (const d of sim.detections) for (const u of tracker.push(d).updates) lines.push(trackCsvLine(u));
+  for (const u of tracker.flush().updates) lines.push(trackCsvLine(u));
+  await writeFile(join(dir, 'sim.tracks.csv'), lines.join('\n') + '\n');
+  const cmd = [COMMANDED_CSV_HEADER];
+  for (const c of sim.commanded) for (const p of c.points) cmd.push(commandedCsvLine(c.targetId, p));
+  await writeFile(join(dir, 'sim.commanded.csv'), cmd.join('\n') + '\n');
   await writeFile(join(dir, 'late.csv'), commandedCsv({ ...path, points: path.points.map((p) => ({ ...p, timeS: p.timeS + 500 })) }));
 });
 
@@ -65,6 +81,20 @@ describe('echotrail compare', () => {
     expect(errors.trim().split('\n').length).toBe(summary.tracks.followed_rows + 1);
     expect(await readFile(join(out, 'ospa-gospa.csv'), 'utf8')).toMatch(/^time_s,truths,estimates,ospa_m,gospa_m/);
     expect(await readFile(join(out, 'report.html'), 'utf8')).toMatch(/^<!doctype html>/);
+  });
+
+  it('runs on simulator and tracker output with two targets, comparing the one chosen by --target', async () => {
+    const out = join(dir, 'out-sim');
+    const r = await capture(['--tracks', join(dir, 'sim.tracks.csv'), '--commanded', join(dir, 'sim.commanded.csv'), '--target', '2', '--out', out]);
+    expect(r.err).toBe('');
+    expect(r.code).toBe(0);
+    const s = JSON.parse(await readFile(join(out, 'summary.json'), 'utf8'));
+    expect(s.inputs.commanded[0]).toMatch(/target 2$/);
+    expect(s.inputs.commanded).toHaveLength(2);
+    // Both targets are tracked for most of the run, so OSPA/GOSPA see two truths most of the time.
+    expect(s.multi_target.samples).toBeGreaterThan(100);
+    expect(s.coverage.confirmed_fraction).toBeGreaterThan(0.5);
+    expect(Math.abs(s.lag.lag_s)).toBeLessThan(1);
   });
 
   it('accepts waypoints instead of a commanded CSV, with the same lag', async () => {

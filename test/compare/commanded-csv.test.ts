@@ -1,7 +1,7 @@
 // Commanded path CSV reader and its plausibility checks. Polar conversion x = r·sin(az),
 // y = r·cos(az) with azimuth clockwise from +y (../shared/conventions.md).
 import { describe, expect, it } from 'vitest';
-import { parseCommandedCsv } from '../../bridge/compare/commanded-csv.ts';
+import { parseCommandedCsv, parseCommandedTargets } from '../../bridge/compare/commanded-csv.ts';
 import { EchotrailError } from '../../bridge/errors.ts';
 
 function failure(text: string): EchotrailError {
@@ -73,5 +73,12 @@ describe('parseCommandedCsv', () => {
     expect(failure('time_s,x_m\n0,1\n1,2\n').code).toBe('E_INPUT_COLUMNS');
     expect(failure('time_s,x_m,y_m\n0,1,2\n1,abc,2\n').message).toMatch(/line 3: column 'x_m' is 'abc'/);
     expect(failure('').code).toBe('E_INPUT_EMPTY');
+  });
+
+  it('splits a target_id column into one path per target (same times in both are fine)', () => {
+    const t = parseCommandedTargets('time_s,target_id,x_m,y_m\n0,1,0,2\n0,2,1,3\n1,1,0.1,2\n1,2,1.1,3\n');
+    expect(t.map((x) => x.target)).toEqual(['1', '2']);
+    expect(t[1].path.points.map((p) => p.x)).toEqual([1, 1.1]);
+    expect(() => parseCommandedTargets('time_s,target_id,x_m,y_m\n0,1,0,2\n0,2,1,3\n')).toThrow(/target 1 has 1 point/);
   });
 });
