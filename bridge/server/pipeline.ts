@@ -114,7 +114,16 @@ export class Pipeline extends EventEmitter {
       }
     }
     this.emit('resync');
-    await source.start();
+    try {
+      await source.start();
+    } catch (err) {
+      // An unreadable session must not leave a half-open source behind: back to no source.
+      await this.detach();
+      this.tracker = null;
+      this.stats.reset('none', '');
+      this.emit('resync');
+      throw err;
+    }
     this.emitMessage({ type: 'source', source: this.stats.status() });
   }
 

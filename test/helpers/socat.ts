@@ -4,7 +4,7 @@
  * way an unplugged USB adapter does; starting it again with the same links brings it back.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { closeSync, existsSync, openSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 
 export const SOCAT = '/usr/bin/socat';
@@ -26,6 +26,7 @@ export class PtyPair {
   private fd: number | null = null;
 
   constructor(dir: string) {
+    mkdirSync(dir, { recursive: true });
     this.device = join(dir, 'bridge-end');
     this.hardware = join(dir, 'hw-end');
   }
