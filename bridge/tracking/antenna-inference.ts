@@ -22,6 +22,8 @@ export interface AntennaInference {
 }
 
 const TWO_PI = 2 * Math.PI;
+/** Shortest revolution period taken for a rotating antenna, s (benches turn at 0.5–2 s: common practice). */
+const MIN_PERIOD_S = 0.1;
 
 function median(v: number[]): number {
   if (v.length === 0) return NaN;
@@ -46,7 +48,9 @@ export function inferAntenna(dets: readonly Detection[]): AntennaInference {
   const base = { wraps: wrapTimes.length, forwardFraction, detections: dets.length };
   if (forwardFraction >= 0.9 && wrapTimes.length >= 2) {
     const periodS = refinePeriod(dets, median(wrapTimes.slice(1).map((t, i) => t - wrapTimes[i])));
-    return { kind: 'rotating', periodS, intervalS: periodS, ...base };
+    // A staring beam centred on 0° with reflectors either side also "wraps" at every detection;
+    // no positioner bench spins its antenna ten times a second, so such a period means staring.
+    if (periodS >= MIN_PERIOD_S) return { kind: 'rotating', periodS, intervalS: periodS, ...base };
   }
   // One reflector in view shows no wrap-around pattern; a detection per reflector every few
   // tenths of a second or slower is still a scanning antenna for all the tracker cares.

@@ -58,7 +58,7 @@ export function decide(dets: readonly Detection[], o: TrackerOptions): TrackerIn
   let noiseFrom: Origin = o.estimateNoise ? 'default' : 'option';
   let noiseReflectors = 0;
   if (o.estimateNoise) {
-    const n = estimateNoise(dets, antenna === 'rotating' ? intervalS : Math.max(10 * intervalS, 0.1), { rangeM: sigmaRangeM, azimuthRad: sigmaAzimuthRad });
+    const n = estimateNoise(dets, antenna === 'rotating' ? intervalS : Math.max(10 * intervalS, 0.1));
     // Accept estimates within a factor 4 of the typical bench figures; outside that, the
     // "stationary reflector" was more likely a slow target or two reflectors in one bin.
     if (n && n.samples >= 20 && within(n.sigmaRangeM, sigmaRangeM) && within(n.sigmaAzimuthRad, sigmaAzimuthRad)) {

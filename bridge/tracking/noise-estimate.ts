@@ -3,9 +3,9 @@
  * target parked at its start) returns the same range and azimuth every scan, so the difference
  * between its detections in two consecutive scans is pure noise with standard deviation σ·√2.
  *
- * Only polar bins hit in most scans (persistent, hence stationary) are used, and each detection is
- * paired with its nearest neighbour of the previous scan, so several reflectors in one bin (a
- * wall) do not inflate the figure the way a per-bin spread would. Robust scatter (1.4826·MAD,
+ * Only polar bins hit in most scans (persistent, hence stationary) are used, and a detection is
+ * paired with the previous scan only where exactly one detection lies within a bin's width, so
+ * several reflectors close together (a wall) neither inflate nor shrink the figure. Robust scatter (1.4826·MAD,
  * equal to σ for a Gaussian: common practice) keeps stray clutter pairs from inflating it.
  */
 import type { Detection } from '../types.ts';
@@ -32,13 +32,8 @@ function mad(v: number[]): number {
 /**
  * @param dets detections of the first part of the run, in time order
  * @param sliceS one scan: a revolution (rotating) or a short stretch of a staring run
- * @param sigma0 typical noise, used only to scale the nearest-neighbour search
  */
-export function estimateNoise(
-  dets: readonly Detection[],
-  sliceS: number,
-  sigma0: { rangeM: number; azimuthRad: number } = { rangeM: 0.05, azimuthRad: (1.5 * Math.PI) / 180 },
-): NoiseEstimate | null {
+export function estimateNoise(dets: readonly Detection[], sliceS: number): NoiseEstimate | null {
   if (dets.length < 10 || !(sliceS > 0)) return null;
   const t0 = dets[0].timeS;
   const slices = Math.floor((dets[dets.length - 1].timeS - t0) / sliceS) + 1;
@@ -66,7 +61,10 @@ export function estimateNoise(
     const ia = k % nAz;
     for (const [s, list] of b) {
       for (const d of list) {
-        let best = 36; // (6σ)² in units of the typical noise: farther is another reflector
+        // The one detection of the previous scan within a bin's width of this one. Where there
+        // are several (a wall of reflectors closer than the bins), picking the nearest would cut
+        // the tails off the difference distribution and bias σ low, so such pairs are skipped.
+        let count = 0;
         let br = 0;
         let ba = 0;
         for (let i = -1; i <= 1; i++) {
@@ -76,16 +74,15 @@ export function estimateNoise(
             for (const p of prev) {
               const er = d.rangeM - p.rangeM;
               const ea = azimuthDiff(d.azimuthRad, p.azimuthRad);
-              const q = (er / sigma0.rangeM) ** 2 / 4 + (ea / sigma0.azimuthRad) ** 2 / 4;
-              if (q < best) {
-                best = q;
+              if (Math.abs(er) < RANGE_BIN && Math.abs(ea) < AZ_BIN) {
+                count++;
                 br = er;
                 ba = ea;
               }
             }
           }
         }
-        if (best < 36) {
+        if (count === 1) {
           dr.push(br);
           da.push(ba);
         }
