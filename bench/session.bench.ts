@@ -13,9 +13,11 @@ const dir = mkdtempSync(join(tmpdir(), 'echotrail-bench-'));
 const ms = (t0: bigint) => Number(process.hrtime.bigint() - t0) / 1e6;
 const quantile = (xs: number[], q: number) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(q * xs.length))];
 
-try {
+/** One hour at `perScan` detections per 0.1 s scan, plus the tracks' updates. */
+async function run(perScan: number): Promise<void> {
+  console.log(`\n-- one hour, ${perScan * 10} detections/s --`);
   let t0 = process.hrtime.bigint();
-  const syn = writeSyntheticSession(dir, 3600, 'bench');
+  const syn = writeSyntheticSession(dir, 3600, `bench-${perScan}`, perScan);
   const writeMs = ms(t0);
   const size = statSync(syn.path).size;
   console.log(`record: ${syn.written.length} records, ${(size / 1e6).toFixed(1)} MB in ${writeMs.toFixed(0)} ms (${((syn.written.length / writeMs) * 1000).toFixed(0)} records/s, one write(2) each)`);
@@ -48,6 +50,12 @@ try {
   console.log(`ratio baseline / indexed (p50): ${(b50 / quantile(seek, 0.5)).toFixed(0)}×`);
   indexed.close();
   plain.close();
+  rmSync(syn.path);
+}
+
+try {
+  await run(2);
+  await run(30);
 } finally {
   rmSync(dir, { recursive: true, force: true });
 }

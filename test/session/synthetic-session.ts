@@ -14,7 +14,8 @@ export interface SyntheticSession {
   written: { timeS: number; record: StoredRecord }[];
 }
 
-export function writeSyntheticSession(dir: string, durationS: number, name = 'synthetic'): SyntheticSession {
+/** @param detectionsPerScan mean detections per 0.1 s scan (default 2: 20 detections/s). */
+export function writeSyntheticSession(dir: string, durationS: number, name = 'synthetic', detectionsPerScan = 2): SyntheticSession {
   let seed = 987654321;
   const rand = () => ((seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32);
   const rec = new Recorder({ dir, name, startUtc: new Date('2026-12-02T00:00:00Z'), source: { kind: 'simulator', name } });
@@ -32,7 +33,7 @@ export function writeSyntheticSession(dir: string, durationS: number, name = 'sy
     const t = k / 10;
     if (k % 200 === 0) alive.set(nextId++, { born: t, dies: t + 30 + 60 * rand(), keep: rand() < 0.2, hits: 0 });
     put({ kind: 'antenna', sample: { timeS: t, azimuthRad: (k * 0.3) % (2 * Math.PI) } }, t);
-    const nDet = 1 + Math.floor(rand() * 3);
+    const nDet = Math.max(0, Math.round(detectionsPerScan - 1 + rand() * 2));
     for (let i = 0; i < nDet; i++) put({ kind: 'detection', detection: { timeS: t, azimuthRad: rand() * 6.28, rangeM: 1 + rand() * 4, amplitude: 1 + rand() * 100 } }, t);
     for (const [id, tr] of alive) {
       if (t >= tr.dies && !tr.keep) {
