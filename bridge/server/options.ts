@@ -68,7 +68,7 @@ export interface BridgeOptions {
   createSource?: (options: ResolvedBridgeOptions) => Source | Promise<Source>;
   /** Record live runs (serial) to `sessionsDir`. Default true for serial, false for replays. */
   record?: boolean;
-  /** Most scan messages per second to a client; increments in between are merged. Default 25. */
+  /** Most scan messages per second to a client; increments in between are merged. Default 30. */
   scanRateHz: number;
   /** A client whose unsent bytes exceed this stops receiving scans until it catches up. Default 1 MiB. */
   maxBufferedBytes: number;
@@ -131,7 +131,7 @@ export function resolveBridgeOptions(input: Partial<BridgeOptions> = {}): Resolv
     createTracker: input.createTracker,
     createSource: input.createSource,
     record: input.record ?? input.serial !== undefined,
-    scanRateHz: input.scanRateHz ?? 25,
+    scanRateHz: input.scanRateHz ?? 30,
     maxBufferedBytes: input.maxBufferedBytes ?? 1024 * 1024,
     resumeBufferedBytes: input.resumeBufferedBytes ?? 64 * 1024,
     maxLagMs: input.maxLagMs ?? 15_000,
