@@ -50,6 +50,8 @@ export interface Analysis {
   /** Rows of the followed track(s), time order. */
   followed: TrackRow[];
   switches: FollowSwitch[];
+  /** The followed track strayed beyond the release distance (diverged) at these times. */
+  releases: TrackFollower['releases'];
   lag: LagEstimate;
   coverage: Coverage;
   filtered: DeviationPair;
@@ -85,14 +87,14 @@ export function checkOverlap(path: TimedPath, rows: readonly TrackRow[], minOver
   }
 }
 
-function follow(path: TimedPath, rows: readonly TrackRow[], lagS: number, o: Partial<FollowOptions>): { rows: TrackRow[]; switches: FollowSwitch[] } {
+function follow(path: TimedPath, rows: readonly TrackRow[], lagS: number, o: Partial<FollowOptions>): { rows: TrackRow[]; switches: FollowSwitch[]; releases: TrackFollower['releases'] } {
   const f = new TrackFollower(o);
   const out: TrackRow[] = [];
   for (const r of rows) {
     const c = sampleAt(path, r.timeS - lagS);
     if (f.offer(r, c.x, c.y)) out.push(r);
   }
-  return { rows: out, switches: [...f.switches] };
+  return { rows: out, switches: [...f.switches], releases: [...f.releases] };
 }
 
 function pair(path: TimedPath, states: readonly { timeS: number; x: number; y: number; vx: number; vy: number }[], lagS: number): DeviationPair {
@@ -136,6 +138,7 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
     legs,
     followed,
     switches: chosen.switches,
+    releases: chosen.releases,
     lag,
     coverage: coverageOf(followed, span.startS, span.endS),
     filtered,

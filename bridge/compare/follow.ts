@@ -15,11 +15,17 @@ export interface FollowOptions {
   staleS: number;
   /** Another track must be this much closer than the followed one to take over, metres. */
   switchMarginM: number;
+  /**
+   * The followed track loses the role when it strays further than this, metres: a diverged track
+   * no longer follows the target, and its rows would swamp every figure (and the lag search).
+   */
+  releaseM: number;
 }
 
 /** Defaults in one place: a metre is several times the bench's position noise (common practice). */
 export function resolveFollowOptions(o: Partial<FollowOptions> = {}): FollowOptions {
-  return { gateM: o.gateM ?? 1.0, staleS: o.staleS ?? 2.0, switchMarginM: o.switchMarginM ?? 0.2 };
+  const gateM = o.gateM ?? 1.0;
+  return { gateM, staleS: o.staleS ?? 2.0, switchMarginM: o.switchMarginM ?? 0.2, releaseM: o.releaseM ?? 2 * gateM };
 }
 
 /** A change of the followed track id. */
@@ -38,6 +44,8 @@ export class TrackFollower {
   private readonly lastDist = new Map<number, number>();
   /** Every change of the followed id, in time order. */
   readonly switches: FollowSwitch[] = [];
+  /** Times the followed track strayed beyond releaseM and lost the role. */
+  readonly releases: { timeS: number; id: number; distanceM: number }[] = [];
 
   constructor(options: Partial<FollowOptions> = {}) {
     this.o = resolveFollowOptions(options);
@@ -54,6 +62,11 @@ export class TrackFollower {
     const d = Math.hypot(row.x - cmdX, row.y - cmdY);
     this.lastDist.set(row.id, d);
     if (row.id === this.current) {
+      if (d > this.o.releaseM) {
+        this.releases.push({ timeS: row.timeS, id: row.id, distanceM: d });
+        this.current = null;
+        return false;
+      }
       this.lastAcceptS = row.timeS;
       return true;
     }
@@ -75,5 +88,6 @@ export class TrackFollower {
     this.lastAcceptS = -Infinity;
     this.lastDist.clear();
     this.switches.length = 0;
+    this.releases.length = 0;
   }
 }

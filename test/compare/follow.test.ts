@@ -37,4 +37,14 @@ describe('TrackFollower', () => {
     expect(f.currentId).toBeNull();
     expect(f.switches).toHaveLength(0);
   });
+
+  it('drops a followed track that strays beyond the release distance, and can pick it up again', () => {
+    const f = new TrackFollower({ gateM: 0.5, releaseM: 1 });
+    expect(f.offer(row(0, 1, 0.2), 0, 0)).toBe(true);
+    expect(f.offer(row(1, 1, 0.9), 0, 0)).toBe(true); // outside the gate but still followed
+    expect(f.offer(row(2, 1, 1.5), 0, 0)).toBe(false); // diverged
+    expect(f.currentId).toBeNull();
+    expect(f.releases).toEqual([{ timeS: 2, id: 1, distanceM: 1.5 }]);
+    expect(f.offer(row(3, 1, 0.3), 0, 0)).toBe(true); // back within the gate
+  });
 });

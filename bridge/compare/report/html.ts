@@ -53,7 +53,10 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
   const wf = a.whole.filtered;
   const ws = a.whole.smoothed;
   const ratio = ws && wf.aligned.position.rmse ? (ws.aligned.position.rmse ?? NaN) / wf.aligned.position.rmse : null;
-  const markers = a.switches.filter((s) => s.from !== null).map((s) => ({ x: s.timeS, label: `id ${s.from}→${s.to}` }));
+  const markers = [
+    ...a.switches.slice(1).map((s) => ({ x: s.timeS, label: s.from === null ? `→ id ${s.to}` : `id ${s.from}→${s.to}` })),
+    ...a.releases.map((r) => ({ x: r.timeS, label: `id ${r.id} strayed` })),
+  ];
 
   const cards = [
     card('trk', 'position RMSE, filtered', `${cell(wf.noLag.position.rmse)} m`, `lag removed ${cell(wf.aligned.position.rmse)} m`),
@@ -74,9 +77,9 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
     { id: 'plan', width: 540, height: 480, xLabel: 'x, m (radar frame)', yLabel: 'y, m' },
     [
       { x: cmdPts[0][0], y: cmdPts[0][1], label: 'commanded start', color: C.cmd },
-      ...a.switches.filter((s) => s.from !== null).map((s) => {
-        const r = rows.find((q) => q.timeS === s.timeS && q.id === s.to)!;
-        return { x: r.x, y: r.y, label: `track id ${s.from} → ${s.to} at ${s.timeS.toFixed(2)} s`, color: C.miss };
+      ...a.switches.slice(1).flatMap((s) => {
+        const r = rows.find((q) => q.timeS === s.timeS && q.id === s.to);
+        return r ? [{ x: r.x, y: r.y, label: `followed track ${s.from ?? '(none)'} → ${s.to} at ${s.timeS.toFixed(2)} s`, color: C.miss }] : [];
       }),
     ],
   );
@@ -113,6 +116,7 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
   const warnings = [...meta.warnings];
   if (a.coverage.confirmedFraction < 0.8) warnings.push(`The target was held by a confirmed track for only ${(a.coverage.confirmedFraction * 100).toFixed(0)} % of the run.`);
   if (!sm) warnings.push('The tracks carry no measurement columns: no smoothed figures.');
+  for (const r of a.releases) warnings.push(`Track ${r.id} strayed ${r.distanceM.toFixed(2)} m from the commanded path at ${r.timeS.toFixed(2)} s and stopped counting as the followed track.`);
 
   const ids = a.switches.map((s) => s.to);
   return `<!doctype html>
@@ -124,7 +128,7 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
 ${warnings.length ? `<p class="note warn">${warnings.map(esc).join('<br>')}</p>` : ''}
 <section class="cards">${cards}</section>
 <h2>Paths in the radar frame</h2>
-<div class="row">${figure('Commanded path, the followed track as the live view showed it, and the smoothed track. Red dots: the followed track changed id.', plan,
+<div class="row">${figure('Commanded path, the followed track as the live view showed it, and the smoothed track. Red dots: the followed track changed.', plan,
     [{ name: 'commanded', color: C.cmd }, { name: 'tracked (filtered)', color: C.trk }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
 <div style="flex:1;min-width:300px">${figure('Least-squares lag search: RMS distance between the track and the commanded path shifted by each candidate lag.', lagPlot, [{ name: 'RMS distance', color: C.cmd }])}
 <p class="note">The lag gathers positioner latency, radar update interval and filter lag. “Lag removed” figures compare the track at t with the command at t − lag.</p></div></div>
