@@ -98,7 +98,7 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
       ...smSeries((k) => sm!.deviations.aligned[k][key], C.smo, 'smoothed, lag removed')],
     { id, width: 500, height: 220, xLabel: 'time, s', yLabel: label, zeroLine: true, symmetric: true, markers },
   );
-  const spPlot = timePlot([series((i) => a.filtered.aligned[i].speedMps ?? NaN, C.trk, 'speed error')], { id: 'spd', width: 500, height: 200, xLabel: 'time, s', yLabel: 'speed error, m/s', zeroLine: true, symmetric: true });
+  const spPlot = timePlot([series((i) => a.filtered.aligned[i].speedMps ?? NaN, C.trk, 'speed error'), ...smSeries((k) => sm!.deviations.aligned[k].speedMps ?? NaN, C.smo, 'smoothed')], { id: 'spd', width: 500, height: 200, xLabel: 'time, s', yLabel: 'speed error, m/s', zeroLine: true, symmetric: true });
   const hdPlot = timePlot([series((i) => { const h = a.filtered.aligned[i].headingRad; return h === null ? NaN : (h * 180) / Math.PI; }, C.trk, 'heading error')], { id: 'hdg', width: 500, height: 200, xLabel: 'time, s', yLabel: 'heading error, °', zeroLine: true, symmetric: true });
   const setPts = (f: (s: (typeof a.sets)[number]) => number): [number, number][] => a.sets.map((s) => [s.timeS, f(s)]);
   const setPlot = timePlot(
@@ -136,7 +136,7 @@ ${warnings.length ? `<p class="note warn">${warnings.map(esc).join('<br>')}</p>`
 ${figure('Euclidean distance between the estimate and the commanded position.', errPlot, [{ name: 'filtered, raw', color: C.trk }, { name: 'filtered, lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed, lag removed', color: C.smo, dash: true }] : [])])}
 <div class="row" style="margin-top:12px">${figure('Along-track error: positive ahead of the commanded point.', acPlot('alongM', 'along-track, m', 'along'), [{ name: 'filtered, raw', color: C.trk }, { name: 'lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
 ${figure('Cross-track error: positive left of the commanded direction of travel.', acPlot('crossM', 'cross-track, m', 'cross'), [{ name: 'filtered, raw', color: C.trk }, { name: 'lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}</div>
-<div class="row" style="margin-top:12px">${figure('Track speed minus commanded speed (lag removed).', spPlot, [{ name: 'filtered', color: C.trk }])}
+<div class="row" style="margin-top:12px">${figure('Track speed minus commanded speed (lag removed).', spPlot, [{ name: 'filtered', color: C.trk }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
 ${figure('Track heading minus commanded heading (lag removed); blank while either stands still.', hdPlot, [{ name: 'filtered', color: C.trk }])}</div>
 <h2>Figures for the whole run</h2>
 ${wholeRunTable(a)}

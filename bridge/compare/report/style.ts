@@ -47,6 +47,10 @@ footer { margin-top: 32px; color: var(--muted); font-size: 12px; border-top: 1px
   .card, figure, table { border-color: #999; }
   h2 { break-after: avoid; }
   figure, table, .cards { break-inside: avoid; }
+  /* Pairs of charts stay side by side on paper, scaled to half the page each. */
+  .row { flex-wrap: nowrap; gap: 8px; }
+  .row > * { flex: 1 1 0; width: auto !important; min-width: 0 !important; }
+  .cards { grid-template-columns: repeat(3, 1fr); }
   svg.chart { max-width: 100%; }
 }
 `;
