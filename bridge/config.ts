@@ -1,13 +1,15 @@
 /**
  * The bench configuration file (`npm start -- --config bench.json`): the settings of one bench
  * that stay the same from run to run. JSON, validated with zod; relative paths are taken from the
- * file's own folder. Example:
+ * file's own folder. `calibration` names the calibration file `echotrail calibrate` maintains
+ * (format: bridge/calibrate/bench-config.ts; it may also be given inline); its radar offsets become
+ * the tracker's measurement corrections. Example:
  *
  *   {
  *     "serial": { "path": "/dev/ttyUSB0", "baudRate": 115200 },
  *     "tracker": { "antenna": "rotating", "intervalS": 0.5 },
  *     "trackerProfile": "profiles/turntable.json",
- *     "calibration": { "rangeOffsetM": -0.031, "azimuthOffsetDeg": 0.42 },
+ *     "calibration": "calibration/bay3.json",
  *     "sessionsDir": "/data/echotrail/sessions",
  *     "bridge": { "port": 8080, "host": "127.0.0.1", "allowedOrigins": [] }
  *   }
@@ -17,6 +19,7 @@ import { dirname, resolve } from 'node:path';
 import { z } from 'zod';
 import { EchotrailError } from './errors.ts';
 import type { BridgeOptions } from './server/options.ts';
+import { importOptional } from './server/deps.ts';
 
 const serialSchema = z.strictObject({
   path: z.string().min(1),
@@ -28,16 +31,6 @@ const serialSchema = z.strictObject({
   reopenMaxMs: z.number().positive().optional(),
 });
 
-const calibrationSchema = z
-  .object({
-    /** Added to every measured range, m. */
-    rangeOffsetM: z.number().finite().optional(),
-    /** Added to every measured azimuth, degrees. */
-    azimuthOffsetDeg: z.number().finite().optional(),
-  })
-  // Other calibration results (frame fit, noise) are kept and handed on as they are.
-  .catchall(z.unknown());
-
 export const benchConfigSchema = z.strictObject({
   /** Serial input used when `--serial` is not given. */
   serial: serialSchema.optional(),
@@ -45,7 +38,8 @@ export const benchConfigSchema = z.strictObject({
   tracker: z.record(z.string(), z.unknown()).optional(),
   /** A tracker profile file (JSON: tracker options, or `{ "tracker": {...} }`); `tracker` entries win. */
   trackerProfile: z.string().min(1).optional(),
-  calibration: calibrationSchema.optional(),
+  /** Calibration file (path) or its content inline; checked by bridge/calibrate/bench-config.ts. */
+  calibration: z.union([z.string().min(1), z.record(z.string(), z.unknown())]).optional(),
   /** Where live runs are recorded. */
   sessionsDir: z.string().min(1).optional(),
   bridge: z
@@ -88,10 +82,33 @@ export async function loadBenchConfig(path: string): Promise<BenchConfig> {
   const base = dirname(resolve(path));
   if (cfg.sessionsDir) cfg.sessionsDir = resolve(base, cfg.sessionsDir);
   if (cfg.trackerProfile) cfg.trackerProfile = resolve(base, cfg.trackerProfile);
+  if (typeof cfg.calibration === 'string') cfg.calibration = resolve(base, cfg.calibration);
   return cfg;
 }
 
-/** Tracker options from the profile file, the config's `tracker` entries and the calibration offsets. */
+interface CalibrationModule {
+  parseBenchConfig(json: unknown, name?: string): unknown;
+  trackerCorrections(config: unknown): { rangeOffsetM: number; azimuthOffsetRad: number };
+}
+
+/** The calibration file's content (validated by its own module), or undefined when none is configured. */
+export async function loadCalibration(cfg: BenchConfig): Promise<unknown> {
+  if (cfg.calibration === undefined) return undefined;
+  const mod = (await importOptional('../calibrate/bench-config.ts')) as unknown as CalibrationModule | null;
+  if (!mod || typeof mod.parseBenchConfig !== 'function') throw new EchotrailError('E_CALIBRATION', 'calibration files need bridge/calibrate/bench-config.ts, which is missing');
+  const json = typeof cfg.calibration === 'string' ? await readJson(cfg.calibration, 'calibration file') : cfg.calibration;
+  return mod.parseBenchConfig(json, typeof cfg.calibration === 'string' ? `calibration file ${cfg.calibration}` : 'calibration (inline)');
+}
+
+/** The tracker's range/azimuth corrections from the calibration, or null without one. */
+async function calibrationCorrections(cfg: BenchConfig): Promise<{ rangeOffsetM: number; azimuthOffsetRad: number } | null> {
+  const calibration = await loadCalibration(cfg);
+  if (calibration === undefined) return null;
+  const mod = (await importOptional('../calibrate/bench-config.ts')) as unknown as CalibrationModule;
+  return mod.trackerCorrections(calibration);
+}
+
+/** Tracker options from the profile file, the config's `tracker` entries and the calibration's corrections. */
 export async function trackerOptionsFromConfig(cfg: BenchConfig): Promise<Record<string, unknown> | undefined> {
   let options: Record<string, unknown> = {};
   if (cfg.trackerProfile) {
@@ -103,13 +120,8 @@ export async function trackerOptionsFromConfig(cfg: BenchConfig): Promise<Record
     else throw new EchotrailError('E_OPTION', `tracker profile '${cfg.trackerProfile}' must be a JSON object`);
   }
   if (cfg.tracker) options = { ...options, ...cfg.tracker };
-  const cal = cfg.calibration;
-  if (cal && (cal.rangeOffsetM !== undefined || cal.azimuthOffsetDeg !== undefined)) {
-    const measurement = { ...((options.measurement as Record<string, unknown> | undefined) ?? {}) };
-    if (cal.rangeOffsetM !== undefined) measurement.rangeOffsetM = cal.rangeOffsetM;
-    if (cal.azimuthOffsetDeg !== undefined) measurement.azimuthOffsetRad = (cal.azimuthOffsetDeg * Math.PI) / 180;
-    options.measurement = measurement;
-  }
+  const corrections = await calibrationCorrections(cfg);
+  if (corrections) options.measurement = { ...((options.measurement as Record<string, unknown> | undefined) ?? {}), ...corrections };
   return Object.keys(options).length ? options : undefined;
 }
 
@@ -122,7 +134,8 @@ export async function bridgeOptionsFromConfig(cfg: BenchConfig): Promise<Partial
   if (cfg.bridge?.host) out.host = cfg.bridge.host;
   if (cfg.bridge?.allowedOrigins) out.allowedOrigins = cfg.bridge.allowedOrigins;
   if (cfg.bridge?.token) out.token = cfg.bridge.token;
-  if (cfg.calibration) out.calibration = cfg.calibration;
+  const calibration = await loadCalibration(cfg);
+  if (calibration !== undefined) out.calibration = calibration;
   const tracker = await trackerOptionsFromConfig(cfg);
   if (tracker) out.trackerOptions = tracker;
   out.benchConfig = cfg as Record<string, unknown>;

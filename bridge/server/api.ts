@@ -71,7 +71,10 @@ export async function handleApi(ctx: ApiContext, req: IncomingMessage, res: Serv
       const handler = await ctx.calibration();
       if (!handler) return sendError(res, 501, 'E_CALIBRATION', 'calibration is not available in this build');
       const body = await readJsonBody(req);
-      return sendJson(res, 200, await handler(body));
+      const answer = await handler(body);
+      // The calibration answers { ok: false, code, message } for requests it cannot use.
+      const refused = typeof answer === 'object' && answer !== null && (answer as { ok?: unknown }).ok === false;
+      return sendJson(res, refused ? 400 : 200, answer);
     }
     if (['/api/health', '/api/sessions', '/api/calibrate'].includes(pathname)) return sendError(res, 405, 'E_PROTOCOL', `${req.method} not allowed on ${pathname}`);
     return sendError(res, 404, 'E_PROTOCOL', `no API at ${pathname}`);

@@ -123,7 +123,12 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
     sessions,
     calibration: async () => {
       const api = await loadCalibrationApi();
-      return api ? (body: unknown) => api(body) : null;
+      if (!api) return null;
+      // The bench's current calibration is the starting point unless the request brings its own.
+      return (body: unknown) => {
+        const withConfig = o.calibration !== undefined && body && typeof body === 'object' && !('config' in body) ? { ...body, config: o.calibration } : body;
+        return api(withConfig);
+      };
     },
     uptimeS: () => (performance.now() - started) / 1000,
   };

@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it } from 'vitest';
-import { mkdtempSync } from 'node:fs';
+import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { startBridge, type RunningBridge } from '../../bridge/server/bridge.ts';
@@ -105,5 +105,45 @@ describe('startBridge', () => {
     expect(res.status).toBe(200);
     expect(Array.isArray((await res.json()).sessions)).toBe(true);
     expect((await fetch(new URL('/api/nothing', b.url))).status).toBe(404);
+  });
+
+  it('mounts POST /api/calibrate when bridge/calibrate/api.ts exists (501 otherwise); bad bodies get 400', async () => {
+    const b = await start(new ScriptedSource());
+    const post = (body: string) => fetch(new URL('/api/calibrate', b.url), { method: 'POST', body, headers: { 'content-type': 'application/json' } });
+    const present = existsSync(join(import.meta.dirname, '../../bridge/calibrate/api.ts'));
+    const steps = await post(JSON.stringify({ action: 'steps' }));
+    expect(steps.status).toBe(present ? 200 : 501);
+    if (present) expect((await steps.json()).ok).toBe(true);
+    const bad = await post('{"action": ');
+    expect(bad.status).toBe(present ? 400 : 501);
+    expect((await fetch(new URL('/api/calibrate', b.url))).status).toBe(405);
+  });
+
+  it('keeps the live view running when recording fails, and says why', async () => {
+    const notAFolder = join(mkdtempSync(join(tmpdir(), 'et-rec-')), 'file');
+    writeFileSync(notAFolder, 'x');
+    const src = new ScriptedSource({ kind: 'serial', name: '/dev/ttyQ' });
+    const b = await start(src, { record: true, sessionsDir: notAFolder });
+    const c = await connect(b.wsUrl);
+    const snap = await c.next('snapshot');
+    expect(snap.source.recording).toBeNull();
+    expect(snap.source.recordingError).toMatch(/not a folder|cannot|failed/);
+    src.emitRecord({ kind: 'track', update: trackAt(9, 1, 1, 1) });
+    expect((await c.next('scan', (m) => m.updates.length > 0)).updates[0].id).toBe(9);
+  });
+
+  it('answers an unreadable session with an error and stays usable', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'et-bad-'));
+    writeFileSync(join(dir, 'broken.session.jsonl'), 'this is not a session\n');
+    const b = await start(new ScriptedSource(), { sessionsDir: dir });
+    const c = await connect(b.wsUrl);
+    await c.next('snapshot');
+    c.send({ type: 'open-session', sessionId: 'broken' });
+    const err = await c.next('error');
+    expect(err.code).toBe('E_SESSION_FORMAT');
+    const snap = await c.next('snapshot', (m) => m.source.kind === 'none');
+    expect(snap.tracks).toEqual([]);
+    c.send({ type: 'list-sessions' });
+    expect(Array.isArray((await c.next('sessions')).sessions)).toBe(true);
   });
 });

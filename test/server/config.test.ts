@@ -14,13 +14,19 @@ function file(name: string, content: unknown): string {
 
 describe('bench config file', () => {
   it('merges profile, tracker entries and calibration offsets into tracker options; paths are relative to the file', async () => {
+    // Radar errors as calibration measured them; the tracker corrects by their negatives.
+    file('bay3.json', {
+      version: 1, bench: 'bay 3', updatedUtc: '2026-12-02T02:10:00.000Z',
+      radar: { rangeOffsetM: 0.03, rangeScale: 1, azimuthOffsetDeg: -0.5 },
+      positionerFrame: { rotationDeg: 1, translationM: { x: 0, y: 0 } }, history: [],
+    });
     file('profile.json', { tracker: { antenna: 'rotating', intervalS: 0.5, gate: { probability: 0.99 } } });
     const cfg = await loadBenchConfig(
       file('bench.json', {
         serial: { path: '/dev/ttyUSB7', baudRate: 230400, parity: 'even' },
         trackerProfile: 'profile.json',
         tracker: { intervalS: 0.25 },
-        calibration: { rangeOffsetM: -0.03, azimuthOffsetDeg: 0.5, frame: { rotationDeg: 1 } },
+        calibration: 'bay3.json',
         sessionsDir: 'runs',
         bridge: { port: 9001, allowedOrigins: ['http://localhost:5173'] },
       }),
@@ -36,7 +42,7 @@ describe('bench config file', () => {
       gate: { probability: 0.99 },
       measurement: { rangeOffsetM: -0.03, azimuthOffsetRad: (0.5 * Math.PI) / 180 },
     });
-    expect((o.calibration as { frame: unknown }).frame).toEqual({ rotationDeg: 1 });
+    expect((o.calibration as { positionerFrame: unknown }).positionerFrame).toEqual({ rotationDeg: 1, translationM: { x: 0, y: 0 } });
   });
 
   it('refuses unknown keys, wrong types, bad JSON and missing files with E_OPTION / E_PATH naming the problem', async () => {
@@ -45,9 +51,10 @@ describe('bench config file', () => {
       [file('b.json', { serial: { path: '/dev/x', baudRate: -3 } }), /serial\.baudRate/, 'E_OPTION'],
       [file('c.json', '{ "serial": '), /not valid JSON/, 'E_OPTION'],
       [join(dir, 'missing.json'), /cannot read/, 'E_PATH'],
+      [file('d.json', { calibration: { version: 1, radar: {} } }), /calibration \(inline\)/, 'E_OPTION'],
     ];
     for (const [path, message, code] of cases) {
-      const err = await loadBenchConfig(path).catch((e: unknown) => e);
+      const err = await loadBenchConfig(path).then(bridgeOptionsFromConfig).catch((e: unknown) => e);
       expect(hasCode(err, code as 'E_OPTION')).toBe(true);
       expect((err as Error).message).toMatch(message);
     }
