@@ -80,6 +80,16 @@ describe('replay of a recorded session', () => {
     expect(times).toEqual([...times].sort((a, b) => a - b));
   });
 
+  it('compares the followed track with the commanded path live (comparison messages)', async () => {
+    bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, speed: 50, log: () => undefined });
+    const c = await connect(bridge);
+    const m = await c.next('comparison', (x) => x.figures.samples > 20);
+    // The recorded track runs exactly along the commanded line x = 0.5·t, y = 2.
+    expect(m.figures.trackId).toBe(1);
+    expect(m.figures.rmseM).toBeLessThan(1e-6);
+    expect(Math.abs(m.figures.crossTrackM ?? 1)).toBeLessThan(1e-6);
+  });
+
   it('lists sessions and opens one by id over the WebSocket; refuses unknown ids', async () => {
     bridge = await startBridge({ port: 0, sessionsDir: dir, log: () => undefined });
     const c = await connect(bridge);
