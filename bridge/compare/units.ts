@@ -58,14 +58,17 @@ export function checkSpeeds(points: readonly PathPoint[], what: string, opts: Un
 
 /**
  * Azimuth given in radians in a degree column: every value within [0, 2π] although the target
- * sweeps more than a few degrees is the telltale. Quietly plausible paths (a narrow sector in
- * degrees) pass; the check only fires when radians are the much likelier reading.
+ * sweeps a wide arc is the telltale. Plausible paths (a narrow sector in degrees) pass; the check
+ * only fires when radians are the much likelier reading.
  */
 export function checkAzimuthDegrees(values: readonly number[], what: string): void {
   if (values.length < 3) return;
   const max = Math.max(...values.map(Math.abs));
   const min = Math.min(...values);
-  if (max <= 2 * Math.PI + 1e-9 && max - min > 0.3 && values.some((v) => v !== Math.round(v))) {
+  // A sweep of more than 1.5 (86° if radians) that never leaves 0…2π: a degree path would have
+  // to stay inside a 6° sector while moving across 1.5° of it, unlikely but possible, hence the
+  // wide margin rather than a tight one.
+  if (max <= 2 * Math.PI + 1e-9 && max - min > 1.5 && values.some((v) => v !== Math.round(v))) {
     throw new EchotrailError(
       'E_INPUT_UNITS',
       `${what}: azimuth_deg values all lie within 0…${max.toFixed(3)}, which looks like radians; give degrees (clockwise from +y)`,

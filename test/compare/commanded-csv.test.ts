@@ -58,7 +58,7 @@ describe('parseCommandedCsv', () => {
   });
 
   it('refuses radians in the azimuth column', () => {
-    const e = failure('time_s,azimuth_deg,range_m\n0,0.1,2\n1,0.6,2\n2,1.2,2\n');
+    const e = failure('time_s,azimuth_deg,range_m\n0,0.1,2\n2,0.9,2\n4,1.8,2\n');
     expect(e.code).toBe('E_INPUT_UNITS');
     expect(e.message).toMatch(/radians/);
   });
@@ -67,6 +67,10 @@ describe('parseCommandedCsv', () => {
     const e = failure('time_s,x_m,y_m\n0,0,2\n0.001,0.5,2\n');
     expect(e.code).toBe('E_INPUT_UNITS');
     expect(e.message).toMatch(/500\.00 m\/s/);
+  });
+
+  it('accepts a narrow sector in degrees near boresight', () => {
+    expect(parseCommandedCsv('time_s,azimuth_deg,range_m\n0,1.5,3\n1,2.5,3\n2,3.5,3\n').points).toHaveLength(3);
   });
 
   it('names a missing column and a bad number', () => {
