@@ -65,10 +65,9 @@ export function checkAzimuthDegrees(values: readonly number[], what: string): vo
   if (values.length < 3) return;
   const max = Math.max(...values.map(Math.abs));
   const min = Math.min(...values);
-  // A sweep of more than 1.5 (86° if radians) that never leaves 0…2π: a degree path would have
-  // to stay inside a 6° sector while moving across 1.5° of it, unlikely but possible, hence the
-  // wide margin rather than a tight one.
-  if (max <= 2 * Math.PI + 1e-9 && max - min > 1.5 && values.some((v) => v !== Math.round(v))) {
+  // A sweep of more than 3 (172° if radians) that never leaves 0…2π: a degree path would have to
+  // cross half of a 6° sector at boresight's right. Narrower sweeps are plausible in degrees and pass.
+  if (max <= 2 * Math.PI + 1e-9 && max - min > 3 && values.some((v) => v !== Math.round(v))) {
     throw new EchotrailError(
       'E_INPUT_UNITS',
       `${what}: azimuth_deg values all lie within 0…${max.toFixed(3)}, which looks like radians; give degrees (clockwise from +y)`,

@@ -58,7 +58,7 @@ describe('parseCommandedCsv', () => {
   });
 
   it('refuses radians in the azimuth column', () => {
-    const e = failure('time_s,azimuth_deg,range_m\n0,0.1,2\n2,0.9,2\n4,1.8,2\n');
+    const e = failure('time_s,azimuth_deg,range_m\n0,0.2,2\n10,3.4,2\n20,6.0,2\n');
     expect(e.code).toBe('E_INPUT_UNITS');
     expect(e.message).toMatch(/radians/);
   });
