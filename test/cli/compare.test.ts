@@ -10,6 +10,7 @@ import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
 import { simulateRun } from '../../bridge/sim/run.ts';
 import { SCENARIOS } from '../../bridge/sim/scenarios.ts';
 import { COMMANDED_CSV_HEADER, commandedCsvLine } from '../../bridge/sim/csv-sink.ts';
+import { startRecording } from '../../bridge/session/recorder.ts';
 import { Tracker } from '../../bridge/tracking/tracker.ts';
 import { TRACKS_CSV_HEADER, trackCsvLine } from '../../bridge/tracking/tracks-csv.ts';
 import { benchRun, commandedCsv, tracksCsv } from '../compare/bench-run.ts';
@@ -56,6 +57,20 @@ beforeAll(async () => {
   const cmd = [COMMANDED_CSV_HEADER];
   for (const c of sim.commanded) for (const p of c.points) cmd.push(commandedCsvLine(c.targetId, p));
   await writeFile(join(dir, 'sim.commanded.csv'), cmd.join('\n') + '\n');
+  // The same simulated run recorded as a session: positioner records and live track updates.
+  const rec = startRecording({ dir, fileName: 'sim.session.jsonl', name: 'sim' });
+  const tracker2 = new Tracker({});
+  const pos = sim.commanded.find((c) => c.targetId === 1)!.points;
+  let k = 0;
+  for (const d of sim.detections) {
+    while (k < pos.length && pos[k].timeS <= d.timeS) {
+      rec.record({ kind: 'positioner', sample: { timeS: pos[k].timeS, cmdX: pos[k].x, cmdY: pos[k].y } });
+      k++;
+    }
+    rec.record({ kind: 'detection', detection: d });
+    for (const u of tracker2.push(d).updates) rec.record({ kind: 'track', update: u });
+  }
+  await rec.close();
   await writeFile(join(dir, 'late.csv'), commandedCsv({ ...path, points: path.points.map((p) => ({ ...p, timeS: p.timeS + 500 })) }));
 });
 
@@ -95,6 +110,21 @@ describe('echotrail compare', () => {
     expect(s.multi_target.samples).toBeGreaterThan(100);
     expect(s.coverage.confirmed_fraction).toBeGreaterThan(0.5);
     expect(Math.abs(s.lag.lag_s)).toBeLessThan(1);
+  });
+
+  it('runs on a recorded session, taking the commanded path from its positioner records', async () => {
+    const out = join(dir, 'out-session');
+    const r = await capture(['--session', join(dir, 'sim.session.jsonl'), '--out', out]);
+    expect(r.err).toBe('');
+    expect(r.code).toBe(0);
+    const s = JSON.parse(await readFile(join(out, 'summary.json'), 'utf8'));
+    expect(s.inputs.commanded[0]).toMatch(/positioner records/);
+    // Same target, same tracker settings as the CSV run of target 1: the same followed rows.
+    const csv = await capture(['--tracks', join(dir, 'sim.tracks.csv'), '--commanded', join(dir, 'sim.commanded.csv'), '--target', '1', '--out', join(dir, 'out-sim1')]);
+    expect(csv.code).toBe(0);
+    const c = JSON.parse(await readFile(join(dir, 'out-sim1', 'summary.json'), 'utf8'));
+    expect(s.tracks.followed_rows).toBe(c.tracks.followed_rows);
+    expect(s.lag.lag_s).toBeCloseTo(c.lag.lag_s, 2);
   });
 
   it('accepts waypoints instead of a commanded CSV, with the same lag', async () => {
