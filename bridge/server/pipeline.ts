@@ -13,7 +13,9 @@ import type { BadLine, Source, SourceRecord, SourceState } from '../ingest/sourc
 import type { FixedEcho, TrackEngine, TrackerOutput } from '../types.ts';
 import type { ReplayState, ServerMessage, SourceStatus } from './protocol.ts';
 import { PROTOCOL_VERSION } from './protocol.ts';
-import { isReplayControl, type LiveComparisonLike, type RecorderLike, type ReplaySourceLike } from './deps.ts';
+import { isReplayControl, type LiveComparisonLike, type ReplaySourceLike } from './deps.ts';
+import { RecordingSlot, type OpenRecorder } from './recording.ts';
+import { SeekGate } from './seek-gate.ts';
 import { LiveState } from './state.ts';
 import { SourceStats } from './source-stats.ts';
 import { ScanBatch, type ScanMessage } from './scan-batch.ts';
@@ -26,7 +28,7 @@ export interface PipelineOptions {
   /** Builds a fresh tracking engine (also after a seek in a CSV replay). */
   createTracker: () => TrackEngine | Promise<TrackEngine>;
   /** Opens a recorder for a live source; null when the run is not recorded. */
-  createRecorder: ((source: Source, onError: (message: string) => void) => RecorderLike | Promise<RecorderLike>) | null;
+  createRecorder: OpenRecorder | null;
   /** Builds a live comparison, or null when none is available. */
   createComparison: (() => LiveComparisonLike) | null;
   /** Caps of the live state. */
@@ -40,34 +42,30 @@ export interface PipelineOptions {
 /** How often source status, replay state, fixed echoes and comparison figures are refreshed, ms. */
 const STATUS_MS = 1000;
 const REPLAY_MS = 250;
-/** Records queued during a re-track at most (a few seconds at the highest replay speeds). */
-const MAX_QUEUED = 200_000;
 
 export class Pipeline extends EventEmitter {
   readonly state: LiveState;
   readonly stats = new SourceStats();
   private source: Source | null = null;
   private tracker: TrackEngine | null = null;
-  private recorder: RecorderLike | null = null;
+  private readonly recording: RecordingSlot;
+  private readonly seek = new SeekGate();
   private comparison: LiveComparisonLike | null;
   private readonly batch: ScanBatch;
   private readonly timers: NodeJS.Timeout[] = [];
   private lastReplayJson = '';
   private fixedSignature = '';
   private sourceListeners: [string, (...a: never[]) => void][] = [];
-  /** Bumped on every seek and source change, so a rebuild that was overtaken is abandoned. */
-  private epoch = 0;
   trackerErrors = 0;
-  /** Records held back while a CSV replay is re-tracked after a seek (see onSeeked). */
-  private queue: [SourceRecord, number][] | null = null;
-  queueDropped = 0;
-  /** True between 'seeked' and the next turn of the event loop: the source re-sends its state. */
-  private resending = false;
 
   constructor(private readonly options: PipelineOptions) {
     super();
     this.state = new LiveState(options.state);
     this.comparison = options.createComparison ? options.createComparison() : null;
+    this.recording = new RecordingSlot(options.createRecorder, this.stats, options.log, (message) => {
+      this.emitMessage({ type: 'error', code: 'E_RECORDING', message });
+      this.emitMessage({ type: 'source', source: this.stats.status() });
+    });
     this.batch = new ScanBatch({
       rateHz: options.scanRateHz,
       maxDetections: 5000,
@@ -86,12 +84,10 @@ export class Pipeline extends EventEmitter {
 
   /** Replaces the input: the old source is closed, the state starts again, clients get a snapshot. */
   async setSource(source: Source): Promise<void> {
-    this.epoch++;
+    this.seek.begin(false, false);
     await this.detach();
     this.batch.discard();
     this.batch.release();
-    this.queue = null;
-    this.resending = false;
     this.state.reset();
     this.state.clearCommanded();
     this.comparison?.restart();
@@ -103,16 +99,7 @@ export class Pipeline extends EventEmitter {
     this.on2(source, 'state', (s: SourceState, detail?: string) => this.onState(s, detail));
     this.on2(source, 'seeked', (t: number) => this.onSeeked(t));
     this.on2(source, 'error', (e: Error) => this.options.log(`source ${source.name}: ${e.message}`));
-    if (this.options.createRecorder) {
-      try {
-        this.recorder = await this.options.createRecorder(source, (message) => this.recordingFailed(message));
-        this.stats.recording = this.recorder.name;
-      } catch (err) {
-        // A live view without a recording is still useful: say why and keep going.
-        this.stats.recordingError = (err as Error).message;
-        this.options.log(`recording disabled: ${(err as Error).message}`);
-      }
-    }
+    await this.recording.start(source);
     this.emit('resync');
     try {
       await source.start();
@@ -142,42 +129,13 @@ export class Pipeline extends EventEmitter {
       await old.close().catch((e: Error) => this.options.log(`closing ${old.name}: ${e.message}`));
     }
     this.sourceListeners = [];
-    if (this.recorder) await this.closeRecorder();
-  }
-
-  private async closeRecorder(): Promise<void> {
-    const rec = this.recorder;
-    this.recorder = null;
-    this.stats.recording = null;
-    await rec?.close().catch((e: Error) => this.options.log(`closing recording ${rec.name}: ${e.message}`));
-  }
-
-  private record(r: SourceRecord): void {
-    if (!this.recorder) return;
-    try {
-      this.recorder.write(r);
-    } catch (err) {
-      this.recordingFailed((err as Error).message);
-    }
-  }
-
-  /** Recording stopped (disk full, folder gone): say so everywhere; the live view carries on. */
-  private recordingFailed(message: string): void {
-    this.stats.recordingError = message;
-    this.options.log(`recording stopped: ${message}`);
-    void this.closeRecorder();
-    this.emitMessage({ type: 'error', code: 'E_RECORDING', message });
-    this.emitMessage({ type: 'source', source: this.stats.status() });
+    await this.recording.close();
   }
 
   private onRecord(r: SourceRecord, receivedAtMs: number): void {
-    if (this.queue) {
-      if (this.queue.length < MAX_QUEUED) this.queue.push([r, receivedAtMs]);
-      else this.queueDropped++;
-      return;
-    }
-    // A replay's re-sent state after a seek is already recorded (replays are not recorded anyway).
-    if (!this.resending) this.record(r);
+    if (this.seek.intercept(r, receivedAtMs)) return;
+    // A replay's re-sent state after a seek is not new: neither record nor stream it twice.
+    if (!this.seek.resending) this.recording.write(r);
     switch (r.kind) {
       case 'detection': {
         this.stats.detection(receivedAtMs);
@@ -225,12 +183,12 @@ export class Pipeline extends EventEmitter {
 
   private applyOutput(out: TrackerOutput, receivedAtMs: number | undefined, recordIt = true): void {
     for (const u of out.updates) {
-      if (recordIt) this.record({ kind: 'track', update: u });
+      if (recordIt) this.recording.write({ kind: 'track', update: u });
       this.comparison?.update(u);
       this.batch.update(this.state.addUpdate(u), receivedAtMs);
     }
     for (const d of out.deletions) {
-      if (recordIt) this.record({ kind: 'deletion', deletion: d });
+      if (recordIt) this.recording.write({ kind: 'deletion', deletion: d });
       this.comparison?.deletion(d);
       this.state.addDeletion(d);
       this.batch.deletion(d);
@@ -271,42 +229,32 @@ export class Pipeline extends EventEmitter {
     }, 250);
   }
 
-  /**
-   * A replay jumped. Sessions re-send the state at the new time synchronously right after
-   * 'seeked' (tracks, history window, fixed echoes): those records rebuild the state but are not
-   * streamed as increments. CSV replays are re-tracked from the start up to the new time; records
-   * the replay releases meanwhile wait in a queue so the tracker still sees time order. Then every
-   * client gets one fresh snapshot.
-   */
+  /** A replay jumped: rebuild the state at the new time (seek-gate.ts), then one fresh snapshot for all. */
   private onSeeked(timeS: number): void {
-    const epoch = ++this.epoch;
+    const retrack = this.tracker !== null;
+    const epoch = this.seek.begin(retrack, true);
     this.batch.discard();
     this.batch.hold();
     this.state.reset();
     this.comparison?.reset();
     this.fixedSignature = '';
-    this.resending = true;
-    const retrack = this.tracker !== null;
-    if (retrack) this.queue = [];
     setImmediate(() => void this.finishSeek(epoch, timeS, retrack));
   }
 
   private async finishSeek(epoch: number, timeS: number, retrack: boolean): Promise<void> {
-    if (epoch !== this.epoch) return;
-    this.resending = false;
+    if (!this.seek.isCurrent(epoch)) return;
+    this.seek.resending = false;
     const src = this.source;
     if (retrack && src && isReplayControl(src)) {
       try {
         this.tracker = await this.options.createTracker();
-        await rebuildAfterSeek(src, this.tracker, this.state, timeS, () => epoch !== this.epoch);
+        await rebuildAfterSeek(src, this.tracker, this.state, timeS, () => !this.seek.isCurrent(epoch));
       } catch (err) {
         // The replay goes on from the new position; only the picture before it is missing.
         this.options.log(`rebuilding state after seek to ${timeS} s: ${(err as Error).message}`);
       }
-      if (epoch !== this.epoch) return;
-      const queued = this.queue ?? [];
-      this.queue = null;
-      for (const [r, at] of queued) this.onRecord(r, at);
+      if (!this.seek.isCurrent(epoch)) return;
+      for (const [r, at] of this.seek.drain()) this.onRecord(r, at);
     }
     this.state.timeS = Math.max(this.state.timeS, timeS);
     this.batch.discard();
@@ -371,7 +319,7 @@ export class Pipeline extends EventEmitter {
   }
 
   async close(): Promise<void> {
-    this.epoch++;
+    this.seek.begin(false, false);
     for (const t of this.timers) clearInterval(t);
     if (this.statusTimer) clearTimeout(this.statusTimer);
     this.batch.close();
