@@ -1,8 +1,9 @@
 // Fixed-interval smoother: Rauch, Tung & Striebel, "Maximum likelihood estimates of linear dynamic
 // systems", AIAA Journal 3(8):1445–1450, 1965; notation of Bar-Shalom, Li & Kirubarajan,
 // "Estimation with Applications to Tracking and Navigation", 2001, §8.6.
+import kf from 'kalman-filter';
 import { describe, expect, it } from 'vitest';
-import { col, inverse, mul, zeros } from '../../bridge/compare/matrix.ts';
+import { add, col, inverse, mul, transpose, zeros } from '../../bridge/compare/matrix.ts';
 import { filterAndSmooth } from '../../bridge/compare/rts.ts';
 import { cvModel } from '../../bridge/compare/smoother.ts';
 
@@ -65,5 +66,29 @@ describe('filterAndSmooth, constant velocity without process noise', () => {
     });
     // The filter alone knows nothing of the velocity after one measurement; the smoother does.
     expect(Math.abs(r.filtered[0].x[2][0] - 0.3)).toBeGreaterThan(0.1);
+  });
+});
+
+describe('filterAndSmooth forward pass against an outside implementation', () => {
+  it('matches npm kalman-filter on a 1-D constant-velocity case', () => {
+    // kalman-filter predicts from its `init` before the first correction, so our prior (the
+    // predicted state at step 1) is F·init, F·P·Fᵀ + Q.
+    const F = [[1, 0.5], [0, 1]];
+    const Q = [[0.01, 0.02], [0.02, 0.08]];
+    const R = [[0.04]];
+    const H = [[1, 0]];
+    const init = { mean: [[0], [0]], covariance: [[100, 0], [0, 1]] };
+    const obs = [0.1, 0.35, 0.52, 0.8, 1.05, 1.21, 1.55];
+    const ref = new kf.KalmanFilter({
+      observation: { dimension: 1, stateProjection: H, covariance: R },
+      dynamic: { dimension: 2, transition: F, covariance: Q, init },
+    }).filterAll(obs.map((z) => [z]));
+    const x0 = mul(F, init.mean);
+    const P0 = add(mul(mul(F, init.covariance), transpose(F)), Q);
+    const mine = filterAndSmooth(x0, P0, obs.map((z) => ({ F, Q, H, R, z: [[z]] })));
+    mine.filtered.forEach((f, k) => {
+      expect(f.x[0][0]).toBeCloseTo(ref[k][0], 9);
+      expect(f.x[1][0]).toBeCloseTo(ref[k][1], 9);
+    });
   });
 });
