@@ -1,0 +1,41 @@
+/** Shared pieces of the `calibrate` and `tune` commands: reading inputs, printing, exit codes. */
+import { CommanderError, InvalidArgumentError, type Command } from 'commander';
+import { EchotrailError } from '../errors.ts';
+import { formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
+import type { Detection } from '../types.ts';
+
+/** All detections of a (calibration-sized) CSV, with the skipped-row report on stderr. */
+export async function readAllDetections(path: string): Promise<Detection[]> {
+  const reader = readDetectionsCsv(path);
+  const out: Detection[] = [];
+  for await (const batch of reader.batches()) for (const d of batch) out.push(d);
+  const skipped = formatSkipReport(reader.report);
+  if (skipped) process.stderr.write(`${path}: ${skipped}\n`);
+  return out;
+}
+
+export const numberArg = (v: string): number => {
+  const n = Number(v);
+  if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('not a number');
+  return n;
+};
+
+/** Parses a command, runs it, and maps errors to exit codes: 0 ok, 1 user-facing failure, 2 usage. */
+export async function runCommand(cmd: Command, argv: string[], body: (opts: Record<string, unknown>) => Promise<number>, name: string): Promise<number> {
+  cmd.exitOverride().configureOutput({ writeOut: (s) => process.stdout.write(s), writeErr: (s) => process.stderr.write(s) });
+  try {
+    cmd.parse(argv, { from: 'user' });
+  } catch (err) {
+    if (err instanceof CommanderError) return err.exitCode === 0 ? 0 : 2;
+    throw err;
+  }
+  try {
+    return await body(cmd.opts());
+  } catch (err) {
+    if (err instanceof EchotrailError) {
+      process.stderr.write(`echotrail ${name}: ${err.message}\n`);
+      return 1;
+    }
+    throw err;
+  }
+}

@@ -1,0 +1,110 @@
+/**
+ * `echotrail calibrate offsets|frame`: fits the radar's range/azimuth offsets from a reflector at
+ * tape-measured positions, or the positioner frame from a run and its commanded path, and saves
+ * the result into the bench config (bridge/calibrate/bench-config.ts) unless --dry-run.
+ * A failed fit saves nothing.
+ */
+import { Command, InvalidArgumentError } from 'commander';
+import { loadBenchConfig, saveBenchConfig, withCalibration, correctDetection } from '../calibrate/bench-config.ts';
+import { alignFrame } from '../calibrate/frame-align.ts';
+import { fitRadarOffsets, type ReflectorPosition } from '../calibrate/offsets.ts';
+import { parseTracksById, readPathCsv, type TimedPoint } from '../calibrate/path.ts';
+import { formatSummary, frameRecord, frameSummary, offsetsRecord, offsetsSummary } from '../calibrate/report.ts';
+import { numberArg, readAllDetections, runCommand } from '../calibrate/cli-common.ts';
+import { EchotrailError } from '../errors.ts';
+import { readFile } from 'node:fs/promises';
+
+const DEG = Math.PI / 180;
+
+const reflector = (v: string, prev: ReflectorPosition[] = []): ReflectorPosition[] => {
+  const [x, y, label, from, to] = v.split(',');
+  const p: ReflectorPosition = { x: Number(x), y: Number(y), ...(label ? { label } : {}), ...(from ? { fromS: Number(from) } : {}), ...(to ? { toS: Number(to) } : {}) };
+  if (!Number.isFinite(p.x) || !Number.isFinite(p.y) || (from && !Number.isFinite(p.fromS)) || (to && !Number.isFinite(p.toS))) throw new InvalidArgumentError('expected x,y[,label[,from_s,to_s]] in metres and seconds, e.g. 0.5,1.5,A');
+  return [...prev, p];
+};
+
+function common(cmd: Command): Command {
+  return cmd
+    .option('--config <file>', 'bench config JSON to read and update (created when missing)', 'bench.json')
+    .option('--by <who>', 'who or what measured it, stored in the config history', process.env.USER ?? 'unknown')
+    .option('--dry-run', 'fit and print, save nothing');
+}
+
+function offsetsCommand(): Command {
+  return common(new Command('echotrail calibrate offsets'))
+    .description('Fit range offset, range scale and azimuth offset from detections of a reflector at tape-measured positions (radar frame: x across, y along the antenna zero, metres).')
+    .requiredOption('--detections <file>', 'detections CSV of the calibration run(s) (time_s,azimuth_deg,range_m,amplitude)')
+    .option('--reflector <x,y[,label[,from_s,to_s]]>', 'a tape-measured position, metres; repeat for each; from/to limit it to a time span, s', reflector, [])
+    .option('--fit-scale <mode>', 'auto (when distances span ≥ 0.5 m), yes or no', 'auto')
+    .option('--gate-range <m>', 'first range gate around each position, metres', numberArg, 0.5)
+    .option('--gate-azimuth <deg>', 'first azimuth gate around each position, degrees', numberArg, 10);
+}
+
+function frameCommand(): Command {
+  return common(new Command('echotrail calibrate frame'))
+    .description('Fit the positioner frame (rotation + translation into the radar frame) from a run and its commanded path.')
+    .requiredOption('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id])')
+    .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
+    .option('--detections <file>', 'detections CSV of the run (corrected with the config\'s offsets, gated around the path)')
+    .option('--tracks <file>', 'or a tracks CSV from echotrail track (time_s,track_id,x_m,y_m): the longest track is used')
+    .option('--track-id <n>', 'use this track id instead of the longest', numberArg)
+    .option('--gate <m>', 'first gate radius around the path as currently aligned, metres', numberArg, 0.5)
+    .option('--allow-line', 'accept a straight commanded path (tracking lag then shifts the translation along it)');
+}
+
+async function offsets(o: Record<string, unknown>): Promise<number> {
+  const positions = o.reflector as ReflectorPosition[];
+  if (positions.length === 0) throw new EchotrailError('E_OPTION', 'give at least one --reflector x,y (tape-measured, metres)');
+  const mode = String(o.fitScale);
+  if (!['auto', 'yes', 'no'].includes(mode)) throw new EchotrailError('E_OPTION', `--fit-scale must be auto, yes or no (got '${mode}')`);
+  const config = await loadBenchConfig(o.config as string, true);
+  const dets = await readAllDetections(o.detections as string);
+  const fit = fitRadarOffsets(positions, dets, { fitScale: mode === 'auto' ? 'auto' : mode === 'yes', gateRangeM: o.gateRange as number, gateAzimuthDeg: o.gateAzimuth as number });
+  process.stdout.write(formatSummary('radar offsets (measured = scale·true + offset):', offsetsSummary(fit)) + '\n');
+  for (const r of fit.reflectors) {
+    process.stdout.write(`  ${r.label}: ${r.detections} detections at ${r.trueRangeM.toFixed(3)} m, residual range ${(r.meanRangeResidualM * 1000).toFixed(1)} ± ${(r.stdRangeResidualM * 1000).toFixed(1)} mm, azimuth ${(r.meanAzimuthResidualRad / DEG).toFixed(3)} ± ${(r.stdAzimuthResidualRad / DEG).toFixed(3)}°\n`);
+  }
+  if (o.dryRun) return 0;
+  const now = new Date().toISOString();
+  const next = withCalibration(config, { radar: { ...config.radar, rangeOffsetM: fit.rangeOffsetM, rangeScale: fit.rangeScale, azimuthOffsetDeg: fit.azimuthOffsetRad / DEG } }, offsetsRecord(fit, o.by as string, now, positions.length));
+  await saveBenchConfig(o.config as string, next);
+  process.stdout.write(`saved to ${o.config as string}\n`);
+  return 0;
+}
+
+async function frame(o: Record<string, unknown>): Promise<number> {
+  const config = await loadBenchConfig(o.config as string, true);
+  const commanded = await readPathCsv(o.commanded as string, { id: o.targetId as number | undefined });
+  let observed: TimedPoint[];
+  let initial: { rotationRad: number; translation: { x: number; y: number } } | null = null;
+  if (o.tracks) {
+    const byId = parseTracksById(await readFile(o.tracks as string, 'utf8'), o.tracks as string);
+    const id = (o.trackId as number | undefined) ?? [...byId.entries()].sort((a, b) => b[1].length - a[1].length)[0][0];
+    const t = byId.get(id);
+    if (!t) throw new EchotrailError('E_OPTION', `no track ${id} in ${o.tracks as string} (ids: ${[...byId.keys()].slice(0, 10).join(', ')})`);
+    observed = t;
+  } else if (o.detections) {
+    observed = (await readAllDetections(o.detections as string)).map((d) => correctDetection(d, config)).map((d) => ({ timeS: d.timeS, x: d.rangeM * Math.sin(d.azimuthRad), y: d.rangeM * Math.cos(d.azimuthRad) }));
+    initial = { rotationRad: config.positionerFrame.rotationDeg * DEG, translation: config.positionerFrame.translationM };
+  } else throw new EchotrailError('E_OPTION', 'give --detections or --tracks');
+  const fit = alignFrame(observed, commanded, { initial, gateM: o.gate as number, allowCollinear: Boolean(o.allowLine) });
+  process.stdout.write(formatSummary('positioner → radar frame (p_radar = R·p + t, R counter-clockwise):', frameSummary(fit)) + '\n');
+  if (o.dryRun) return 0;
+  const next = withCalibration(config, { positionerFrame: { rotationDeg: fit.rotationRad / DEG, translationM: fit.translation } }, frameRecord(fit, o.by as string, new Date().toISOString()));
+  await saveBenchConfig(o.config as string, next);
+  process.stdout.write(`saved to ${o.config as string}\n`);
+  return 0;
+}
+
+export async function run(argv: string[]): Promise<number> {
+  const [sub, ...rest] = argv;
+  if (sub === 'offsets') return runCommand(offsetsCommand(), rest, offsets, 'calibrate offsets');
+  if (sub === 'frame') return runCommand(frameCommand(), rest, frame, 'calibrate frame');
+  const usage = 'usage: echotrail calibrate offsets|frame [options]   (echotrail calibrate <kind> --help for the options)\n';
+  if (sub === '--help' || sub === '-h') {
+    process.stdout.write(usage);
+    return 0;
+  }
+  process.stderr.write(usage);
+  return 2;
+}

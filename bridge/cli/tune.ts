@@ -1,0 +1,63 @@
+/**
+ * `echotrail tune`: from a recorded run and its commanded path, estimates σ_range, σ_azimuth and
+ * the process noise that makes the filter consistent (NIS), prints the innovation statistics and
+ * writes a named tracker profile (bridge/tracking/profile.ts format) for `track --profile`.
+ */
+import { Command } from 'commander';
+import { loadBenchConfig, saveBenchConfig, withCalibration } from '../calibrate/bench-config.ts';
+import { describeNis } from '../calibrate/nis.ts';
+import { tuneNoise } from '../calibrate/noise-tuning.ts';
+import { readPathCsv } from '../calibrate/path.ts';
+import { profilePath, saveTrackerProfile, tunedProfile } from '../calibrate/profile-out.ts';
+import { noiseRecord } from '../calibrate/report.ts';
+import { numberArg, readAllDetections, runCommand } from '../calibrate/cli-common.ts';
+import { EchotrailError } from '../errors.ts';
+
+const DEG = Math.PI / 180;
+
+function command(): Command {
+  return new Command('echotrail tune')
+    .description('Estimate measurement and process noise from a run with a known commanded path and write a tracker profile.')
+    .requiredOption('--detections <file>', 'detections CSV of the run (time_s,azimuth_deg,range_m,amplitude)')
+    .requiredOption('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id])')
+    .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
+    .requiredOption('--name <name>', 'profile name (letters, digits, . _ -): written to <profile-dir>/<name>.json')
+    .option('--profile-dir <dir>', 'folder of tracker profiles', 'profiles')
+    .option('--config <file>', 'bench config with offsets and frame (read; the noise figures are added to its history)', 'bench.json')
+    .option('--filter <kind>', 'filter to tune: kalman (σ_a, m/s²) or imm (both levels scaled)', 'kalman')
+    .option('--gate <m>', 'association radius around the commanded position, metres', numberArg, 0.4)
+    .option('--by <who>', 'who or what tuned it, stored in the profile and the config history', process.env.USER ?? 'unknown')
+    .option('--dry-run', 'estimate and print, write nothing');
+}
+
+async function body(o: Record<string, unknown>): Promise<number> {
+  const filter = String(o.filter);
+  if (filter !== 'kalman' && filter !== 'imm') throw new EchotrailError('E_OPTION', `--filter must be kalman or imm (got '${filter}')`);
+  const path = profilePath(o.name as string, o.profileDir as string);
+  const config = await loadBenchConfig(o.config as string, true);
+  const commanded = await readPathCsv(o.commanded as string, { id: o.targetId as number | undefined });
+  const dets = await readAllDetections(o.detections as string);
+  const r = tuneNoise(dets, commanded, config, { filter, gateM: o.gate as number });
+  const ci = (v: [number, number], k = 1) => `[${(v[0] * k).toFixed(4)}, ${(v[1] * k).toFixed(4)}]`;
+  const lines = [
+    `associated detections: ${r.samples}`,
+    `σ_range    ${r.sigmaRangeM.toFixed(4)} m   95% CI ${ci(r.sigmaRangeCiM)} m   (bias ${(r.rangeBiasM * 1000).toFixed(1)} mm)`,
+    `σ_azimuth  ${(r.sigmaAzimuthRad / DEG).toFixed(4)}°   95% CI ${ci(r.sigmaAzimuthCiRad, 1 / DEG)}°   (bias ${(r.azimuthBiasRad / DEG).toFixed(3)}°)`,
+    `process noise: ${JSON.stringify(r.filter)}`,
+    `tuned:    ${describeNis(r.nisTuned)}`,
+    `defaults: ${describeNis(r.nisDefault)}`,
+  ];
+  process.stdout.write(lines.join('\n') + '\n');
+  const now = new Date().toISOString();
+  const { profile, warnings } = tunedProfile(r, config, { name: o.name as string, measuredBy: o.by as string, run: o.detections as string, dateUtc: now });
+  for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
+  if (o.dryRun) return 0;
+  await saveTrackerProfile(path, profile);
+  await saveBenchConfig(o.config as string, withCalibration(config, { radar: { ...config.radar, sigmaRangeM: r.sigmaRangeM, sigmaAzimuthDeg: r.sigmaAzimuthRad / DEG } }, noiseRecord(r, o.by as string, now)));
+  process.stdout.write(`profile written to ${path}; use: echotrail track --profile ${path}\n`);
+  return 0;
+}
+
+export async function run(argv: string[]): Promise<number> {
+  return runCommand(command(), argv, body, 'tune');
+}

@@ -1,0 +1,97 @@
+import { describe, expect, it } from 'vitest';
+import { fitRadarOffsets, type ReflectorPosition } from '../../bridge/calibrate/offsets.ts';
+import { simulateRun } from '../../bridge/sim/run.ts';
+import type { ScenarioOptions } from '../../bridge/sim/scenario.ts';
+import { hasCode } from '../../bridge/errors.ts';
+
+const DEG = Math.PI / 180;
+const SPOTS: ReflectorPosition[] = [{ x: 0.5, y: 1.5, label: 'A' }, { x: -1.0, y: 3.0, label: 'B' }, { x: 1.2, y: 4.8, label: 'C' }];
+
+/** An invented calibration session: three corner reflectors, a cable-joint echo, some clutter. */
+function bench(seed: number, extra: Partial<ScenarioOptions> = {}): ScenarioOptions {
+  return {
+    seed, durationS: 60, rangeOffsetM: 0.12, rangeScale: 1.004, azimuthOffsetDeg: 2, falseAlarmRateHz: 1,
+    fixedEchoes: [{ x: 0.1, y: 0.6 }],
+    targets: SPOTS.map((s) => ({ trajectory: { kind: 'static' as const, at: { x: s.x, y: s.y } } })),
+    ...extra,
+  };
+}
+
+function failure(f: () => unknown): unknown {
+  try {
+    f();
+  } catch (e) {
+    return e;
+  }
+  return null;
+}
+
+describe('fitRadarOffsets on a simulated bench', () => {
+  it('recovers range offset, scale and azimuth offset within 3 reported standard errors', () => {
+    const fit = fitRadarOffsets(SPOTS, simulateRun(bench(1)).detections);
+    expect(fit.scaleFitted).toBe(true);
+    expect(Math.abs(fit.rangeOffsetM - 0.12)).toBeLessThan(3 * fit.rangeOffsetSeM);
+    expect(Math.abs(fit.rangeScale - 1.004)).toBeLessThan(3 * fit.rangeScaleSe);
+    expect(Math.abs(fit.azimuthOffsetRad - 2 * DEG)).toBeLessThan(3 * fit.azimuthOffsetSeRad);
+    expect(fit.reflectors.map((r) => r.label)).toEqual(['A', 'B', 'C']);
+    expect(fit.sigmaRangeM).toBeGreaterThan(0.04);
+    expect(fit.sigmaRangeM).toBeLessThan(0.06);
+  });
+
+  it('its standard errors are honest: z-scores over 30 seeds have unit spread', () => {
+    // If the errors are right, (estimate − truth)/se is ~N(0, 1); the sample std of 30 such
+    // values lies in [0.7, 1.3] with probability ≈ 0.97 (χ²(29) quantiles, common practice).
+    const zr: number[] = [];
+    const za: number[] = [];
+    for (let seed = 100; seed < 130; seed++) {
+      const f = fitRadarOffsets(SPOTS, simulateRun(bench(seed)).detections);
+      zr.push((f.rangeOffsetM - 0.12) / f.rangeOffsetSeM);
+      za.push((f.azimuthOffsetRad - 2 * DEG) / f.azimuthOffsetSeRad);
+    }
+    const sd = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / v.length);
+    expect(sd(zr)).toBeGreaterThan(0.6);
+    expect(sd(zr)).toBeLessThan(1.4);
+    expect(sd(za)).toBeGreaterThan(0.6);
+    expect(sd(za)).toBeLessThan(1.4);
+  });
+
+  it('one distance: offset only; insisting on a scale is refused', () => {
+    const one = [SPOTS[1]];
+    const dets = simulateRun(bench(2, { rangeScale: 1, targets: [{ trajectory: { kind: 'static', at: { x: -1, y: 3 } } }] })).detections;
+    const fit = fitRadarOffsets(one, dets);
+    expect(fit.scaleFitted).toBe(false);
+    expect(fit.rangeScale).toBe(1);
+    expect(Math.abs(fit.rangeOffsetM - 0.12)).toBeLessThan(3 * fit.rangeOffsetSeM);
+    const err = failure(() => fitRadarOffsets(one, dets, { fitScale: true }));
+    expect(hasCode(err, 'E_CALIBRATION')).toBe(true);
+    expect((err as Error).message).toMatch(/two or more distances.*nothing was saved/);
+  });
+
+  it('reflectors at one distance but different azimuths give no scale either', () => {
+    const ring = [{ x: 0, y: 3 }, { x: 3 * Math.sin(0.5), y: 3 * Math.cos(0.5) }];
+    const dets = simulateRun(bench(3, { targets: ring.map((at) => ({ trajectory: { kind: 'static' as const, at } })) })).detections;
+    expect(fitRadarOffsets(ring, dets).scaleFitted).toBe(false);
+  });
+
+  it('no detections near an entered position: a message naming it and the nearest detection', () => {
+    const wrong = [...SPOTS, { x: 2.5, y: 0.3, label: 'D' }];
+    const err = failure(() => fitRadarOffsets(wrong, simulateRun(bench(4, { falseAlarmRateHz: 0 })).detections));
+    expect(hasCode(err, 'E_CALIBRATION')).toBe(true);
+    expect((err as Error).message).toMatch(/of D .*nearest detection/);
+    // With clutter a stray false alarm may fall in the wide gate: still refused, by count.
+    const busy = failure(() => fitRadarOffsets(wrong, simulateRun(bench(4, { falseAlarmRateHz: 5 })).detections));
+    expect(hasCode(busy, 'E_CALIBRATION')).toBe(true);
+    expect((busy as Error).message).toMatch(/ D/);
+    expect(hasCode(failure(() => fitRadarOffsets([], [])), 'E_CALIBRATION')).toBe(true);
+  });
+
+  it('time spans separate placements of one reflector moved during a run', () => {
+    const run = simulateRun({
+      seed: 5, durationS: 60, rangeOffsetM: 0.12, rangeScale: 1, azimuthOffsetDeg: 2, falseAlarmRateHz: 0,
+      targets: [{ trajectory: { kind: 'waypoints', speedMps: 1, points: [{ x: 0, y: 2, dwellS: 25 }, { x: 0, y: 4 }] } }],
+    });
+    const fit = fitRadarOffsets([{ x: 0, y: 2, toS: 24 }, { x: 0, y: 4, fromS: 28 }], run.detections);
+    expect(fit.reflectors.map((r) => r.detections).every((n) => n > 15)).toBe(true);
+    expect(Math.abs(fit.rangeScale - 1)).toBeLessThan(3 * fit.rangeScaleSe);
+  });
+});
