@@ -34,7 +34,7 @@ function program(): Command {
     .option('--waypoints <file>', 'waypoints with speeds instead of --commanded: JSON {"start_s", "waypoints": [{x_m, y_m, speed_mps, dwell_s}]} or CSV x_m,y_m,speed_mps,dwell_s')
     .option('--target <id>', 'with a target_id column in --commanded: the target compared with the followed track (default: the first in the file)')
     .option('--frame-rotation <deg>', 'commanded positions are in the positioner frame turned this much counter-clockwise from the radar frame, degrees', num('frame-rotation'), 0)
-    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres', pair, [0, 0])
+    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default: 0,0)', pair)
     .option('--session <file>', 'recorded session (.session.jsonl): its track updates, and its commanded path unless --commanded/--waypoints is given')
     .addOption(new Option('--session-path <source>', 'which session records give the commanded path').choices(['auto', 'commanded', 'positioner']).default('auto'))
     .requiredOption('--out <dir>', 'output folder (created if missing)')
@@ -64,13 +64,15 @@ function pair(v: string): [number, number] {
 }
 
 interface Parsed {
-  tracks?: string; commanded?: string[]; waypoints?: string; target?: string; frameRotation: number; frameTranslation: [number, number]; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
+  tracks?: string; commanded?: string[]; waypoints?: string; target?: string; frameRotation: number; frameTranslation?: [number, number]; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
   followGate: number; release?: number; followStale: number; switchMargin: number; maxLag: number; lagStep: number; smootherQ: number; corner: number;
   cutoff: number; order: number; setStep: number; maxAge: number; minOverlap: number; maxRange: number; maxSpeed: number;
 }
 
 /** Run the subcommand; returns the exit code. */
 export async function run(argv: string[]): Promise<number> {
+  // `echotrail compare --help | head`: a closed pipe is not an error worth a stack trace.
+  if (process.stdout.listenerCount('error') === 0) process.stdout.on('error', (e: NodeJS.ErrnoException) => { if (e.code !== 'EPIPE') throw e; });
   const cmd = program().exitOverride().configureOutput({ writeErr: (s) => process.stderr.write(s) });
   let o: Parsed;
   try {
@@ -132,7 +134,8 @@ async function compare(o: Parsed): Promise<number> {
     if (paths.length === 0) throw new EchotrailError('E_OPTION', 'give the commanded path: --commanded PATH.csv or --waypoints FILE');
     rows = await readTracksCsv(o.tracks!, units);
   }
-  const frame: FrameTransform = { rotationRad: (o.frameRotation * Math.PI) / 180, tx: o.frameTranslation[0], ty: o.frameTranslation[1] };
+  const [tx, ty] = o.frameTranslation ?? [0, 0];
+  const frame: FrameTransform = { rotationRad: (o.frameRotation * Math.PI) / 180, tx, ty };
   paths = paths.map((p) => pathToRadarFrame(p, frame));
   const analysis = analyse(paths, rows, {
     follow: { gateM: o.followGate, staleS: o.followStale, switchMarginM: o.switchMargin, releaseM: o.release },
@@ -151,7 +154,7 @@ async function compare(o: Parsed): Promise<number> {
   const s = analysis.whole.smoothed;
   const fix = (v: number | null | undefined, d = 3) => (v === null || v === undefined ? '–' : v.toFixed(d));
   process.stdout.write(
-    `lag ${fix(analysis.lag.lagS)} s · position RMSE ${fix(f.noLag.position.rmse)} m raw, ${fix(f.aligned.position.rmse)} m lag removed, ${fix(s?.aligned.position.rmse)} m smoothed · ` +
+    `lag ${fix(analysis.lag.lagS)} s · position RMSE ${fix(f.noLag.position.rmse)} m raw, ${fix(f.aligned.position.rmse)} m lag removed, ${s ? `${fix(s.aligned.position.rmse)} m smoothed` : 'no smoothing (no measurement columns)'} · ` +
       `confirmed ${fix(analysis.coverage.confirmedFraction * 100, 1)} % · mean GOSPA ${fix(analysis.setSummary.meanGospaM)} m\n`,
   );
   for (const w of warnings) process.stderr.write(`echotrail compare: warning: ${w}\n`);
