@@ -5,6 +5,8 @@
  */
 import { afterEach, describe, expect, it } from 'vitest';
 import { get } from 'node:http';
+import { connect as connectTcp } from 'node:net';
+import { randomBytes } from 'node:crypto';
 import WebSocket from 'ws';
 import { startBridge, type RunningBridge } from '../../bridge/server/bridge.ts';
 import type { BridgeOptions } from '../../bridge/server/options.ts';
@@ -128,6 +130,33 @@ describe('access', () => {
   it('answers 404 for upgrades on other paths', async () => {
     const { b } = await start();
     expect(await refusedStatus(`ws://127.0.0.1:${b.port}/socket`)).toBe(404);
+  });
+});
+
+describe('dead and surplus clients', () => {
+  it('drops a client that completes the upgrade but never answers pings', async () => {
+    const { b } = await start({ pingIntervalMs: 100 });
+    const sock = connectTcp(b.port, '127.0.0.1');
+    await new Promise<void>((r) => sock.once('connect', () => r()));
+    sock.write(`GET /ws HTTP/1.1\r\nHost: 127.0.0.1:${b.port}\r\nUpgrade: websocket\r\nConnection: Upgrade\r\nSec-WebSocket-Key: ${randomBytes(16).toString('base64')}\r\nSec-WebSocket-Version: 13\r\n\r\n`);
+    let head = '';
+    sock.on('data', (d: Buffer) => (head += d.toString('latin1')));
+    const closed = new Promise<void>((r) => sock.once('close', () => r()));
+    sock.on('error', () => undefined);
+    const alive = await connect(b.wsUrl);
+    await closed;
+    expect(head.startsWith('HTTP/1.1 101')).toBe(true);
+    expect(b.stats().dropped).toBeGreaterThanOrEqual(1);
+    // The ws client answers pings by itself and stays.
+    await sleep(300);
+    expect(alive.ws.readyState).toBe(WebSocket.OPEN);
+  });
+
+  it('refuses clients beyond maxClients with 503', async () => {
+    const { b } = await start({ maxClients: 2 });
+    await connect(b.wsUrl);
+    await connect(b.wsUrl);
+    expect(await refusedStatus(b.wsUrl)).toBe(503);
   });
 });
 
