@@ -6,7 +6,7 @@
 import { EchotrailError } from '../errors.ts';
 import { coverageOf, type Coverage } from './coverage.ts';
 import { deviations, type Deviation } from './deviation.ts';
-import { TrackFollower, type FollowOptions, type FollowSwitch } from './follow.ts';
+import { resolveFollowOptions, TrackFollower, type FollowOptions, type FollowSwitch } from './follow.ts';
 import { estimateLag, type LagEstimate, type LagOptions } from './lag.ts';
 import { findLegs, type Leg, type LegOptions } from './legs.ts';
 import { resolveMultiOptions, setMetricSeries, summariseSetSeries, type MultiOptions, type SetSample, type SetSummary } from './multi.ts';
@@ -114,7 +114,7 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
   checkOverlap(path, rows, o.minOverlap);
   let chosen = follow(path, rows, 0, o.follow);
   if (chosen.rows.length < 2) {
-    throw new EchotrailError('E_PATH', `no confirmed track came within ${o.follow.gateM ?? 1} m of the commanded path; check the frame (calibration) or widen the follow gate`);
+    throw new EchotrailError('E_PATH', `no confirmed track came within ${resolveFollowOptions(o.follow).gateM} m of the commanded path; check the frame (calibration) or widen the follow gate`);
   }
   const lag = estimateLag(path, chosen.rows, o.lag);
   const lagS = lag.lagS ?? 0;
