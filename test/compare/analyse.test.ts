@@ -55,4 +55,9 @@ describe('analyse', () => {
       expect((e as EchotrailError).message).toMatch(/time ranges do not match.*commanded times look like milliseconds/);
     }
   });
+
+  it('says so when no track comes near the commanded path (wrong frame, wrong file)', () => {
+    const far = run.rows.map((r) => ({ ...r, x: r.x + 5 }));
+    expect(() => analyse([path], far)).toThrow(/no confirmed track came within 1 m of the commanded path/);
+  });
 });
