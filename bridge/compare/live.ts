@@ -66,13 +66,17 @@ export class LiveComparison {
     this.follower = new TrackFollower(this.o.follow);
   }
 
-  /** Replace the commanded path (points in time order, validated); clears the figures. */
+  /** Replace the commanded path (points in time order, validated); clears the figures, keeps waiting updates. */
   setCommanded(path: readonly PathPoint[] | TimedPath): void {
+    // Updates that came before the path are kept and compared once it is here.
+    const waiting = this.pending;
     this.reset();
+    this.pending = waiting;
     const pts = 'points' in path ? path.points : path;
     // Own copies: positioner samples appended later extend this path in place.
     this.path = makeTimedPath(pts.map((p) => ({ ...p })), 'commanded path');
     this.raw = this.path.points;
+    this.flushPending();
   }
 
   /** Append one positioner record to the commanded path (resends and repeated holds are folded). */

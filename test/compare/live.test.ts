@@ -66,6 +66,14 @@ describe('LiveComparison', () => {
     expect(f.rmseM!).toBeLessThan(0.3);
   });
 
+  it('compares updates that arrived before the commanded path once it comes', () => {
+    const live = new LiveComparison({ maxPending: 1000 });
+    for (const r of run.rows) live.update(toUpdate(r));
+    expect(live.figures().samples).toBe(0);
+    live.setCommanded(path);
+    expect(live.figures().samples).toBe(run.rows.filter((r) => r.id === 1 && r.status !== 'tentative').length);
+  });
+
   it('reset clears the figures but keeps the path', () => {
     const live = new LiveComparison();
     live.setCommanded(path);
