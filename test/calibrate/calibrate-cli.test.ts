@@ -1,0 +1,39 @@
+// Tests bridge/cli/calibrate.ts and bridge/calibrate/cli-common.ts.
+import { mkdtemp, readFile, stat } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { run as calibrate } from '../../bridge/cli/calibrate.ts';
+import { run as simulate } from '../../bridge/cli/simulate.ts';
+import { loadBenchConfig } from '../../bridge/calibrate/bench-config.ts';
+
+describe('echotrail calibrate', () => {
+  it('offsets then frame, saved into the bench config with history', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-calcli-'));
+    const config = join(dir, 'bench.json');
+    expect(await simulate(['--scenario', 'tape-points', '--out', join(dir, 'tape.csv')])).toBe(0);
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5,A', '--reflector', '-1,3,B', '--reflector', '1.2,4.8,C', '--config', config, '--by', 'cli test'])).toBe(0);
+    const c1 = await loadBenchConfig(config);
+    expect(Math.abs(c1.radar.azimuthOffsetDeg - 2)).toBeLessThan(0.5);
+    expect(c1.history[0].measuredBy).toBe('cli test');
+    expect(await simulate(['--scenario', 'offsets-check', '--out', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv')])).toBe(0);
+    expect(await calibrate(['frame', '--detections', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv'), '--config', config])).toBe(0);
+    const c2 = await loadBenchConfig(config);
+    expect(Math.abs(c2.positionerFrame.rotationDeg - 3)).toBeLessThan(1.5);
+    expect(c2.history.map((h) => h.kind)).toEqual(['offsets', 'frame']);
+  });
+
+  it('a failed fit saves nothing and exits 1; bad usage exits 2', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-calcli-'));
+    const config = join(dir, 'bench.json');
+    expect(await simulate(['--scenario', 'tape-points', '--out', join(dir, 'tape.csv')])).toBe(0);
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '2.5,0.3', '--config', config])).toBe(1);
+    await expect(stat(config)).rejects.toThrow();
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5', '--fit-scale', 'yes', '--config', config])).toBe(1);
+    await expect(stat(config)).rejects.toThrow();
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', 'one,two'])).toBe(2);
+    expect(await calibrate(['sideways'])).toBe(2);
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5', '--dry-run', '--config', config])).toBe(0);
+    await expect(readFile(config, 'utf8')).rejects.toThrow();
+  });
+});
