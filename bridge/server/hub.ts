@@ -41,6 +41,12 @@ const CHECK_MS = 50;
 class Client {
   lagSince: number | null = null;
   alive = true;
+  /**
+   * Bytes of the last snapshot that may still be queued. A snapshot can be larger than the lag
+   * threshold by itself; without this allowance a client would lag on every snapshot, get another
+   * on catching up, and never see a scan.
+   */
+  allowance = 0;
   constructor(readonly ws: WebSocket) {}
 }
 
@@ -68,7 +74,12 @@ export class Hub {
     // Errors (1009 oversized frame, resets) close the socket; the close handler tidies up.
     ws.on('error', () => undefined);
     this.sendNow(c, this.o.hello());
-    this.sendNow(c, this.o.snapshot());
+    this.sendSnapshot(c, Buffer.from(JSON.stringify(this.o.snapshot())));
+  }
+
+  private sendSnapshot(c: Client, buf: Buffer): void {
+    c.allowance = buf.length;
+    this.sendNow(c, buf);
   }
 
   private remove(c: Client): void {
@@ -90,7 +101,7 @@ export class Hub {
     const buf = Buffer.from(JSON.stringify(msg));
     const now = Date.now();
     for (const c of this.clients) {
-      if (c.lagSince === null && c.ws.bufferedAmount > this.o.maxBufferedBytes) c.lagSince = now;
+      if (c.lagSince === null && c.ws.bufferedAmount > this.o.maxBufferedBytes + c.allowance) c.lagSince = now;
       if (c.lagSince !== null) {
         if (msg.type === 'scan') this.stats.scansSkipped++;
         continue;
@@ -101,7 +112,9 @@ export class Hub {
 
   /** Everyone gets a fresh snapshot (the state was rebuilt). */
   resync(): void {
-    for (const c of this.clients) if (c.lagSince === null) this.sendNow(c, this.o.snapshot());
+    if (this.clients.size === 0) return;
+    const buf = Buffer.from(JSON.stringify(this.o.snapshot()));
+    for (const c of this.clients) if (c.lagSince === null) this.sendSnapshot(c, buf);
   }
 
   private reply(c: Client, msg: ServerMessage): void {
@@ -139,11 +152,16 @@ export class Hub {
   private checkLagging(): void {
     const now = Date.now();
     let lagging = 0;
+    let snapshot: Buffer | null = null;
     for (const c of this.clients) {
-      if (c.lagSince === null) continue;
+      if (c.lagSince === null) {
+        if (c.allowance && c.ws.bufferedAmount <= this.o.resumeBufferedBytes) c.allowance = 0;
+        continue;
+      }
       if (c.ws.bufferedAmount <= this.o.resumeBufferedBytes) {
         c.lagSince = null;
-        this.sendNow(c, this.o.snapshot());
+        snapshot ??= Buffer.from(JSON.stringify(this.o.snapshot()));
+        this.sendSnapshot(c, snapshot);
       } else if (now - c.lagSince > this.o.maxLagMs) {
         this.drop(c);
       } else lagging++;

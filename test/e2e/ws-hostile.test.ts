@@ -203,6 +203,24 @@ describe('a client that never reads', () => {
     expect(b.stats().dropped).toBe(0);
   });
 
+  it('a snapshot larger than the lag threshold is followed by scans, without a second snapshot', async () => {
+    // Over loopback the kernel takes the snapshot at once; test/server/hub.test.ts covers a socket that holds it.
+    const { b, src } = await start({ scanRateHz: 1000, maxBufferedBytes: 8 * 1024, resumeBufferedBytes: 2 * 1024, maxLagMs: 60_000 });
+    // About 200 KB of recent detections: the snapshot alone is 25 times the threshold.
+    for (let i = 0; i < 2000; i++) src.emitRecord({ kind: 'detection', detection: { timeS: i * 0.001, azimuthRad: 1, rangeM: 2.5, amplitude: 10 + i } });
+    await sleep(20);
+    const c = await connect(b.wsUrl);
+    for (let i = 0; i < 20; i++) {
+      src.emitRecord({ kind: 'detection', detection: { timeS: 2 + i * 0.01, azimuthRad: 1, rangeM: 2.5, amplitude: 5 } });
+      await sleep(5);
+    }
+    const last = 2 + 19 * 0.01;
+    await c.next('scan', (s) => s.detections.some((d) => d.timeS === last));
+    expect(c.of('snapshot')).toHaveLength(1);
+    expect(c.of('snapshot')[0].detections.length).toBe(2000);
+    expect(b.stats().scansSkipped).toBe(0);
+  });
+
   it('drops a client that stays behind longer than maxLagMs; the others stay connected', async () => {
     const { b, src } = await start({ scanRateHz: 1000, maxBufferedBytes: 128 * 1024, resumeBufferedBytes: 16 * 1024, maxLagMs: 200 });
     const slow = await connect(b.wsUrl);
