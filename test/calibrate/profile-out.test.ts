@@ -6,7 +6,11 @@ import { profilePath, saveTrackerProfile, tunedProfile } from '../../bridge/cali
 import { defaultBenchConfig } from '../../bridge/calibrate/bench-config.ts';
 import { nisStats } from '../../bridge/calibrate/nis.ts';
 import type { NoiseTuningResult } from '../../bridge/calibrate/noise-tuning.ts';
-import { loadTrackerProfile } from '../../bridge/tracking/profile.ts';
+import { loadTrackerProfile, profileToOptions } from '../../bridge/tracking/profile.ts';
+import { Tracker } from '../../bridge/tracking/tracker.ts';
+import { tuneNoise } from '../../bridge/calibrate/noise-tuning.ts';
+import { simulateRun } from '../../bridge/sim/run.ts';
+import { builtinScenario } from '../../bridge/sim/scenarios.ts';
 
 const DEG = Math.PI / 180;
 const result: NoiseTuningResult = {
@@ -44,5 +48,32 @@ describe('tracker profile output', () => {
     expect(profilePath('a.b_c-1', 'p')).toBe(join('p', 'a.b_c-1.json'));
     expect(() => profilePath('../etc/x')).toThrow(/profile name/);
     expect(() => profilePath('')).toThrow(/profile name/);
+  });
+
+  it('a profile tuned on one run makes the real tracker consistent on another run of the bench', () => {
+    // Tune on seed 1, track seed 2 with bridge/tracking/tracker.ts and the written profile; the
+    // NIS of the target's confirmed updates must sit inside its 95% bounds (Bar-Shalom 2001 §5.4).
+    const bench = { ...defaultBenchConfig('bay 3'), radar: { rangeOffsetM: 0.12, rangeScale: 1, azimuthOffsetDeg: 2 }, positionerFrame: { rotationDeg: 3, translationM: { x: 0.05, y: -0.08 } } };
+    const scenario = builtinScenario('offsets-check');
+    const tuneRun = simulateRun({ ...scenario, seed: 1 });
+    const testRun = simulateRun({ ...scenario, seed: 2 });
+    for (const filter of ['kalman', 'imm'] as const) {
+      const tuned = tuneNoise(tuneRun.detections, tuneRun.commanded[0].points, bench, { filter });
+      const { profile } = tunedProfile(tuned, bench, meta);
+      const tracker = new Tracker(profileToOptions(profile));
+      const nis: number[] = [];
+      let k = 0;
+      const truthNear = (t: number, x: number, y: number) => {
+        while (k < testRun.truth.length - 1 && testRun.truth[k + 1].timeS <= t) k++;
+        const s = testRun.truth[k];
+        return Math.hypot(s.x - x, s.y - y) < 0.3;
+      };
+      for (const d of testRun.detections) {
+        for (const u of tracker.push(d).updates) if (u.status === 'confirmed' && u.nis !== undefined && truthNear(u.timeS, u.x, u.y)) nis.push(u.nis);
+      }
+      const s = nisStats(nis);
+      expect(s.count, filter).toBeGreaterThan(60);
+      expect(s.verdict, `${filter}: mean NIS ${s.mean}`).toBe('consistent');
+    }
   });
 });
