@@ -3,7 +3,7 @@
  * frame arrives or the view changes) rather than on a free-running ticker, which matters on a
  * shared CPU with software rendering.
  */
-import { Application, Container } from 'pixi.js';
+import { Application, Container, RenderTexture, Sprite, type Renderer } from 'pixi.js';
 import type { DashboardState } from '../stream/state.ts';
 import { type Coverage, defaultCoverage } from './coverage.ts';
 import { DetectionDots } from './detection-dots.ts';
@@ -46,6 +46,10 @@ export class PlanScene {
   private readonly markers = new TrackMarkers();
   private readonly paths = new PathLayer();
   private dots!: DetectionDots;
+  /** Settled trail chunks, rendered here only when they or the view change. */
+  private trailCache: RenderTexture | null = null;
+  private readonly trailSprite = new Sprite();
+  private trailCacheKey = '';
   private state: DashboardState | null = null;
   private pending = false;
 
@@ -67,11 +71,16 @@ export class PlanScene {
     const scene = new PlanScene(app, width, height);
     scene.rendererName = app.renderer.name;
     scene.dots = new DetectionDots(app.renderer);
-    scene.world.addChild(scene.trails.container);
-    app.stage.addChild(scene.staticLayer.container, scene.dots.fixedContainer, scene.world, scene.paths.container,
+    scene.world.addChild(scene.trails.live);
+    app.stage.addChild(scene.staticLayer.container, scene.dots.fixedContainer, scene.trailSprite, scene.world, scene.paths.container,
       scene.dots.container, scene.markers.container);
     scene.reset();
     return scene;
+  }
+
+  /** The pixi renderer (the benchmark waits on its GPU work). */
+  get renderer(): Renderer {
+    return this.app.renderer;
   }
 
   get canvas(): HTMLCanvasElement {
@@ -141,6 +150,7 @@ export class PlanScene {
     if (s) {
       this.dots.updateFixed(v, s.fixedEchoes, s.fixedVersion, o.showFixedEchoes);
       this.trails.update(s.tracks, s.timeS, o.trailSeconds, s.epoch);
+      this.renderTrailCache();
       this.paths.update(v, s, this.coverage.maxRangeM, o.selectedId, s.timeS - o.trailSeconds);
       this.dots.update(v, s.detections, s.timeS, o.detectionAgeS, o.showDetections);
       this.markers.update(v, s.tracks, o.selectedId, o.hoverId);
@@ -148,7 +158,27 @@ export class PlanScene {
     this.app.render();
   }
 
+  private renderTrailCache(): void {
+    const v = this.view;
+    const res = this.app.renderer.resolution;
+    const key = `${v.centreX},${v.centreY},${v.scale},${v.width},${v.height},${res}`;
+    if (!this.trails.settledDirty && key === this.trailCacheKey) return;
+    if (!this.trailCache || this.trailCache.width !== v.width || this.trailCache.height !== v.height) {
+      this.trailCache?.destroy(true);
+      this.trailCache = RenderTexture.create({ width: v.width, height: v.height, resolution: res });
+      this.trailSprite.texture = this.trailCache;
+    }
+    const settled = this.trails.settled;
+    settled.position.copyFrom(this.world.position);
+    settled.scale.copyFrom(this.world.scale);
+    this.app.renderer.render({ container: settled, target: this.trailCache, clear: true, clearColor: [0, 0, 0, 0] });
+    this.trails.settledDirty = false;
+    this.trailCacheKey = key;
+  }
+
   destroy(): void {
+    this.trailCache?.destroy(true);
+    this.trails.settled.destroy({ children: true });
     this.app.destroy(true, { children: true });
   }
 }
