@@ -12,11 +12,13 @@ export interface LegOptions {
   cornerDeg: number;
   /** Below this speed a segment counts as a hold, m/s. */
   holdSpeedMps: number;
+  /** Legs shorter than this join the leg before (ramps at corners make slivers), seconds. */
+  minLegS: number;
 }
 
 /** Defaults in one place. */
 export function resolveLegOptions(o: Partial<LegOptions> = {}): LegOptions {
-  return { cornerDeg: o.cornerDeg ?? 20, holdSpeedMps: o.holdSpeedMps ?? 1e-3 };
+  return { cornerDeg: o.cornerDeg ?? 20, holdSpeedMps: o.holdSpeedMps ?? 1e-3, minLegS: o.minLegS ?? 0.5 };
 }
 
 /** One leg of the commanded path. */
@@ -58,6 +60,7 @@ export function findLegs(path: TimedPath, options: Partial<LegOptions> = {}): { 
     prevHeading = heading;
     prevHold = hold;
   }
+  mergeSlivers(path, legOfSegment, o.minLegS);
   const legs: Leg[] = [];
   for (let i = 0; i < nSeg; i++) {
     const k = legOfSegment[i];
@@ -73,3 +76,35 @@ export function findLegs(path: TimedPath, options: Partial<LegOptions> = {}): { 
   }
   return { legs, legOfSegment };
 }
+
+/** Relabel legs shorter than minLegS into their predecessor (the first into its successor), then renumber 0… */
+function mergeSlivers(path: TimedPath, legOfSegment: number[], minLegS: number): void {
+  const pts = path.points;
+  const span = new Map<number, { start: number; end: number }>();
+  legOfSegment.forEach((l, i) => {
+    const s = span.get(l) ?? { start: pts[i].timeS, end: pts[i + 1].timeS };
+    s.end = pts[i + 1].timeS;
+    span.set(l, s);
+  });
+  const ids = [...span.keys()];
+  const target = new Map<number, number>();
+  let prevKept: number | null = null;
+  for (const id of ids) {
+    const s = span.get(id)!;
+    if (s.end - s.start < minLegS && ids.length > 1) target.set(id, prevKept ?? -1);
+    else {
+      target.set(id, id);
+      // A leading sliver joins the first kept leg.
+      for (const [k, v] of target) if (v === -1) target.set(k, id);
+      prevKept = id;
+    }
+  }
+  const renumber = new Map<number, number>();
+  for (let i = 0; i < legOfSegment.length; i++) {
+    const t = target.get(legOfSegment[i])!;
+    const keep = t === -1 ? legOfSegment[i] : t;
+    if (!renumber.has(keep)) renumber.set(keep, renumber.size);
+    legOfSegment[i] = renumber.get(keep)!;
+  }
+}
+

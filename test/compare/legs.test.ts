@@ -23,4 +23,15 @@ describe('findLegs', () => {
     const { legs } = findLegs(p);
     expect(legs.map((l) => l.speedMps)).toEqual([0.5, 0.25]); // collinear, but two legs as commanded
   });
+
+  it('folds a sliver at a ramped corner into the leg before it', () => {
+    // East 2 s, a 0.1 s creep south-east at the corner, then north 2 s.
+    const p = makeTimedPath([
+      { timeS: 0, x: 0, y: 2 }, { timeS: 2, x: 0.5, y: 2 }, { timeS: 2.1, x: 0.501, y: 1.999 }, { timeS: 4.1, x: 0.501, y: 2.5 },
+    ]);
+    const { legs, legOfSegment } = findLegs(p);
+    expect(legOfSegment).toEqual([0, 0, 1]);
+    expect(legs).toHaveLength(2);
+    expect(legs[0].endS).toBe(2.1);
+  });
 });
