@@ -11,7 +11,7 @@ export type ScanMessage = Extract<ServerMessage, { type: 'scan' }>;
 export interface ScanBatchOptions {
   /** Most scans per second. */
   rateHz: number;
-  /** Most detections carried by one scan; beyond it the oldest are dropped from the scan (not the state). */
+  /** Most detections carried by one scan; beyond it the oldest are dropped from the scan (not the state). Also the update count above which a scan keeps only each track's latest update. */
   maxDetections: number;
   /** Called with each finished scan and the arrival times (performance.now ms) of the lines in it. */
   emit: (scan: ScanMessage, receivedAtMs: number[]) => void;
@@ -56,8 +56,20 @@ export class ScanBatch {
 
   update(u: TrackWire, receivedAtMs?: number): void {
     this.updates.push(u);
+    // A flood of updates (hundreds of tracks, a stalled event loop): keep each track's latest only,
+    // which is all a client needs to be current; the history of the skipped ones is in the state.
+    if (this.updates.length > this.options.maxDetections) this.compactUpdates();
     if (receivedAtMs !== undefined) this.arrivals.push(receivedAtMs);
     this.time(u.timeS);
+  }
+
+  private compactUpdates(): void {
+    const latest = new Map<number, TrackWire>();
+    for (const u of this.updates) {
+      latest.delete(u.id);
+      latest.set(u.id, u);
+    }
+    this.updates = [...latest.values()];
   }
 
   deletion(d: DeletionWire): void {

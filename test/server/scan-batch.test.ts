@@ -52,4 +52,11 @@ describe('ScanBatch', () => {
     b.flush();
     expect(out).toHaveLength(1);
   });
+
+  it('beyond the cap keeps the latest update of each track only, in order of last appearance', () => {
+    const { b, out } = batch(1000, 4);
+    for (let i = 0; i < 6; i++) b.update(toTrackWire(trackAt(1 + (i % 3), i, i, 0)));
+    b.flush();
+    expect(out[0].scan.updates.map((u) => [u.id, u.timeS])).toEqual([[1, 3], [2, 4], [3, 5]]);
+  });
 });
