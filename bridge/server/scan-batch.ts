@@ -58,7 +58,7 @@ export class ScanBatch {
     this.updates.push(u);
     // A flood of updates (hundreds of tracks, a stalled event loop): keep each track's latest only,
     // which is all a client needs to be current; the history of the skipped ones is in the state.
-    if (this.updates.length > this.options.maxDetections) this.compactUpdates();
+    if (this.updates.length > 2 * this.options.maxDetections) this.compactUpdates();
     if (receivedAtMs !== undefined) this.arrivals.push(receivedAtMs);
     this.time(u.timeS);
   }
@@ -113,6 +113,7 @@ export class ScanBatch {
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
     if (!this.pending || this.held) return;
+    if (this.updates.length > this.options.maxDetections) this.compactUpdates();
     const scan: ScanMessage = {
       type: 'scan',
       seq: this.seq++,
