@@ -75,15 +75,23 @@ export function samplePath(path: TimedPoint[], t: number, hint = 0): { x: number
   return { x: a.x + f * (b.x - a.x), y: a.y + f * (b.y - a.y), segment: i };
 }
 
-/** Groups the rows of a tracks CSV (time_s,track_id,x_m,y_m) by track id, time order kept. */
-export function parseTracksById(text: string, what: string): Map<number, TimedPoint[]> {
+/**
+ * Groups the rows of a tracks CSV (time_s,track_id,x_m,y_m) by track id, time order kept. When
+ * the file also has the measurement columns meas_x_m,meas_y_m (as `echotrail track` writes them),
+ * those are used by default: they carry independent errors and no filter lag, which is what a
+ * frame fit and its standard errors assume. Coasts (no measurement) are then left out.
+ */
+export function parseTracksById(text: string, what: string, use: 'measurement' | 'estimate' = 'measurement'): Map<number, TimedPoint[]> {
   const rows = parse(text, { relax_column_count: true, skip_empty_lines: true, trim: true, bom: true }) as string[][];
   const header = (rows[0] ?? []).map((h) => h.toLowerCase());
-  const [ct, ci, cx, cy] = ['time_s', 'track_id', 'x_m', 'y_m'].map((n) => header.indexOf(n));
-  if (ct < 0 || ci < 0 || cx < 0 || cy < 0) throw new EchotrailError('E_INPUT_COLUMNS', `${what}: needs columns time_s,track_id,x_m,y_m (the output of echotrail track)`);
+  const [ct, ci, cx0, cy0, mx, my] = ['time_s', 'track_id', 'x_m', 'y_m', 'meas_x_m', 'meas_y_m'].map((n) => header.indexOf(n));
+  if (ct < 0 || ci < 0 || cx0 < 0 || cy0 < 0) throw new EchotrailError('E_INPUT_COLUMNS', `${what}: needs columns time_s,track_id,x_m,y_m (the output of echotrail track)`);
+  const measured = use === 'measurement' && mx >= 0 && my >= 0;
+  const [cx, cy] = measured ? [mx, my] : [cx0, cy0];
   const out = new Map<number, TimedPoint[]>();
   for (let i = 1; i < rows.length; i++) {
     const r = rows[i];
+    if (!r[cx] || !r[cy]) continue; // a coast has no measurement
     const p = { timeS: Number(r[ct]), x: Number(r[cx]), y: Number(r[cy]) };
     const id = Number(r[ci]);
     if (![p.timeS, p.x, p.y, id].every(Number.isFinite)) continue; // a damaged row loses one point only

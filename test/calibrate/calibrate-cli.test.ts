@@ -1,5 +1,5 @@
 // Tests bridge/cli/calibrate.ts and bridge/calibrate/cli-common.ts.
-import { mkdtemp, readFile, stat } from 'node:fs/promises';
+import { mkdtemp, readFile, stat, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -21,6 +21,21 @@ describe('echotrail calibrate', () => {
     const c2 = await loadBenchConfig(config);
     expect(Math.abs(c2.positionerFrame.rotationDeg - 3)).toBeLessThan(1.5);
     expect(c2.history.map((h) => h.kind)).toEqual(['offsets', 'frame']);
+  });
+
+  it('frame from a tracks CSV: the longest track, its measurement columns', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-calcli-'));
+    expect(await simulate(['--scenario', 'offsets-check', '--out', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv'), '--truth', join(dir, 't.csv'), '--range-offset', '0', '--azimuth-offset', '0'])).toBe(0);
+    // A tracks file shaped like `echotrail track` output, built from the truth plus a short decoy track.
+    const truth = (await readFile(join(dir, 't.csv'), 'utf8')).trim().split('\n').slice(1).map((l) => l.split(',').map(Number));
+    const rows = ['time_s,track_id,x_m,y_m,meas_x_m,meas_y_m', ...truth.map(([t, , x, y]) => `${t},7,${x + 1},${y},${x},${y}`), '1,9,0,3,0,3', '2,9,0,3,0,3'];
+    await writeFile(join(dir, 'tracks.csv'), rows.join('\n') + '\n');
+    const config = join(dir, 'bench.json');
+    expect(await calibrate(['frame', '--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'c.csv'), '--config', config])).toBe(0);
+    const c = await loadBenchConfig(config);
+    expect(c.positionerFrame.rotationDeg).toBeCloseTo(3, 2); // truth CSV is rounded to 0.1 mm
+    expect(c.positionerFrame.translationM.x).toBeCloseTo(0.05, 3);
+    expect(await calibrate(['frame', '--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'c.csv'), '--track-id', '5', '--config', config])).toBe(1);
   });
 
   it('a failed fit saves nothing and exits 1; bad usage exits 2', async () => {

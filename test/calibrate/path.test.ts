@@ -46,5 +46,9 @@ describe('path CSV', () => {
     expect(m.get(3)).toHaveLength(2);
     expect(m.get(4)).toHaveLength(1);
     expect(() => parseTracksById('time_s,x_m\n', 't')).toThrow(/track_id/);
+    // measurement columns are preferred when present; a coast (empty measurement) is left out
+    const withMeas = 'time_s,track_id,x_m,y_m,meas_x_m,meas_y_m\n0,1,0,0,0.1,0.2\n1,1,1,1,,\n2,1,2,2,2.1,2.2\n';
+    expect(parseTracksById(withMeas, 't').get(1)).toEqual([{ timeS: 0, x: 0.1, y: 0.2 }, { timeS: 2, x: 2.1, y: 2.2 }]);
+    expect(parseTracksById(withMeas, 't', 'estimate').get(1)).toHaveLength(3);
   });
 });
