@@ -82,8 +82,17 @@ export class Pipeline extends EventEmitter {
     return this.source && isReplayControl(this.source) ? this.source : null;
   }
 
+  /** Source switches run one at a time: two dashboards opening sessions at once must not leave two attached. */
+  private switching: Promise<void> = Promise.resolve();
+
   /** Replaces the input: the old source is closed, the state starts again, clients get a snapshot. */
-  async setSource(source: Source): Promise<void> {
+  setSource(source: Source): Promise<void> {
+    const run = this.switching.then(() => this.switchTo(source));
+    this.switching = run.catch(() => undefined);
+    return run;
+  }
+
+  private async switchTo(source: Source): Promise<void> {
     this.seek.begin(false, false);
     await this.detach();
     this.batch.discard();

@@ -147,3 +147,21 @@ describe('startBridge', () => {
     expect(Array.isArray((await c.next('sessions')).sessions)).toBe(true);
   });
 });
+
+describe('source switches', () => {
+  it('runs overlapping switches one after the other: only the last source stays attached', async () => {
+    const first = new ScriptedSource({ name: 'first' });
+    const b = await start(first);
+    const a = new ScriptedSource({ name: 'a' });
+    const z = new ScriptedSource({ name: 'z' });
+    await Promise.all([b.setSource(a), b.setSource(z)]);
+    expect([first.closed, a.closed, z.closed]).toEqual([true, true, false]);
+    const c = await connect(b.wsUrl);
+    await c.next('snapshot');
+    a.emitRecord({ kind: 'track', update: trackAt(1, 1, 0, 0) });
+    z.emitRecord({ kind: 'track', update: trackAt(2, 1, 0, 0) });
+    const scan = await c.next('scan');
+    expect(scan.updates.map((u) => u.id)).toEqual([2]);
+    expect(b.pipeline.status().name).toBe('z');
+  });
+});
