@@ -33,7 +33,7 @@ function program(): Command {
     .option('--duration <s>', 'run length, seconds (default: the scenario\'s, else 60)', number)
     .option('--out <path>', 'detections CSV, columns time_s,azimuth_deg,range_m,amplitude; - for stdout', '-')
     .option('--truth <path>', 'truth CSV, radar frame: time_s,target_id,x_m,y_m,vx_mps,vy_mps (default: not written)')
-    .option('--commanded <path>', 'commanded path CSV, positioner frame: time_s,target_id,x_m,y_m (default: not written)')
+    .option('--commanded <path>', 'commanded path CSV, positioner frame: time_s,target_id,x_m,y_m; a path containing {id} gives one file per target (default: not written)')
     .option('--targets <n>', 'number of targets for the crowd scenario', number, 100)
     .option('--antenna <mode>', 'rotating or staring (default: the scenario\'s, else rotating)')
     .option('--period <s>', 'revolution period of a rotating antenna, seconds (default 1)', number)
@@ -106,13 +106,17 @@ export async function run(argv: string[]): Promise<number> {
     }
     const det = new CsvSink(opts.out, DETECTIONS_CSV_HEADER);
     const truth = typeof opts.truth === 'string' ? new CsvSink(opts.truth, TRUTH_CSV_HEADER) : null;
-    const commanded = typeof opts.commanded === 'string' ? new CsvSink(opts.commanded, COMMANDED_CSV_HEADER) : null;
+    // One file per target when asked ({id}): readers that want one strictly time-ordered path per file.
+    const cmdPath = typeof opts.commanded === 'string' ? opts.commanded : null;
+    const perTarget = cmdPath?.includes('{id}') ?? false;
+    const commanded = cmdPath && !perTarget ? new CsvSink(cmdPath, COMMANDED_CSV_HEADER) : null;
+    const cmdSinks = new Map(perTarget && cmdPath ? resolved.targets.map((t) => [t.id, new CsvSink(cmdPath.replaceAll('{id}', String(t.id)), COMMANDED_CSV_HEADER)] as const) : []);
     for (const rec of iterateRun(resolved)) {
       if (rec.kind === 'detection') await det.push(detectionCsvLine(rec.detection));
       else if (rec.kind === 'truth') await truth?.push(truthCsvLine(rec.sample));
-      else await commanded?.push(commandedCsvLine(rec.targetId, rec.point));
+      else await (commanded ?? cmdSinks.get(rec.targetId))?.push(commandedCsvLine(rec.targetId, rec.point));
     }
-    await Promise.all([det.close(), truth?.close(), commanded?.close()]);
+    await Promise.all([det.close(), truth?.close(), commanded?.close(), ...[...cmdSinks.values()].map((c) => c.close())]);
     process.stderr.write(`simulate: ${resolved.name}, seed ${resolved.seed}, ${resolved.durationS} s: ${det.lines} detections` + (truth ? `, ${truth.lines} truth rows` : '') + '\n');
     return 0;
   } catch (err) {

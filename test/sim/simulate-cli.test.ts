@@ -23,6 +23,16 @@ describe('echotrail simulate', () => {
     expect((await readFile(join(dir, 'c.csv'), 'utf8')).split('\n')[0]).toBe('time_s,target_id,x_m,y_m');
   });
 
+  it('writes one commanded file per target when the path holds {id}', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-simcli-'));
+    expect(await run(['--scenario', 'crossing-pair', '--duration', '5', '--out', join(dir, 'd.csv'), '--commanded', join(dir, 'cmd-{id}.csv')])).toBe(0);
+    for (const id of [1, 2]) {
+      const lines = (await readFile(join(dir, `cmd-${id}.csv`), 'utf8')).trim().split('\n');
+      expect(lines).toHaveLength(1 + 51);
+      expect(lines.slice(1).every((l) => l.split(',')[1] === String(id))).toBe(true);
+    }
+  });
+
   it('takes a scenario file and overrides, and fails cleanly on a bad one', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'echotrail-simcli-'));
     const scn = join(dir, 's.json');
