@@ -116,7 +116,8 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
   if (chosen.rows.length < 2) {
     throw new EchotrailError('E_PATH', `no confirmed track came within ${resolveFollowOptions(o.follow).gateM} m of the commanded path; check the frame (calibration) or widen the follow gate`);
   }
-  const lag = estimateLag(path, chosen.rows, o.lag);
+  // Outliers for the lag: samples beyond the follow gate once the first estimate is removed.
+  const lag = estimateLag(path, chosen.rows, { inlierM: resolveFollowOptions(o.follow).gateM, ...o.lag });
   const lagS = lag.lagS ?? 0;
   // With the lag known, pick again: a late track sits a lag's distance behind the commanded point.
   if (lagS !== 0) chosen = follow(path, rows, lagS, o.follow);

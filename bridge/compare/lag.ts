@@ -17,11 +17,17 @@ export interface LagOptions {
   stepS: number;
   /** Width at which the refinement stops, seconds. */
   toleranceS: number;
+  /**
+   * Second pass without outliers: samples further than this from the command shifted by the first
+   * estimate are dropped and the search repeated, metres (Infinity: one pass). Squared errors
+   * let a few metres of a straying track outweigh hundreds of good samples otherwise.
+   */
+  inlierM: number;
 }
 
 /** Defaults: bench lags are a few tenths of a second (common practice); 2 s covers a slow filter. */
 export function resolveLagOptions(o: Partial<LagOptions> = {}): LagOptions {
-  return { maxLagS: o.maxLagS ?? 2, stepS: o.stepS ?? 0.05, toleranceS: o.toleranceS ?? 1e-4 };
+  return { maxLagS: o.maxLagS ?? 2, stepS: o.stepS ?? 0.05, toleranceS: o.toleranceS ?? 1e-4, inlierM: o.inlierM ?? Infinity };
 }
 
 /** Outcome of the lag search. */
@@ -33,8 +39,10 @@ export interface LagEstimate {
   rmsAtZeroM: number;
   /** The coarse cost curve, for the report. */
   curve: { lagS: number; rmsM: number }[];
-  /** Samples used. */
+  /** Samples used (after the outlier pass). */
   samples: number;
+  /** Samples dropped as outliers by the second pass. */
+  outliers: number;
 }
 
 /** Mean squared distance between samples and the commanded path shifted by lag. */
@@ -52,6 +60,19 @@ const GOLDEN = (Math.sqrt(5) - 1) / 2;
 /** Estimate the lag from tracked samples (time, position) against a commanded path. */
 export function estimateLag(path: TimedPath, all: readonly (Point & { timeS: number })[], options: Partial<LagOptions> = {}): LagEstimate {
   const o = resolveLagOptions(options);
+  const first = searchLag(path, all, o);
+  if (!Number.isFinite(o.inlierM) || first.lagS === null) return first;
+  const lag = first.lagS;
+  const inliers = all.filter((s) => {
+    const c = sampleAt(path, s.timeS - lag);
+    return Math.hypot(s.x - c.x, s.y - c.y) <= o.inlierM;
+  });
+  if (inliers.length === all.length || inliers.length < 10) return first;
+  const second = searchLag(path, inliers, o);
+  return { ...second, rmsAtZeroM: first.rmsAtZeroM, outliers: all.length - inliers.length };
+}
+
+function searchLag(path: TimedPath, all: readonly (Point & { timeS: number })[], o: LagOptions): LagEstimate {
   const { startS, endS } = timeSpan(path);
   // Only samples whose shifted time stays on the path for every candidate: otherwise the clamped
   // ends would reward lags that push samples off the path.
@@ -60,7 +81,7 @@ export function estimateLag(path: TimedPath, all: readonly (Point & { timeS: num
   const rmsAtZeroM = samples.length ? Math.sqrt(lagCost(path, samples, 0)) : NaN;
   const moved = samples.length >= 2 &&
     Math.abs(sampleAt(path, samples[samples.length - 1].timeS).alongM - sampleAt(path, samples[0].timeS).alongM) > 1e-3;
-  if (!moved) return { lagS: null, rmsAtLagM: rmsAtZeroM, rmsAtZeroM, curve: [], samples: samples.length };
+  if (!moved) return { lagS: null, rmsAtLagM: rmsAtZeroM, rmsAtZeroM, curve: [], samples: samples.length, outliers: 0 };
   const n = Math.round(o.maxLagS / o.stepS);
   const curve: { lagS: number; rmsM: number }[] = [];
   let best = 0;
@@ -91,5 +112,5 @@ export function estimateLag(path: TimedPath, all: readonly (Point & { timeS: num
     }
   }
   const lagS = (a + b) / 2;
-  return { lagS, rmsAtLagM: Math.sqrt(lagCost(path, samples, lagS)), rmsAtZeroM, curve, samples: samples.length };
+  return { lagS, rmsAtLagM: Math.sqrt(lagCost(path, samples, lagS)), rmsAtZeroM, curve, samples: samples.length, outliers: 0 };
 }

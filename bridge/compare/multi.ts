@@ -1,8 +1,8 @@
 /**
  * OSPA and GOSPA over a run. Tracks are updated at different instants (each when the antenna
  * passes it), so the sets are compared on a regular time grid: truths are the commanded positions
- * of every commanded path active at t; estimates are all confirmed or coasting tracks, each
- * predicted from its latest update (x + v·Δt) if that update is recent enough.
+ * of every commanded path active at t; estimates are all confirmed or coasting tracks of moving
+ * reflectors, each predicted from its latest update (x + v·Δt) if that update is recent enough.
  */
 import type { Point } from './geometry.ts';
 import { setDistance, type SetDistance, type SetMetricOptions } from './ospa.ts';
@@ -55,7 +55,9 @@ export function setMetricSeries(paths: readonly TimedPath[], rows: readonly Trac
   for (let k = 0; start + k * o.stepS <= end + 1e-9; k++) {
     const t = start + k * o.stepS;
     while (r < rows.length && rows[r].timeS <= t) {
-      if (rows[r].status !== 'tentative') latest.set(rows[r].id, rows[r]);
+      // Tentative tracks are not reported yet, and tracks of reflectors that never moved are
+      // the bench's furniture, not estimates of a commanded target.
+      if (rows[r].status !== 'tentative' && rows[r].moving !== false) latest.set(rows[r].id, rows[r]);
       else latest.delete(rows[r].id);
       r++;
     }

@@ -38,7 +38,7 @@ export function buildSummary(a: Analysis, meta: SummaryMeta): Record<string, unk
     tracks: { ids: a.trackIds, followed_rows: a.followed.length, switches: a.switches.map((s) => ({ time_s: s.timeS, from: s.from, to: s.to })),
       released: a.releases.map((r) => ({ time_s: r.timeS, id: r.id, distance_m: r6(r.distanceM) })) },
     coverage: { confirmed_fraction: r6(a.coverage.confirmedFraction), coasting_fraction: r6(a.coverage.coastingFraction), gap_limit_s: r6(a.coverage.gapLimitS) },
-    lag: { lag_s: r6(a.lag.lagS), rms_at_lag_m: r6(a.lag.rmsAtLagM), rms_at_zero_m: r6(a.lag.rmsAtZeroM), samples: a.lag.samples },
+    lag: { lag_s: r6(a.lag.lagS), rms_at_lag_m: r6(a.lag.rmsAtLagM), rms_at_zero_m: r6(a.lag.rmsAtZeroM), samples: a.lag.samples, outliers: a.lag.outliers },
     whole_run: { filtered: a.whole.filtered, smoothed: a.whole.smoothed },
     smoothed_to_filtered_rmse: fRmse && sRmse !== null ? r6(sRmse / fRmse) : null,
     legs: a.perLeg.map((l) => ({

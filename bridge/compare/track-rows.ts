@@ -23,6 +23,8 @@ export interface TrackRow {
   headingRad: number;
   /** The measurement used by this update with its covariance (m, m²); absent on coasts. */
   meas?: { x: number; y: number; sxx: number; sxy: number; syy: number };
+  /** False for a track of a reflector that never moved (live updates say so; CSV rows do not). */
+  moving?: boolean;
   line?: number;
 }
 
@@ -40,6 +42,7 @@ export function rowFromUpdate(u: TrackUpdate): TrackRow {
     speed: u.speed,
     headingRad: u.headingRad,
     meas: m ? { x: m.x, y: m.y, sxx: m.rxx, sxy: m.rxy, syy: m.ryy } : undefined,
+    moving: u.moving,
   };
 }
 

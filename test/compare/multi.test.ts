@@ -32,4 +32,11 @@ describe('setMetricSeries', () => {
     expect(s[2].estimates).toBe(0);
     expect(s[2].missed).toBeCloseTo(0.5, 12);
   });
+
+  it('leaves out tracks of reflectors that never moved', () => {
+    const still = { ...row(0, 3, 2, 2), moving: false };
+    const s = setMetricSeries([path], [row(0, 1, 0, 2), still], { stepS: 1, maxAgeS: 1.5 });
+    expect(s[0].estimates).toBe(1);
+    expect(s[0].false).toBe(0);
+  });
 });
