@@ -39,6 +39,13 @@ describe('estimateLag', () => {
     }
   });
 
+  it('with the outlier pass, a track straying 2 m for 2 s does not move the estimate', () => {
+    const samples = shifted(0.4, 0.03, 5).map((p) => (p.timeS >= 6 && p.timeS < 8 ? { ...p, x: p.x + 2 } : p));
+    const robust = estimateLag(path, samples, { inlierM: 1 });
+    expect(Math.abs(robust.lagS! - 0.4)).toBeLessThan(0.02);
+    expect(robust.outliers).toBe(8);
+  });
+
   it('finds a lead as a negative lag', () => {
     expect(estimateLag(path, shifted(-0.3, 0)).lagS).toBeCloseTo(-0.3, 3);
   });
