@@ -47,6 +47,7 @@ function program(): Command {
     .option('--azimuth-offset <deg>', 'azimuth error to simulate, degrees (default 0)', number)
     .option('--frame-rotation <deg>', 'positioner frame rotation, counter-clockwise, degrees (default 0)', number)
     .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default 0,0)', pair)
+    .option('--lag <s>', 'positioner following lag: truth = command delayed by this, seconds (default 0)', number)
     .option('--truth-rate <hz>', 'sample rate of the truth and commanded files, Hz (default 10)', number)
     .exitOverride()
     .configureOutput({ writeOut: (s) => process.stdout.write(s), writeErr: (s) => process.stderr.write(s) });
@@ -71,6 +72,7 @@ async function scenarioFrom(opts: Opts): Promise<ScenarioOptions> {
   set('frameRotationDeg', opts.frameRotation);
   set('frameTranslation', opts.frameTranslation);
   set('truthRateHz', opts.truthRate);
+  set('positionerLagS', opts.lag);
   if (opts.pd !== undefined) s.targets = (s.targets ?? []).map((t) => ({ ...t, pd: opts.pd as number }));
   const mode = (opts.antenna as string | undefined) ?? s.antenna?.mode ?? 'rotating';
   if (mode !== 'rotating' && mode !== 'staring') throw new EchotrailError('E_OPTION', `--antenna must be rotating or staring (got '${mode}')`);

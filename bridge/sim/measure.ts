@@ -61,3 +61,14 @@ export function measurePolar(sc: ResolvedScenario, rng: Rng, p: Point): { rangeM
   // A negative range cannot come out of a delay measurement; fold it (only possible within σ of 0).
   return { rangeM: Math.abs(r), azimuthRad: wrapTwoPi(az), trueRangeM: rangeM };
 }
+
+/**
+ * Pulse-to-pulse phase of an echo with radial velocity `radialMps` (positive receding):
+ * Δφ = 4π·v_r·T/λ with T = 1/PRF, wrapped to [−π, π) as the hardware sees it (inverse of
+ * v = λ·Δφ/(4π·T), reference-values.md), plus Gaussian phase noise.
+ */
+export function pulsePhase(sc: ResolvedScenario, rng: Rng, radialMps: number): number | undefined {
+  if (!sc.phase) return undefined;
+  const { prfHz, wavelengthM, sigmaRad } = sc.phase;
+  return wrapPi((4 * Math.PI * radialMps) / (wavelengthM * prfHz) + rng.normal(0, sigmaRad));
+}

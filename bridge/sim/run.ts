@@ -5,7 +5,7 @@
  */
 import type { Detection } from '../types.ts';
 import { beamCrossings, inSector, staringLooks } from './antenna.ts';
-import { measurePolar, meanAmplitude, positionerToRadar, sampleAmplitude, toPolar, wrapTwoPi } from './measure.ts';
+import { measurePolar, meanAmplitude, positionerToRadar, pulsePhase, sampleAmplitude, toPolar, wrapTwoPi } from './measure.ts';
 import { createRng } from './prng.ts';
 import { resolveScenarioOptions, type ResolvedScenario, type ScenarioOptions } from './scenario.ts';
 import { makeTrajectory, type KinematicState, type Trajectory } from './trajectories.ts';
@@ -41,7 +41,7 @@ export type SimRecord =
 
 /** The radar-frame state of target `index` at time t (exact, no noise). */
 export function targetStateAt(sc: ResolvedScenario, index: number, tS: number): KinematicState {
-  return positionerToRadar(makeTrajectory(sc.targets[index].trajectory)(tS), sc.frameRotationRad, sc.frameTranslation);
+  return positionerToRadar(makeTrajectory(sc.targets[index].trajectory)(tS - sc.positionerLagS), sc.frameRotationRad, sc.frameTranslation);
 }
 
 /** Yields the records of a run in time order (ties: detections before samples). */
@@ -49,7 +49,8 @@ export function* iterateRun(options: ScenarioOptions | ResolvedScenario): Genera
   const sc = 'sigmaAzimuthRad' in options ? options : resolveScenarioOptions(options);
   const rng = createRng(sc.seed);
   const trajectories: Trajectory[] = sc.targets.map((t) => makeTrajectory(t.trajectory));
-  const radarState = (i: number, t: number) => positionerToRadar(trajectories[i](t), sc.frameRotationRad, sc.frameTranslation);
+  const lag = sc.positionerLagS;
+  const radarState = (i: number, t: number) => positionerToRadar(trajectories[i](t - lag), sc.frameRotationRad, sc.frameTranslation);
   const ant = sc.antenna;
   const windowS = ant.mode === 'rotating' ? ant.periodS : 1;
   const inRange = (r: number) => r >= sc.minRangeM && r <= sc.maxRangeM;
@@ -57,12 +58,15 @@ export function* iterateRun(options: ScenarioOptions | ResolvedScenario): Genera
   for (let t0 = 0; t0 < sc.durationS; t0 += windowS) {
     const t1 = Math.min(t0 + windowS, sc.durationS);
     const out: { t: number; rank: number; rec: SimRecord }[] = [];
-    const emit = (t: number, x: number, y: number, pd: number, rcsM2: number, origin: (r: number, az: number) => DetectionOrigin) => {
+    const emit = (t: number, x: number, y: number, radialMps: number, pd: number, rcsM2: number, origin: (r: number, az: number) => DetectionOrigin) => {
       const truePolar = toPolar(x, y);
       if (!inRange(truePolar.rangeM) || !inSector(ant, truePolar.azimuthRad) || !rng.chance(pd)) return;
       const m = measurePolar(sc, rng, { x, y });
       const amplitude = sampleAmplitude(sc, rng, meanAmplitude(sc, rcsM2, truePolar.rangeM));
-      out.push({ t, rank: 0, rec: { kind: 'detection', detection: { timeS: t, azimuthRad: m.azimuthRad, rangeM: m.rangeM, amplitude }, origin: origin(truePolar.rangeM, truePolar.azimuthRad) } });
+      const detection: Detection = { timeS: t, azimuthRad: m.azimuthRad, rangeM: m.rangeM, amplitude };
+      const phaseRad = pulsePhase(sc, rng, radialMps);
+      if (phaseRad !== undefined) detection.phaseRad = phaseRad;
+      out.push({ t, rank: 0, rec: { kind: 'detection', detection, origin: origin(truePolar.rangeM, truePolar.azimuthRad) } });
     };
     const looks = (azimuthAt: (t: number) => number): number[] =>
       ant.mode === 'rotating' ? beamCrossings(ant.periodS, ant.startAzimuthRad, t0, t1, azimuthAt) : staringLooks(ant.rateHz, t0, t1);
@@ -72,12 +76,13 @@ export function* iterateRun(options: ScenarioOptions | ResolvedScenario): Genera
         return toPolar(s.x, s.y).azimuthRad;
       })) {
         const s = radarState(i, t);
-        emit(t, s.x, s.y, target.pd, target.rcsM2, (r, az) => ({ kind: 'target', targetId: target.id, trueRangeM: r, trueAzimuthRad: az }));
+        const radial = (s.x * s.vx + s.y * s.vy) / Math.max(Math.hypot(s.x, s.y), 1e-9);
+        emit(t, s.x, s.y, radial, target.pd, target.rcsM2, (r, az) => ({ kind: 'target', targetId: target.id, trueRangeM: r, trueAzimuthRad: az }));
       }
     });
     sc.fixedEchoes.forEach((echo, index) => {
       const az = toPolar(echo.x, echo.y).azimuthRad;
-      for (const t of looks(() => az)) emit(t, echo.x, echo.y, echo.pd, echo.rcsM2, (r, a) => ({ kind: 'fixed-echo', index, trueRangeM: r, trueAzimuthRad: a }));
+      for (const t of looks(() => az)) emit(t, echo.x, echo.y, 0, echo.pd, echo.rcsM2, (r, a) => ({ kind: 'fixed-echo', index, trueRangeM: r, trueAzimuthRad: a }));
     });
     // False alarms: a Poisson number per window, uniform over range and over the covered azimuths
     // (uniform per resolution cell, which is how a CFAR detector's false alarms fall).
@@ -95,13 +100,15 @@ export function* iterateRun(options: ScenarioOptions | ResolvedScenario): Genera
         azimuthRad = wrapTwoPi(ant.centerAzimuthRad + rng.between(-0.5, 0.5) * ant.sectorRad);
         t = rng.between(t0, t1);
       }
-      out.push({ t, rank: 0, rec: { kind: 'detection', detection: { timeS: t, azimuthRad, rangeM, amplitude: falseAlarmAmplitude(sc, rng) }, origin: { kind: 'false-alarm' } } });
+      const detection: Detection = { timeS: t, azimuthRad, rangeM, amplitude: falseAlarmAmplitude(sc, rng) };
+      if (sc.phase) detection.phaseRad = rng.between(-Math.PI, Math.PI); // noise has no Doppler
+      out.push({ t, rank: 0, rec: { kind: 'detection', detection, origin: { kind: 'false-alarm' } } });
     }
     for (; truthIndex / sc.truthRateHz <= t1 + 1e-12; truthIndex++) {
       const t = truthIndex / sc.truthRateHz;
       sc.targets.forEach((target, i) => {
         const p = trajectories[i](t);
-        const s = positionerToRadar(p, sc.frameRotationRad, sc.frameTranslation);
+        const s = positionerToRadar(lag > 0 ? trajectories[i](t - lag) : p, sc.frameRotationRad, sc.frameTranslation);
         out.push({ t, rank: 1, rec: { kind: 'truth', sample: { timeS: t, targetId: target.id, x: s.x, y: s.y, vx: s.vx, vy: s.vy } } });
         out.push({ t, rank: 2, rec: { kind: 'commanded', targetId: target.id, point: { timeS: t, x: p.x, y: p.y } } });
       });

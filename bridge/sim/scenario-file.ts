@@ -59,6 +59,8 @@ export const scenarioSchema = z.object({
   noiseAmplitude: z.number().min(0).optional(),
   fluctuating: z.boolean().optional(),
   truthRateHz: positive.optional(),
+  positionerLagS: z.number().min(0).optional(),
+  phase: z.object({ prfHz: positive, wavelengthM: positive.optional(), sigmaDeg: z.number().min(0).optional() }).strict().optional(),
 }).strict();
 
 /** Validates parsed JSON as a scenario; throws E_OPTION naming the first bad field. */

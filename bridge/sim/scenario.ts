@@ -103,6 +103,19 @@ export interface ScenarioOptions {
   fluctuating?: boolean;
   /** Sample rate of the truth and commanded outputs, Hz (default 10). */
   truthRateHz?: number;
+  /** The positioner follows its command this late, s: truth(t) = command(t − lag) (default 0). */
+  positionerLagS?: number;
+  /** Pulse-to-pulse phase on each detection (Detection.phaseRad); absent = none. */
+  phase?: PhaseOptions;
+}
+
+export interface PhaseOptions {
+  /** Pulse repetition frequency, Hz: the phase step is taken over 1/PRF. */
+  prfHz: number;
+  /** Wavelength, m (default 0.0318928, 9.4 GHz). */
+  wavelengthM?: number;
+  /** Phase noise std, degrees (default 5). */
+  sigmaDeg?: number;
 }
 
 export interface ResolvedTarget {
@@ -146,6 +159,8 @@ export interface ResolvedScenario {
   noiseAmplitude: number;
   fluctuating: boolean;
   truthRateHz: number;
+  positionerLagS: number;
+  phase: { prfHz: number; wavelengthM: number; sigmaRad: number } | null;
 }
 
 const DEG = Math.PI / 180;
@@ -203,5 +218,8 @@ export function resolveScenarioOptions(o: ScenarioOptions = {}): ResolvedScenari
     noiseAmplitude: Math.max(0, o.noiseAmplitude ?? 1),
     fluctuating: o.fluctuating ?? false,
     truthRateHz: positive('truthRateHz', o.truthRateHz ?? 10),
+    positionerLagS: Math.max(0, o.positionerLagS ?? 0),
+    // λ = c/f at 9.4 GHz (c exact, SI): 0.0318928 m (reference-values.md).
+    phase: o.phase ? { prfHz: positive('phase.prfHz', o.phase.prfHz), wavelengthM: positive('phase.wavelengthM', o.phase.wavelengthM ?? 299_792_458 / 9.4e9), sigmaRad: Math.max(0, o.phase.sigmaDeg ?? 5) * DEG } : null,
   };
 }

@@ -128,3 +128,37 @@ describe('simulateRun outputs', () => {
     expect(run.detections).toHaveLength(0);
   });
 });
+
+describe('positioner lag and pulse phase', () => {
+  it('truth follows the command late by the positioner lag', () => {
+    const traj = { kind: 'circle' as const, center: { x: 0, y: 3 }, radiusM: 0.5, periodS: 10 };
+    const run = simulateRun({ durationS: 5, positionerLagS: 0.4, targets: [{ trajectory: traj }] });
+    const cmd = run.commanded[0].points;
+    // truth at t = 2.0 s (index 20) equals the command at 1.6 s (index 16)
+    expect(run.truth[20].x).toBeCloseTo(cmd[16].x, 12);
+    expect(run.truth[20].y).toBeCloseTo(cmd[16].y, 12);
+  });
+
+  it('phase step gives back the radial velocity, aliased beyond ±λ·PRF/4', () => {
+    // Radar facts (reference-values.md): λ(9.4 GHz) = 0.0318928 m; v = λ·Δφ/(4π·T);
+    // PRF 144 Hz → unambiguous ±1.148 m/s (AMS Glossary, "maximum unambiguous velocity");
+    // f_d = 2v/λ: 0.5 m/s → 31.355 Hz, i.e. Δφ = 2π·31.355/144 = 1.3681 rad per pulse.
+    const lambda = 299_792_458 / 9.4e9; // c/f, c exact (SI)
+    expect(lambda).toBeCloseTo(0.0318928, 7);
+    const prf = 144;
+    const radial = (speed: number) =>
+      simulateRun({
+        durationS: 3, falseAlarmRateHz: 0, pd: 1, phase: { prfHz: prf, sigmaDeg: 0 },
+        antenna: { mode: 'staring', rateHz: 50 },
+        targets: [{ trajectory: { kind: 'line', from: { x: 0, y: 1 }, to: { x: 0, y: 1 + speed * 10 }, speedMps: speed } }],
+      }).detections.map((d) => (lambda * (d.phaseRad as number) * prf) / (4 * Math.PI));
+    const slow = radial(0.5);
+    expect(slow.length).toBeGreaterThan(100);
+    for (const v of slow) expect(v).toBeCloseTo(0.5, 9);
+    const first = simulateRun({ durationS: 1, falseAlarmRateHz: 0, pd: 1, phase: { prfHz: prf, sigmaDeg: 0 }, antenna: { mode: 'staring', rateHz: 50 }, targets: [{ trajectory: { kind: 'line', from: { x: 0, y: 1 }, to: { x: 0, y: 6 }, speedMps: 0.5 } }] }).detections[0];
+    expect(first.phaseRad).toBeCloseTo(1.3681, 3);
+    const vmax = (lambda * prf) / 4;
+    expect(vmax).toBeCloseTo(1.148, 3);
+    for (const v of radial(1.5)) expect(v).toBeCloseTo(1.5 - 2 * vmax, 9);
+  });
+});
