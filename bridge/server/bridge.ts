@@ -62,11 +62,13 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
   const o: ResolvedBridgeOptions = { ...resolved, token: resolved.requireToken ? (resolved.token ?? randomBytes(18).toString('base64url')) : resolved.token };
   const started = performance.now();
 
-  const trackerFactory = o.createTracker ?? (await loadTrackerFactory().catch(() => null));
+  // Loaded now, but a failure only matters once a source without tracks needs the tracker.
+  let trackerLoadError: Error | null = null;
+  const trackerFactory = o.createTracker ?? (await loadTrackerFactory().catch((e: Error) => ((trackerLoadError = e), null)));
 
   const pipeline = new Pipeline({
     createTracker: () => {
-      if (!trackerFactory) throw new Error('no tracker available (bridge/tracking/tracker.ts missing) and the source carries no tracks');
+      if (!trackerFactory) throw trackerLoadError ?? new EchotrailError('E_OPTION', 'no tracker available');
       return trackerFactory(o.trackerOptions);
     },
     createRecorder: o.record
@@ -110,7 +112,7 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
     pingIntervalMs: o.pingIntervalMs,
     hello: () => pipeline.hello(),
     snapshot: () => pipeline.snapshot(),
-    onClientMessage: (msg, reply) => handleClientMessage({ pipeline, openSession, sessions, broadcast: (m) => hub.broadcast(m) }, msg, reply),
+    onClientMessage: (msg, reply) => handleClientMessage({ pipeline, openSession, sessions }, msg, reply),
   });
   pipeline.on('scan', (scan) => hub.broadcast(scan));
   pipeline.on('message', (msg) => hub.broadcast(msg));

@@ -12,9 +12,8 @@ export interface ControlContext {
   pipeline: Pipeline;
   /** Opens a session from the sessions folder as the new source. */
   openSession(sessionId: string): Promise<void>;
+  /** The session list (recorded and demo sessions). */
   sessions(): Promise<SessionInfo[]>;
-  /** Replies to every client (session list changes concern all dashboards). */
-  broadcast(msg: ServerMessage): void;
 }
 
 function need(value: number | undefined, action: string, lo: number, hi: number): number {
