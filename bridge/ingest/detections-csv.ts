@@ -134,16 +134,26 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
     };
     // Pull records synchronously with read() and hand them over in arrays: one await per chunk
     // instead of one per row.
-    for (;;) {
-      const out: Detection[] = [];
-      let rec: string[] | null;
-      while ((rec = parser.read() as string[] | null) !== null) handle(rec, out);
-      if (out.length) yield out;
-      if (failure) throw failure;
-      if (ended) break;
-      if (out.length === 0) {
-        await new Promise<void>((resolve) => (wake = resolve));
-        wake = null;
+    try {
+      for (;;) {
+        const out: Detection[] = [];
+        let rec: string[] | null;
+        while ((rec = parser.read() as string[] | null) !== null) handle(rec, out);
+        if (out.length) yield out;
+        if (failure) throw failure;
+        if (ended) break;
+        if (out.length === 0) {
+          await new Promise<void>((resolve) => (wake = resolve));
+          wake = null;
+        }
+      }
+    } finally {
+      // The consumer stopped early or an error ended the read: release the file (a stream the
+      // caller handed in is only unpiped; it is theirs to close).
+      if (!ended) {
+        source.unpipe(parser);
+        parser.destroy();
+        if (typeof input === 'string' && input !== '-') (source as ReturnType<typeof createReadStream>).destroy();
       }
     }
     if (!col) throw new EchotrailError('E_INPUT_EMPTY', `${name} is empty: expected a header row time_s,azimuth_deg,range_m,amplitude and data rows`);

@@ -138,6 +138,27 @@ describe('readDetectionsCsv', () => {
   });
 });
 
+describe('readDetectionsCsv early exit', () => {
+  it('stops cleanly when the consumer breaks off; a stream handed in stays the caller\'s', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-csv-'));
+    const path = join(dir, 'many.csv');
+    await writeFile(path, 'time_s,azimuth_deg,range_m,amplitude\n' + Array.from({ length: 200_000 }, (_, i) => `${i},1,2,3`).join('\n') + '\n');
+    const input = (await import('node:fs')).createReadStream(path);
+    let n = 0;
+    for await (const _ of readDetectionsCsv(input)) if (++n === 10) break;
+    expect(n).toBe(10);
+    // the caller's stream is unpiped, not destroyed: it can still be closed by its owner
+    expect(input.destroyed).toBe(false);
+    input.destroy();
+    // and a path opened by the reader is released: reading it again works from the start
+    const again = readDetectionsCsv(path);
+    for await (const d of again) {
+      expect(d.timeS).toBe(0);
+      break;
+    }
+  });
+});
+
 describe('writeDetectionsCsv', () => {
   it('round-trips through the reader at the written resolution', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'echotrail-csv-'));
