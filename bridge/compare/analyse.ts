@@ -7,10 +7,10 @@ import { EchotrailError } from '../errors.ts';
 import { coverageOf, type Coverage } from './coverage.ts';
 import { deviations, type Deviation } from './deviation.ts';
 import { resolveFollowOptions, TrackFollower, type FollowOptions, type FollowSwitch } from './follow.ts';
-import { estimateLag, type LagEstimate, type LagOptions } from './lag.ts';
-import { findLegs, type Leg, type LegOptions } from './legs.ts';
+import { estimateLag, resolveLagOptions, type LagEstimate, type LagOptions } from './lag.ts';
+import { findLegs, resolveLegOptions, type Leg, type LegOptions } from './legs.ts';
 import { resolveMultiOptions, setMetricSeries, summariseSetSeries, type MultiOptions, type SetSample, type SetSummary } from './multi.ts';
-import { smoothTrack, type SmoothedState, type SmootherOptions } from './smoother.ts';
+import { resolveSmootherOptions, smoothTrack, type SmoothedState, type SmootherOptions } from './smoother.ts';
 import { summarise, type DeviationSummary } from './stats.ts';
 import { sampleAt, timeSpan, type TimedPath } from './timed-path.ts';
 import type { TrackRow } from './track-rows.ts';
@@ -26,9 +26,27 @@ export interface AnalyseOptions {
   minOverlap: number;
 }
 
-/** Defaults in one place. */
-export function resolveAnalyseOptions(o: Partial<AnalyseOptions> = {}): AnalyseOptions {
-  return { follow: o.follow ?? {}, lag: o.lag ?? {}, legs: o.legs ?? {}, smoother: o.smoother ?? {}, multi: o.multi ?? {}, minOverlap: o.minOverlap ?? 0.5 };
+/** The settings as used: every module's defaults filled in. */
+export interface ResolvedAnalyseOptions {
+  follow: FollowOptions;
+  lag: LagOptions;
+  legs: LegOptions;
+  smoother: SmootherOptions;
+  multi: Partial<MultiOptions>;
+  minOverlap: number;
+}
+
+/** Defaults in one place (each module's own resolver). The lag's outlier distance defaults to the follow gate. */
+export function resolveAnalyseOptions(o: Partial<AnalyseOptions> = {}): ResolvedAnalyseOptions {
+  const follow = resolveFollowOptions(o.follow);
+  return {
+    follow,
+    lag: resolveLagOptions({ inlierM: follow.gateM, ...o.lag }),
+    legs: resolveLegOptions(o.legs),
+    smoother: resolveSmootherOptions(o.smoother),
+    multi: o.multi ?? {},
+    minOverlap: o.minOverlap ?? 0.5,
+  };
 }
 
 /** Deviations with and without the lag. */
@@ -63,6 +81,8 @@ export interface Analysis {
   setSummary: SetSummary;
   /** Settings the set metrics were computed with (cut-off, order, grid). */
   setOptions: MultiOptions;
+  /** Every other setting as used. */
+  settings: ResolvedAnalyseOptions;
   trackIds: number[];
 }
 
@@ -114,10 +134,9 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
   checkOverlap(path, rows, o.minOverlap);
   let chosen = follow(path, rows, 0, o.follow);
   if (chosen.rows.length < 2) {
-    throw new EchotrailError('E_PATH', `no confirmed track came within ${resolveFollowOptions(o.follow).gateM} m of the commanded path; check the frame (calibration) or widen the follow gate`);
+    throw new EchotrailError('E_PATH', `no confirmed track came within ${o.follow.gateM} m of the commanded path; check the frame (calibration) or widen the follow gate`);
   }
-  // Outliers for the lag: samples beyond the follow gate once the first estimate is removed.
-  const lag = estimateLag(path, chosen.rows, { inlierM: resolveFollowOptions(o.follow).gateM, ...o.lag });
+  const lag = estimateLag(path, chosen.rows, o.lag);
   const lagS = lag.lagS ?? 0;
   // With the lag known, pick again: a late track sits a lag's distance behind the commanded point.
   if (lagS !== 0) chosen = follow(path, rows, lagS, o.follow);
@@ -149,6 +168,7 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
     sets,
     setSummary: summariseSetSeries(sets),
     setOptions,
+    settings: o,
     trackIds: [...new Set(rows.map((r) => r.id))].sort((a, b) => a - b),
   };
 }

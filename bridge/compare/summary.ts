@@ -51,7 +51,8 @@ export function buildSummary(a: Analysis, meta: SummaryMeta): Record<string, unk
       filtered: l.filtered,
       smoothed: l.smoothed,
     })),
-    multi_target: a.setSummary,
+    multi_target: { ...a.setSummary, settings: a.setOptions },
+    settings: { follow: a.settings.follow, lag: a.settings.lag, legs: a.settings.legs, smoother: a.settings.smoother, min_overlap: a.settings.minOverlap },
     units: {
       position: 'm', along: 'm, ahead of the commanded point positive', cross: 'm, left of the commanded direction positive',
       speed: 'm/s, track minus commanded', headingDeg: 'degrees, track minus commanded, clockwise positive',

@@ -147,7 +147,7 @@ ${legTable(a)}
 ${figure(`OSPA (Schuhmacher, Vo & Vo 2008) and GOSPA with α = 2 (Rahmathullah, García-Fernández & Svensson 2017), c = ${cell(a.setOptions.cutoffM, 2)} m, p = ${a.setOptions.order}, grid ${cell(a.setOptions.stepS, 2)} s, every track confirmed or coasting. The GOSPA parts are drawn as square roots so that they share the metre scale.`, setPlot,
     [{ name: 'GOSPA', color: C.smo }, { name: 'OSPA', color: C.cmd }, { name: 'localisation', color: C.alt, dash: true }, { name: 'missed', color: C.miss, dash: true }, { name: 'false', color: C.fal, dash: true }])}
 <p class="note">Means over ${a.setSummary.samples} instants: OSPA ${cell(a.setSummary.meanOspaM)} m, GOSPA ${cell(a.setSummary.meanGospaM)} m; GOSPA² parts: localisation ${cell(a.setSummary.meanLocalisation, 4)}, missed ${cell(a.setSummary.meanMissed, 4)}, false ${cell(a.setSummary.meanFalse, 4)} m².</p>
-<footer>echotrail compare · generated ${esc(o.generatedUtc)} · smoother: fixed-interval Rauch–Tung–Striebel (1965) over a constant-velocity Kalman filter run on the tracker's measurements · all positions in the radar frame (x = r·sin az, y = r·cos az).</footer>
+<footer>echotrail compare · generated ${esc(o.generatedUtc)} · settings: follow gate ${a.settings.follow.gateM} m, release ${a.settings.follow.releaseM} m, lag search ±${a.settings.lag.maxLagS} s (step ${a.settings.lag.stepS} s), smoother q̃ ${a.settings.smoother.accelPsd} m²/s³, corner ${a.settings.legs.cornerDeg}° · smoother: fixed-interval Rauch–Tung–Striebel (1965) over a constant-velocity Kalman filter run on the tracker's measurements · all positions in the radar frame (x = r·sin az, y = r·cos az).</footer>
 </main></body></html>
 `;
 }
