@@ -11,7 +11,7 @@ import { cvModel } from '../../bridge/compare/smoother.ts';
 import { sampleAt, type TimedPath } from '../../bridge/compare/timed-path.ts';
 import type { TrackRow } from '../../bridge/compare/track-rows.ts';
 
-/** Mulberry32: small seeded PRNG (public-domain algorithm by Tommy Ettinger; common practice in tests). */
+/** Mulberry32: small seeded PRNG (public-domain algorithm, attributed to Tommy Ettinger from memory; common practice in tests). */
 export function prng(seed: number): () => number {
   let a = seed >>> 0;
   return () => {
