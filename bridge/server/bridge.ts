@@ -110,6 +110,7 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
     resumeBufferedBytes: o.resumeBufferedBytes,
     maxLagMs: o.maxLagMs,
     pingIntervalMs: o.pingIntervalMs,
+    maxMessagesPerSecond: o.maxMessagesPerSecond,
     hello: () => pipeline.hello(),
     snapshot: () => pipeline.snapshot(),
     onClientMessage: (msg, reply) => handleClientMessage({ pipeline, openSession, sessions }, msg, reply),

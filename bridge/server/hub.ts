@@ -18,6 +18,8 @@ export interface HubOptions {
   maxLagMs: number;
   /** Ping interval; no pong by the next ping drops the client, ms. */
   pingIntervalMs: number;
+  /** Most control messages a client may send per second; the excess is refused (a seek re-tracks, an open indexes a file). */
+  maxMessagesPerSecond?: number;
   /** The messages a client gets on connect and on resync (hello is sent once). */
   snapshot: () => ServerMessage;
   hello: () => ServerMessage;
@@ -47,6 +49,9 @@ class Client {
    * on catching up, and never see a scan.
    */
   allowance = 0;
+  /** Start of the current one-second window of incoming messages, and the count in it. */
+  windowStart = 0;
+  windowCount = 0;
   constructor(readonly ws: WebSocket) {}
 }
 
@@ -127,6 +132,18 @@ export class Hub {
       this.stats.badMessages++;
       this.reply(c, { type: 'error', code, message });
     };
+    const now = Date.now();
+    if (now - c.windowStart >= 1000) {
+      c.windowStart = now;
+      c.windowCount = 0;
+    }
+    const limit = this.o.maxMessagesPerSecond ?? 50;
+    if (++c.windowCount > limit) {
+      // One answer per window is enough; the rest are counted and ignored.
+      this.stats.badMessages++;
+      if (c.windowCount === limit + 1) this.reply(c, { type: 'error', code: 'E_PROTOCOL', message: `more than ${limit} messages in a second; the rest of this second is ignored` });
+      return;
+    }
     if (isBinary) return fail('E_PROTOCOL', 'binary frames are not accepted; send JSON text');
     let parsed: unknown;
     try {

@@ -80,6 +80,8 @@ export interface BridgeOptions {
   pingIntervalMs: number;
   /** Largest accepted client frame, bytes; larger frames close the socket with 1009. Default 4096. */
   maxPayloadBytes: number;
+  /** Most control messages a client may send per second; the excess is refused. Default 50. */
+  maxMessagesPerSecond: number;
   /** Positions kept per track for the snapshot history. Default 600. */
   historyPoints: number;
   /** Seconds of recent detections kept for the snapshot. Default 4. */
@@ -137,6 +139,7 @@ export function resolveBridgeOptions(input: Partial<BridgeOptions> = {}): Resolv
     maxLagMs: input.maxLagMs ?? 15_000,
     pingIntervalMs: input.pingIntervalMs ?? 15_000,
     maxPayloadBytes: input.maxPayloadBytes ?? 4096,
+    maxMessagesPerSecond: input.maxMessagesPerSecond ?? 50,
     historyPoints: input.historyPoints ?? 600,
     recentDetectionsS: input.recentDetectionsS ?? 4,
     maxRecentDetections: input.maxRecentDetections ?? 20_000,

@@ -105,4 +105,16 @@ describe('Hub lag rules', () => {
     expect(s.terminated).toBe(true);
     expect(h.stats).toMatchObject({ dropped: 1, clients: 0 });
   });
+
+  it('answers a message flood once per second and ignores the excess', async () => {
+    const handled: string[] = [];
+    const h = hub(100, { maxMessagesPerSecond: 5, onClientMessage: (m) => void handled.push(m.type) });
+    const s = new FakeSocket();
+    h.add(s as unknown as WebSocket);
+    for (let i = 0; i < 20; i++) s.emit('message', Buffer.from('{"type":"list-sessions"}'), false);
+    await tick();
+    expect(handled).toHaveLength(5);
+    expect(s.sent.filter((m) => m.type === 'error' && m.code === 'E_PROTOCOL')).toHaveLength(1);
+    expect(h.stats.badMessages).toBe(15);
+  });
 });
