@@ -18,6 +18,8 @@ export interface DetectionsCsvOptions {
   maxRangeM?: number;
   /** Amplitude to use when the file has no `amplitude` column; unset means the column is required. */
   defaultAmplitude?: number;
+  /** A row more than this far ahead of the next one, which falls back between it and the row before, is a bad timestamp and is skipped, s (default 1). */
+  spikeS?: number;
 }
 
 export interface SkipReport {
@@ -38,8 +40,8 @@ export interface DetectionsCsvReader extends AsyncIterable<Detection> {
   batches(): AsyncIterable<Detection[]>;
 }
 
-export function resolveDetectionsCsvOptions(o: DetectionsCsvOptions = {}): { maxRangeM: number; defaultAmplitude: number | null } {
-  return { maxRangeM: o.maxRangeM ?? 1000, defaultAmplitude: o.defaultAmplitude ?? null };
+export function resolveDetectionsCsvOptions(o: DetectionsCsvOptions = {}): { maxRangeM: number; defaultAmplitude: number | null; spikeS: number } {
+  return { maxRangeM: o.maxRangeM ?? 1000, defaultAmplitude: o.defaultAmplitude ?? null, spikeS: o.spikeS ?? 1 };
 }
 
 const REQUIRED = ['time_s', 'azimuth_deg', 'range_m', 'amplitude'] as const;
@@ -94,7 +96,26 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
     parser.on('error', (err: Error) => ((failure = err), wake?.()));
     source.pipe(parser);
     let col: Record<(typeof REQUIRED)[number], number> | null = null;
+    // Time order: each good row is held back until the next one arrives, so that one corrupted
+    // timestamp far in the future (…, 12.0, 9e6, 12.1, …) is what gets skipped, not everything after it.
     let lastTime = -Infinity;
+    let held: Detection | null = null;
+    const release = (d: Detection, out: Detection[]) => {
+      lastTime = d.timeS;
+      report.accepted++;
+      out.push(d);
+    };
+    const order = (d: Detection, out: Detection[]) => {
+      if (held && d.timeS >= held.timeS) {
+        release(held, out);
+        held = d;
+      } else if (held && d.timeS >= lastTime && held.timeS - d.timeS > opts.spikeS) {
+        skip(held.line as number, 'time jumps ahead', `time_s ${held.timeS} jumps ahead of the rows around it (next ${d.timeS})`);
+        held = d;
+      } else if (held || d.timeS < lastTime) {
+        skip(d.line as number, 'time going backwards', `time_s ${d.timeS} is earlier than the previous row's ${held ? held.timeS : lastTime}`);
+      } else held = d;
+    };
     let nextLine = 1;
     const cell = (record: string[], c: number) => JSON.stringify((record[c] ?? '').slice(0, 40));
     const handle = (record: string[], out: Detection[]) => {
@@ -123,13 +144,10 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
       else if (t < 0) skip(line, 'negative time', `time_s ${t} is negative`);
       else if (r < 0 || r > opts.maxRangeM) skip(line, 'range out of bounds', `range_m ${r} is outside 0–${opts.maxRangeM} m`);
       else if (a <= 0) skip(line, 'amplitude not positive', `amplitude ${a} is not positive`);
-      else if (t < lastTime) skip(line, 'time going backwards', `time_s ${t} is earlier than the previous row's ${lastTime}`);
       else {
-        lastTime = t;
-        report.accepted++;
         let rad = (((az % 360) + 360) % 360) * DEG;
         if (rad >= TWO_PI) rad = 0; // rounding of a tiny negative angle
-        out.push({ timeS: t, azimuthRad: rad, rangeM: r, amplitude: a, line });
+        order({ timeS: t, azimuthRad: rad, rangeM: r, amplitude: a, line }, out);
       }
     };
     // Pull records synchronously with read() and hand them over in arrays: one await per chunk
@@ -141,7 +159,15 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
         while ((rec = parser.read() as string[] | null) !== null) handle(rec, out);
         if (out.length) yield out;
         if (failure) throw failure;
-        if (ended) break;
+        if (ended) {
+          if (held) {
+            const last: Detection[] = [];
+            release(held, last);
+            held = null;
+            yield last;
+          }
+          break;
+        }
         if (out.length === 0) {
           await new Promise<void>((resolve) => (wake = resolve));
           wake = null;

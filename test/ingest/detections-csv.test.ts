@@ -66,6 +66,15 @@ describe('readDetectionsCsv', () => {
     expect(formatSkipReport(report)).toBe('9 rows skipped: first at line 3: azimuth_deg "abc" is not a number');
   });
 
+  it('one far-future timestamp is skipped, not every row after it', async () => {
+    const text = 'time_s,azimuth_deg,range_m,amplitude\n10,1,2,3\n10.5,1,2,3\n9000000,1,2,3\n11,1,2,3\n11.5,1,2,3\n11.2,1,2,3\n12,1,2,3\n';
+    const { rows, report } = await readAll(text);
+    expect(rows.map((r) => r.timeS)).toEqual([10, 10.5, 11, 11.5, 12]);
+    expect(Object.fromEntries(report.reasons)).toEqual({ 'time jumps ahead': 1, 'time going backwards': 1 });
+    expect(report.firstSkipped?.line).toBe(4);
+    expect(report.accepted + report.skipped).toBe(report.rows);
+  });
+
   it('counts lines through blank lines and quoted line breaks in ignored columns', async () => {
     const text = 'time_s,azimuth_deg,range_m,amplitude,note\n\n0,1,2,3,"two\nlines"\n1,1,x,3,plain\n\n2,1,2,3,\n';
     const { rows, report } = await readAll(text);
@@ -107,17 +116,17 @@ describe('readDetectionsCsv', () => {
 
   it('streams: rows come out before the input has ended', async () => {
     // csv-parse holds the newest line until the next bytes arrive (it cannot yet tell whether the
-    // line break is complete), so a row is released once the following line is written.
+    // line break is complete), and the reader holds one good row for its time-order check, so a
+    // row is released two lines later.
     const input = new PassThrough();
     const reader = readDetectionsCsv(input);
     const it = reader[Symbol.asyncIterator]();
-    input.write('time_s,azimuth_deg,range_m,amplitude\n0,1,2,3\n1,1,2,3\n');
+    input.write('time_s,azimuth_deg,range_m,amplitude\n0,1,2,3\n1,1,2,3\n2,1,2,3\n');
     const first = await it.next();
     expect(first.value).toMatchObject({ timeS: 0, rangeM: 2 });
     expect(input.writableEnded).toBe(false);
-    input.end('2,1,2,3\n');
-    expect((await it.next()).value).toMatchObject({ timeS: 1 });
-    expect((await it.next()).value).toMatchObject({ timeS: 2 });
+    input.end('3,1,2,3\n');
+    for (const t of [1, 2, 3]) expect((await it.next()).value).toMatchObject({ timeS: t });
     expect((await it.next()).done).toBe(true);
   });
 
