@@ -135,4 +135,28 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
     expect(await page.locator('[role=dialog]').count()).toBe(0);
     expect(pageErrors).toEqual([]);
   });
+
+  it('runs the guided calibration against the bridge: guide, capture, fit', async () => {
+    // The turntable reflector moves, so a fit of offsets at one fixed spot must be refused by the
+    // calibration API with a coded message, and the panel must show that message as it is.
+    await page.click('[data-testid=open-calibration]');
+    const dialog = page.locator('[data-testid=calibration]');
+    await dialog.locator('.steps li').first().waitFor();
+    await dialog.getByRole('button', { name: '● Start capture' }).click();
+    // Keys inside the dialog belong to it; with focus outside, Space resumes the replay.
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await page.keyboard.press(' ');
+    await page.locator('[data-testid=source-status] [data-state="replay-playing"]').waitFor();
+    await page.waitForFunction(() => /([1-9]\d{2,}) detections/.test(document.querySelector('[data-testid=calibration]')?.textContent ?? ''), undefined, { timeout: 60_000 });
+    await dialog.getByRole('button', { name: '■ Stop capture' }).click();
+    await dialog.getByLabel('x, metres').fill('0');
+    await dialog.getByLabel('y, metres').fill('3.5');
+    await dialog.getByRole('button', { name: 'Fit range / azimuth offsets' }).click();
+    const refusal = page.locator('[data-testid=calibration-error]');
+    await refusal.waitFor();
+    expect(await refusal.innerText()).toMatch(/^E_[A-Z_]+: .+/);
+    expect(await page.locator('[data-testid=calibration-result]').count()).toBe(0);
+    await page.screenshot({ path: join(artifacts, 'dashboard-e2e-calibration.png') });
+    await page.keyboard.press('Escape');
+  });
 });

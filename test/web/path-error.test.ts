@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { commandedAt, errorSeries } from '../../web/src/stream/path-error.ts';
 import { HistoryRing } from '../../web/src/stream/ring.ts';
+import { pathWindow } from '../../web/src/plan/path-window.ts';
 
 const path = [{ timeS: 0, x: 0, y: 1 }, { timeS: 2, x: 2, y: 1 }, { timeS: 4, x: 2, y: 3 }];
 
@@ -23,5 +24,15 @@ describe('commanded path error', () => {
     expect(e.t).toEqual([0, 0.5, 1, 1.5, 2, 2.5, 3, 3.5, 4]);
     for (const v of e.v) expect(v).toBeCloseTo(0.1, 12);
     expect(errorSeries(h, path, 3).t).toEqual([3, 3.5, 4]);
+  });
+});
+
+describe('commanded path window', () => {
+  const p = Array.from({ length: 11 }, (_, i) => ({ timeS: i, x: i, y: 0 }));
+  it('keeps the points inside the window and one on each side', () => {
+    expect(pathWindow(p, 3.5, 6).map((q) => q.timeS)).toEqual([3, 4, 5, 6, 7]);
+    expect(pathWindow(p, -Infinity, Infinity)).toHaveLength(11);
+    expect(pathWindow(p, 20, 30).map((q) => q.timeS)).toEqual([10]);
+    expect(pathWindow([], 0, 1)).toEqual([]);
   });
 });

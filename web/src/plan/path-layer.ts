@@ -8,6 +8,7 @@ import type { PathPointWire } from '../../../bridge/server/protocol.ts';
 import type { DashboardState } from '../stream/state.ts';
 import { antennaColour, commandedColour, trackColour } from './palette.ts';
 import { type View, toScreen } from './view.ts';
+import { PATH_AHEAD_S, pathWindow } from './path-window.ts';
 
 const DASH_PX = 8;
 const GAP_PX = 6;
@@ -23,10 +24,15 @@ export class PathLayer {
   }
 
   update(view: View, state: DashboardState, coverageM: number, selectedId: number | null, trailFromS: number): void {
-    const key = `${state.commandedVersion},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height}`;
+    // Only the part of the commanded path from the trail start to a little ahead of now: a looping
+    // path drawn whole would stack its laps on top of each other. The window moves in whole
+    // seconds so the path is rebuilt about once a second, not every frame.
+    const from = Number.isFinite(trailFromS) ? Math.floor(trailFromS) : -Infinity;
+    const to = Number.isFinite(trailFromS) ? Math.ceil(state.timeS) + PATH_AHEAD_S : Infinity;
+    const key = `${state.commandedVersion},${from},${to},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height}`;
     if (key !== this.pathKey) {
       this.pathKey = key;
-      drawDashed(this.path.clear(), view, state.commanded);
+      drawDashed(this.path.clear(), view, pathWindow(state.commanded, from, to));
     }
     const g = this.live.clear();
     const sel = selectedId === null ? undefined : state.tracks.get(selectedId);

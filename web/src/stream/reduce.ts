@@ -38,6 +38,10 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       if (msg.timeS < state.timeS - BACKWARD_JUMP_S) restart(state, msg.timeS);
       state.timeS = Math.max(state.timeS, msg.timeS);
       for (const d of msg.detections) addDetection(state, d.timeS, d.azimuthRad, d.rangeM, d.fixed ?? false);
+      if (state.capture.active) {
+        const room = state.capture.limit - state.capture.detections.length;
+        if (room > 0) state.capture.detections.push(...msg.detections.slice(0, room));
+      }
       for (const w of msg.updates) {
         let entry = state.tracks.get(w.id);
         if (!entry) {

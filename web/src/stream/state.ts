@@ -6,7 +6,7 @@
  * through a reactivity system.
  */
 import type {
-  ComparisonFigures, PathPointWire, ReplayState, SessionInfo, SourceStatus, TrackWire,
+  ComparisonFigures, DetectionWire, PathPointWire, ReplayState, SessionInfo, SourceStatus, TrackWire,
 } from '../../../bridge/server/protocol.ts';
 import { HistoryRing } from './ring.ts';
 
@@ -51,6 +51,12 @@ export interface DashboardState {
   /** Frames refused by the schema (never applied); shown in the status panel. */
   invalidFrames: number;
   lastInvalid: string | null;
+  /**
+   * Detections collected for the calibration panel while `capture.active`; kept across seeks
+   * (their times say where they came from) and capped so a request stays under the bridge's
+   * body limit.
+   */
+  capture: { active: boolean; detections: DetectionWire[]; limit: number };
   /** Bumps when the picture restarts (snapshot, seek, jump back in time). */
   epoch: number;
   /** Bumps when the fixed-echo map or commanded path changes, so layers rebuild only then. */
@@ -81,6 +87,7 @@ export function createState(): DashboardState {
     detections: [], fixedEchoes: [], commanded: [], antennaAzimuthRad: null, positioner: null,
     replay: null, comparison: null, comparisonHistory: [], sessions: [], lastError: null,
     invalidFrames: 0, lastInvalid: null, epoch: 0, fixedVersion: 0, commandedVersion: 0,
+    capture: { active: false, detections: [], limit: 12_000 },
   };
 }
 

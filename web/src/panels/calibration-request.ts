@@ -1,0 +1,102 @@
+/**
+ * Requests to and answers from POST /api/calibrate (shapes defined by bridge/calibrate/api.ts),
+ * kept pure so they can be tested. Degrees at this edge, as the calibration API expects.
+ */
+import { z } from 'zod';
+import type { DetectionWire, PathPointWire } from '../../../bridge/server/protocol.ts';
+
+export interface MeasuredSpot {
+  label: string;
+  /** Tape-measured position, metres (x across, y along the antenna zero). */
+  x: number;
+  y: number;
+  /** Optional run-time span the reflector stood there, seconds. */
+  fromS?: number;
+  toS?: number;
+}
+
+const DEG = 180 / Math.PI;
+const round = (v: number, digits: number) => Number(v.toFixed(digits));
+
+/** Detections as the API wants them; rounded so a 12,000-detection capture stays under 1 MiB. */
+export function requestDetections(dets: readonly DetectionWire[]) {
+  return dets.map((d) => ({ timeS: round(d.timeS, 4), azimuthDeg: round(d.azimuthRad * DEG, 4), rangeM: round(d.rangeM, 4), amplitude: d.amplitude > 0 ? round(d.amplitude, 3) : undefined }));
+}
+
+export function offsetsRequest(spots: readonly MeasuredSpot[], dets: readonly DetectionWire[], measuredBy: string) {
+  return {
+    action: 'offsets' as const,
+    positions: spots.map((s) => ({ label: s.label || undefined, x: s.x, y: s.y, fromS: s.fromS, toS: s.toS })),
+    detections: requestDetections(dets),
+    fitScale: 'auto' as const,
+    ...(measuredBy.trim() ? { measuredBy: measuredBy.trim() } : {}),
+  };
+}
+
+export function frameRequest(dets: readonly DetectionWire[], commanded: readonly PathPointWire[], measuredBy: string) {
+  return {
+    action: 'frame' as const,
+    detections: requestDetections(dets),
+    commanded: commanded.map((p) => ({ timeS: p.timeS, x: p.x, y: p.y })),
+    ...(measuredBy.trim() ? { measuredBy: measuredBy.trim() } : {}),
+  };
+}
+
+/** What is checked of an answer before it is shown; the proposed config is passed through as is. */
+export const calibrationAnswer = z.union([
+  z.object({ ok: z.literal(true), action: z.literal('steps'), steps: z.array(z.string()) }),
+  z.object({
+    ok: z.literal(true), action: z.enum(['offsets', 'frame', 'tune']),
+    summary: z.record(z.string(), z.union([z.number(), z.string(), z.boolean()])),
+    reflectors: z.array(z.record(z.string(), z.union([z.number(), z.string()]))).optional(),
+    warnings: z.array(z.string()).optional(),
+    config: z.unknown(),
+  }),
+  z.object({ ok: z.literal(false), code: z.string(), message: z.string() }),
+]);
+export type CalibrationAnswer = z.infer<typeof calibrationAnswer>;
+
+export interface SummaryRow { label: string; value: string }
+
+/** Labels and units of the summary fields the calibration API sends (bridge/calibrate/report.ts). */
+const KNOWN: Record<string, { label: string; unit: 'm' | 'deg' | 'ratio' | 'count' }> = {
+  rangeOffsetM: { label: 'Range offset', unit: 'm' },
+  rangeOffsetSeM: { label: 'Range offset, std. error', unit: 'm' },
+  rangeScale: { label: 'Range scale', unit: 'ratio' },
+  rangeScaleSe: { label: 'Range scale, std. error', unit: 'ratio' },
+  azimuthOffsetDeg: { label: 'Azimuth offset', unit: 'deg' },
+  azimuthOffsetSeDeg: { label: 'Azimuth offset, std. error', unit: 'deg' },
+  sigmaRangeM: { label: 'Range noise σ', unit: 'm' },
+  sigmaAzimuthDeg: { label: 'Azimuth noise σ', unit: 'deg' },
+  detectionsUsed: { label: 'Detections used', unit: 'count' },
+  rotationDeg: { label: 'Frame rotation', unit: 'deg' },
+  rotationSeDeg: { label: 'Frame rotation, std. error', unit: 'deg' },
+  translationXM: { label: 'Frame shift x', unit: 'm' },
+  translationYM: { label: 'Frame shift y', unit: 'm' },
+  translationSeXM: { label: 'Frame shift x, std. error', unit: 'm' },
+  translationSeYM: { label: 'Frame shift y, std. error', unit: 'm' },
+  rmsM: { label: 'Residual RMS', unit: 'm' },
+  maxM: { label: 'Residual max', unit: 'm' },
+  pairs: { label: 'Pairs matched', unit: 'count' },
+  candidates: { label: 'Candidate pairs', unit: 'count' },
+};
+
+export interface SummaryRow { label: string; value: string }
+
+/** Summary fields → labelled values with units; unknown fields get a unit from their suffix (…M, …Deg). */
+export function summaryRows(summary: Record<string, number | string | boolean>): SummaryRow[] {
+  return Object.entries(summary).map(([key, v]) => {
+    const known = KNOWN[key];
+    const unit = known?.unit ?? (/Deg$/.test(key) ? 'deg' : /M$/.test(key) ? 'm' : undefined);
+    const label = known?.label ?? key.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
+    if (typeof v !== 'number') return { label, value: String(v) };
+    return { label, value: withUnit(v, unit) };
+  });
+}
+
+function withUnit(v: number, unit: 'm' | 'deg' | 'ratio' | 'count' | undefined): string {
+  if (unit === 'm') return `${v.toFixed(4)} m`;
+  if (unit === 'deg') return `${v.toFixed(3)}°`;
+  if (unit === 'ratio') return `${v.toFixed(5)} (×)`;
+  return Number.isInteger(v) ? String(v) : v.toFixed(4);
+}
