@@ -37,9 +37,11 @@ export function solveDense(cost: number[][], missCost: number[]): number[] {
 
 /**
  * Assigns over all gated pairs. `missCost(track)` is the price of leaving a track without a
- * detection. Returns pairs [track, det] chosen.
+ * detection. Returns pairs [track, det] chosen. A cluster with more than `maxCluster` tracks is
+ * solved greedily (cheapest pair first) instead: the Hungarian method is cubic, and such clusters
+ * only arise among tentative tracks in dense clutter, where an exact optimum buys nothing.
  */
-export function assign(pairs: readonly GatedPair[], missCost: (track: number) => number): Array<[number, number]> {
+export function assign(pairs: readonly GatedPair[], missCost: (track: number) => number, maxCluster = Infinity): Array<[number, number]> {
   if (pairs.length === 0) return [];
   // Union-find over nodes: tracks as 2k, detections as 2k+1 (ids are sparse, so use a map).
   const parent = new Map<number, number>();
@@ -83,6 +85,10 @@ export function assign(pairs: readonly GatedPair[], missCost: (track: number) =>
     }
     const cost = Array.from({ length: tIdx.size }, () => new Array<number>(dIdx.size).fill(FORBIDDEN));
     for (const p of c) cost[tIdx.get(p.track)!][dIdx.get(p.det)!] = p.cost;
+    if (tIdx.size > maxCluster) {
+      greedy(c, missCost, result);
+      continue;
+    }
     const tracks = [...tIdx.keys()];
     const dets = [...dIdx.keys()];
     const sol = solveDense(cost, tracks.map(missCost));
@@ -91,4 +97,16 @@ export function assign(pairs: readonly GatedPair[], missCost: (track: number) =>
     });
   }
   return result;
+}
+
+/** Cheapest-first assignment of one cluster. */
+function greedy(c: GatedPair[], missCost: (track: number) => number, result: Array<[number, number]>): void {
+  const usedT = new Set<number>();
+  const usedD = new Set<number>();
+  for (const p of [...c].sort((a, b) => a.cost - b.cost)) {
+    if (usedT.has(p.track) || usedD.has(p.det) || p.cost > missCost(p.track)) continue;
+    usedT.add(p.track);
+    usedD.add(p.det);
+    result.push([p.track, p.det]);
+  }
 }

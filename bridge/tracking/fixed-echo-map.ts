@@ -55,7 +55,7 @@ const A = 0.125;
 
 export class FixedEchoMap {
   private readonly cands = new Map<number, Candidate>();
-  private readonly grid = new SpatialGrid(0.5, 2);
+  private readonly grid = new SpatialGrid(0.5);
   private nextId = 1;
   private fixedCount = 0;
 

@@ -13,7 +13,7 @@
  * is 1 − exp(−dt/τ_i), so the filter behaves the same at 2 s revolutions and at 200 Hz staring.
  */
 import type { Measurement } from '../types.ts';
-import { gateAgainst, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { KalmanCv } from './kalman-cv.ts';
 import type { ProcessNoiseModel } from './process-noise.ts';
 
@@ -31,6 +31,10 @@ export interface ImmOptions {
   /** Initial velocity standard deviation per axis, m/s. */
   sigmaVel0: number;
 }
+
+// Mixing scratch: filled and consumed within one predict() call.
+const MIX_X = [new Float64Array(4), new Float64Array(4)];
+const MIX_P = [new Float64Array(16), new Float64Array(16)];
 
 export class ImmCv2 implements TrackFilter {
   readonly models: [KalmanCv, KalmanCv];
@@ -57,7 +61,11 @@ export class ImmCv2 implements TrackFilter {
 
   /** Predicted mode probabilities c_j = Σ_i π_ij μ_i. */
   private predictedMu(dt: number): [number, number] {
-    const [p00, p01, p10, p11] = this.transition(dt);
+    const t = this.transition(dt);
+    const p00 = t[0];
+    const p01 = t[1];
+    const p10 = t[2];
+    const p11 = t[3];
     return [p00 * this.mu[0] + p10 * this.mu[1], p01 * this.mu[0] + p11 * this.mu[1]];
   }
 
@@ -73,15 +81,18 @@ export class ImmCv2 implements TrackFilter {
    * while the quiet model dominates, which is exactly the moment a stop or a reversal begins.
    */
   gate(m: Measurement): GateResult {
-    const a = gateAgainst(this.models[0].peek(m.timeS), m);
-    const b = gateAgainst(this.models[1].peek(m.timeS), m);
+    const a = this.models[0].gate(m);
+    const b = this.models[1].gate(m);
     return a.d2 <= b.d2 ? a : b;
   }
 
   predict(t: number): void {
     const dt = t - this.timeS;
     if (dt <= 0) return;
-    const [p00, p01, p10, p11] = this.transition(dt);
+    const p01 = 1 - Math.exp(-dt / this.o.sojournLowS);
+    const p10 = 1 - Math.exp(-dt / this.o.sojournHighS);
+    const p00 = 1 - p01;
+    const p11 = 1 - p10;
     const c0 = p00 * this.mu[0] + p10 * this.mu[1];
     const c1 = p01 * this.mu[0] + p11 * this.mu[1];
     // Mixing weights μ_{i|j} = π_ij μ_i / c_j.
@@ -89,11 +100,11 @@ export class ImmCv2 implements TrackFilter {
       [(p00 * this.mu[0]) / c0, (p10 * this.mu[1]) / c0],
       [(p01 * this.mu[0]) / c1, (p11 * this.mu[1]) / c1],
     ];
-    const [m0, m1] = this.models;
-    const mixed: { x: Float64Array; P: Float64Array }[] = [];
+    const m0 = this.models[0];
+    const m1 = this.models[1];
     for (let j = 0; j < 2; j++) {
-      const x = new Float64Array(4);
-      const P = new Float64Array(16);
+      const x = MIX_X[j];
+      const P = MIX_P[j];
       const wa = w[j][0];
       const wb = w[j][1];
       for (let i = 0; i < 4; i++) x[i] = wa * m0.x[i] + wb * m1.x[i];
@@ -105,11 +116,10 @@ export class ImmCv2 implements TrackFilter {
             wa * (m0.P[r * 4 + s] + da * (m0.x[s] - x[s])) + wb * (m1.P[r * 4 + s] + db * (m1.x[s] - x[s]));
         }
       }
-      mixed.push({ x, P });
     }
     const t0 = this.timeS;
-    m0.setFrom(mixed[0].x, mixed[0].P, t0);
-    m1.setFrom(mixed[1].x, mixed[1].P, t0);
+    m0.setFrom(MIX_X[0], MIX_P[0], t0);
+    m1.setFrom(MIX_X[1], MIX_P[1], t0);
     m0.predict(t);
     m1.predict(t);
     this.mu[0] = c0;
@@ -117,20 +127,20 @@ export class ImmCv2 implements TrackFilter {
   }
 
   update(m: Measurement): number {
-    const comb = combine(this.models[0].estimate(), this.models[1].estimate(), this.mu[0], this.mu[1]);
+    const comb = this.estimate();
     const nx = m.x - comb.x;
     const ny = m.y - comb.y;
     const sxx = comb.pxx + m.rxx;
     const sxy = comb.pxy + m.rxy;
     const syy = comb.pyy + m.ryy;
     const nis = (nx * nx * syy - 2 * nx * ny * sxy + ny * ny * sxx) / (sxx * syy - sxy * sxy);
-    const l: number[] = [];
-    for (const f of this.models) {
-      f.update(m);
-      l.push(Math.exp(-0.5 * f.lastNis) / (2 * Math.PI * Math.sqrt(f.lastDetS)));
-    }
-    const u0 = l[0] * this.mu[0];
-    const u1 = l[1] * this.mu[1];
+    const f0 = this.models[0];
+    const f1 = this.models[1];
+    f0.update(m);
+    f1.update(m);
+    // Gaussian likelihoods N(ν; 0, S) of each model; the common 1/2π cancels in the ratio.
+    const u0 = (Math.exp(-0.5 * f0.lastNis) / Math.sqrt(f0.lastDetS)) * this.mu[0];
+    const u1 = (Math.exp(-0.5 * f1.lastNis) / Math.sqrt(f1.lastDetS)) * this.mu[1];
     const sum = u0 + u1;
     if (sum > 0 && Number.isFinite(sum)) {
       this.mu[0] = Math.min(Math.max(u0 / sum, 1e-6), 1 - 1e-6);
@@ -140,11 +150,28 @@ export class ImmCv2 implements TrackFilter {
   }
 
   estimate(): FilterEstimate {
-    const [a, b] = this.models;
-    const ea = a.estimate();
-    const eb = b.estimate();
-    const p = combine(ea, eb, this.mu[0], this.mu[1]);
-    return { ...p, vx: this.mu[0] * ea.vx + this.mu[1] * eb.vx, vy: this.mu[0] * ea.vy + this.mu[1] * eb.vy };
+    // Written out (no destructuring, no spread): this runs several times per detection.
+    const a = this.models[0];
+    const b = this.models[1];
+    const wa = this.mu[0];
+    const wb = this.mu[1];
+    const xa = a.x;
+    const xb = b.x;
+    const x = wa * xa[0] + wb * xb[0];
+    const y = wa * xa[2] + wb * xb[2];
+    const ax = xa[0] - x;
+    const ay = xa[2] - y;
+    const bx = xb[0] - x;
+    const by = xb[2] - y;
+    return {
+      x,
+      y,
+      vx: wa * xa[1] + wb * xb[1],
+      vy: wa * xa[3] + wb * xb[3],
+      pxx: wa * (a.P[0] + ax * ax) + wb * (b.P[0] + bx * bx),
+      pxy: wa * (a.P[2] + ax * ay) + wb * (b.P[2] + bx * by),
+      pyy: wa * (a.P[10] + ay * ay) + wb * (b.P[10] + by * by),
+    };
   }
 }
 

@@ -7,8 +7,8 @@
  * allocate on every call.
  */
 import type { Measurement } from '../types.ts';
-import { gateAgainst, mahalanobis2, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
-import { cvProcessNoise, type ProcessNoiseModel } from './process-noise.ts';
+import { mahalanobis2, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { cvProcessNoise, cvProcessNoise00, type ProcessNoiseModel } from './process-noise.ts';
 
 export interface KalmanCvOptions {
   /** Process-noise model. */
@@ -59,7 +59,7 @@ export class KalmanCv implements TrackFilter {
   peek(t: number): PositionPrediction {
     const dt = t - this.timeS;
     const P = this.P;
-    const q00 = cvProcessNoise(this.o.model, dt, this.o.sigmaAccel)[0];
+    const q00 = cvProcessNoise00(this.o.model, dt, this.o.sigmaAccel);
     // Position block of F P Fᵀ + Q.
     const pxx = P[0] + 2 * dt * P[1] + dt * dt * P[5] + q00;
     const pyy = P[10] + 2 * dt * P[11] + dt * dt * P[15] + q00;
@@ -84,7 +84,11 @@ export class KalmanCv implements TrackFilter {
       P[i * 4] += dt * P[i * 4 + 1];
       P[i * 4 + 2] += dt * P[i * 4 + 3];
     }
-    const [q00, q01, q10, q11] = cvProcessNoise(this.o.model, dt, this.o.sigmaAccel);
+    const q = cvProcessNoise(this.o.model, dt, this.o.sigmaAccel);
+    const q00 = q[0];
+    const q01 = q[1];
+    const q10 = q[2];
+    const q11 = q[3];
     P[0] += q00;
     P[1] += q01;
     P[4] += q10;
@@ -135,7 +139,16 @@ export class KalmanCv implements TrackFilter {
   }
 
   gate(m: Measurement): GateResult {
-    return gateAgainst(this.peek(m.timeS), m);
+    // Same as gateAgainst(this.peek(t), m) without the intermediate object.
+    const dt = m.timeS - this.timeS;
+    const P = this.P;
+    const q00 = cvProcessNoise00(this.o.model, dt, this.o.sigmaAccel);
+    const sxx = P[0] + 2 * dt * P[1] + dt * dt * P[5] + q00 + m.rxx;
+    const syy = P[10] + 2 * dt * P[11] + dt * dt * P[15] + q00 + m.ryy;
+    const sxy = P[2] + dt * (P[3] + P[6]) + dt * dt * P[7] + m.rxy;
+    const nx = m.x - (this.x[0] + dt * this.x[1]);
+    const ny = m.y - (this.x[2] + dt * this.x[3]);
+    return { d2: mahalanobis2(nx, ny, sxx, sxy, syy), logDetS: Math.log(sxx * syy - sxy * sxy) };
   }
 
   estimate(): FilterEstimate {

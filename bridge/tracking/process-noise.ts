@@ -43,3 +43,9 @@ export function cwnaCa(T: number, q: number): number[] {
 export function cvProcessNoise(model: ProcessNoiseModel, T: number, sigmaA: number): [number, number, number, number] {
   return model === 'dwna' ? dwnaCv(T, sigmaA * sigmaA) : cwnaCv(T, sigmaA * sigmaA);
 }
+
+/** Position-variance entry q00 of cvProcessNoise without building the matrix (hot path). */
+export function cvProcessNoise00(model: ProcessNoiseModel, T: number, sigmaA: number): number {
+  const s2 = sigmaA * sigmaA;
+  return model === 'dwna' ? (s2 * T * T * T * T) / 4 : (s2 * T * T * T) / 3;
+}

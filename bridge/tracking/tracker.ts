@@ -4,8 +4,9 @@
  *
  * Flow: detections are held for a short warm-up (antenna kind, interval, noise are inferred from
  * them), then collected into batches of `batchS`. Each batch is gated against the tracks found in
- * the grid cell of each detection, solved by global nearest neighbour, and leftovers start
- * tentative tracks unless a fixed echo or a confirmed track already claims them. Misses are
+ * the grid cell of each detection, solved by global nearest neighbour, and leftovers become seeds
+ * (or pair with an earlier seed into a tentative track) unless a fixed echo or a confirmed track
+ * already claims them. Misses are
  * counted against each track's expected next detection (one interval after its last hit).
  */
 import type { Detection, FixedEcho, Measurement, TrackDeletion, TrackEngine, TrackerOutput, TrackUpdate } from '../types.ts';
@@ -15,6 +16,7 @@ import { FixedEchoMap } from './fixed-echo-map.ts';
 import { gateThreshold } from './gate.ts';
 import { decide, describeInference, type TrackerInference } from './inference.ts';
 import { toMeasurement, type MeasurementOptions } from './measurement.ts';
+import { SeedPool } from './seeds.ts';
 import { SpatialGrid } from './spatial-grid.ts';
 import { lambdaMax, Track } from './track-life.ts';
 import { resolveTrackerOptions, type TrackerOptions, type TrackerOptionsInput } from './tracker-options.ts';
@@ -29,7 +31,8 @@ export class Tracker implements TrackEngine {
   private info: TrackerInference | null = null;
   private meas!: MeasurementOptions;
   private echoes!: FixedEchoMap;
-  private readonly grid = new SpatialGrid(0.5, 6);
+  private seeds!: SeedPool;
+  private readonly grid = new SpatialGrid(1);
   private readonly live = new Map<number, Track>();
   private nextId = 1;
   private batch: Detection[] = [];
@@ -92,6 +95,8 @@ export class Tracker implements TrackEngine {
     this.info = decide(buf, this.options);
     this.meas = { ...this.options.measurement, sigmaRangeM: this.info.sigmaRangeM, sigmaAzimuthRad: this.info.sigmaAzimuthRad };
     this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
+    // A seed may wait out one missed scan, as a one-hit tentative track would under M-of-N.
+    this.seeds = new SeedPool(this.options.initiation.maxSpeedMps, 2.5 * this.info.intervalS);
     const sink = out ?? { updates: [], deletions: [] };
     for (const d of buf) this.step(d, sink);
   }
@@ -108,7 +113,11 @@ export class Tracker implements TrackEngine {
     const o = this.options;
     const gamma = this.gamma;
     const ms: Measurement[] = dets.map((d) => toMeasurement(d, this.meas));
-    const pairs: GatedPair[] = [];
+    // Established tracks (confirmed, coasting) pick first, tentative ones share what is left:
+    // a wide tentative gate must never take a detection from an established track, and keeping
+    // them apart keeps the clusters of the first pass small.
+    const pairsEst: GatedPair[] = [];
+    const pairsTent: GatedPair[] = [];
     const missCost = new Map<number, number>();
     const echoCost = new Float64Array(ms.length).fill(Infinity);
     const nearConfirmed = new Uint8Array(ms.length);
@@ -124,14 +133,19 @@ export class Tracker implements TrackEngine {
         const { d2, logDetS: logDet } = t.filter.gate(m);
         if (!(d2 < gamma)) continue;
         if (d2 + logDet > echoCost[j]) continue;
-        pairs.push({ track: id, det: j, cost: d2 + logDet });
+        const tentative = t.status === 'tentative';
+        (tentative ? pairsTent : pairsEst).push({ track: id, det: j, cost: d2 + logDet });
         missCost.set(id, Math.max(missCost.get(id) ?? -Infinity, gamma + logDet));
-        if (t.status !== 'tentative') nearConfirmed[j] = 1;
+        if (!tentative) nearConfirmed[j] = 1;
       }
     }
     const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
     const hitNow = new Set<number>();
-    for (const [id, j] of assign(pairs, (id) => missCost.get(id)!)) {
+    const miss = (id: number) => missCost.get(id)!;
+    const chosen = assign(pairsEst, miss, 40);
+    for (const [, j] of chosen) taken[j] = 1;
+    chosen.push(...assign(pairsTent.filter((p) => !taken[p.det]), miss, 12));
+    for (const [id, j] of chosen) {
       const t = this.live.get(id)!;
       const m = ms[j];
       taken[j] = t.moved ? 2 : 1;
@@ -154,8 +168,16 @@ export class Tracker implements TrackEngine {
       if (taken[j] === 2) continue;
       const isEcho = learn && this.echoes.learn(ms[j], dets[j]);
       if (taken[j] || nearConfirmed[j] || isEcho) continue;
-      const f = createFilter(ms[j], o.filter, o.initiation.maxSpeedMps / 2, this.info!.intervalS);
-      const t = new Track(this.nextId++, f, ms[j], dets[j], o.initiation);
+      const seed = this.seeds.take(ms[j]);
+      if (!seed) {
+        this.seeds.add(ms[j], dets[j]);
+        continue;
+      }
+      // Two-point start: the seed is the first hit, this detection the second.
+      const f = createFilter(seed.m, o.filter, o.initiation.maxSpeedMps / 2, this.info!.intervalS);
+      const t = new Track(this.nextId++, f, seed.m, seed.d, o.initiation);
+      f.predict(ms[j].timeS);
+      t.onHit(ms[j], f.update(ms[j]), dets[j], o.fixedEchoes.moveThresholdM);
       this.live.set(t.id, t);
       this.register(t);
     }

@@ -5,16 +5,16 @@ import { createRng } from '../../bridge/sim/prng.ts';
 describe('SpatialGrid', () => {
   it('finds every registration whose reach square covers the query point (against brute force)', () => {
     const rng = createRng(4);
-    const g = new SpatialGrid(0.5, 6);
+    const g = new SpatialGrid(0.5);
     const items = new Map<number, { x: number; y: number; r: number }>();
     for (let id = 0; id < 300; id++) {
-      const it = { x: rng.between(-10, 10), y: rng.between(-10, 10), r: rng.between(0, 1.5) };
+      const it = { x: rng.between(-10, 10), y: rng.between(-10, 10), r: rng.between(0, 2) };
       items.set(id, it);
       g.set(id, it.x, it.y, it.r);
     }
     // Move and remove some, as the tracker does.
     for (let id = 0; id < 100; id++) {
-      const it = { x: rng.between(-10, 10), y: rng.between(-10, 10), r: rng.between(0, 1.5) };
+      const it = { x: rng.between(-10, 10), y: rng.between(-10, 10), r: rng.between(0, 2) };
       items.set(id, it);
       g.set(id, it.x, it.y, it.r);
     }
@@ -26,7 +26,7 @@ describe('SpatialGrid', () => {
     for (let q = 0; q < 2000; q++) {
       const x = rng.between(-11, 11);
       const y = rng.between(-11, 11);
-      const found = new Set(g.query(x, y));
+      const found = new Set(g.query(x, y)); // copy: the array is reused
       for (const [id, it] of items) {
         // Inside the square of half-side r: must be found (the grid may return more: cell granularity).
         if (Math.abs(x - it.x) <= it.r && Math.abs(y - it.y) <= it.r) expect(found.has(id)).toBe(true);
@@ -35,10 +35,15 @@ describe('SpatialGrid', () => {
     }
   });
 
-  it('caps a registration at maxReachCells around its centre', () => {
-    const g = new SpatialGrid(1, 2);
+  it('caps a reach at four fine cells and moves an entry without duplicates', () => {
+    const g = new SpatialGrid(1);
+    expect(g.maxReachM).toBe(4);
     g.set(1, 0.5, 0.5, 100);
-    expect(g.query(2.5, 0.5)).toContain(1);
-    expect(g.query(3.5, 0.5)).not.toContain(1);
+    expect(g.query(4.4, 0.5)).toContain(1);
+    expect(g.query(20, 0.5)).not.toContain(1);
+    g.set(1, 10.5, 0.5, 0.2);
+    expect(g.query(0.5, 0.5)).not.toContain(1);
+    expect(g.query(10.5, 0.5).filter((i) => i === 1)).toHaveLength(1);
+    expect(g.size).toBe(1);
   });
 });
