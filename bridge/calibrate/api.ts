@@ -9,14 +9,29 @@
  *   { action: 'steps' }                                   → the panel's guide text
  *   { action: 'offsets', positions: [{ x, y, label?, fromS?, toS? }], detections: Det[],
  *     fitScale?: 'auto' | boolean, gateRangeM?, gateAzimuthDeg?, config?: BenchConfig, measuredBy? }
- *   { action: 'frame', detections: Det[], commanded: [{ timeS, x, y }], gateM?, allowCollinear?,
- *     config?, measuredBy? }      (detections are corrected with config's offsets first)
+ *   { action: 'frame', detections?: Det[], track?: [{ timeS, x, y }], commanded: [{ timeS, x, y }],
+ *     gateM?, allowCollinear?, config?, measuredBy? }
+ *     (detections are corrected with config's offsets and gated around the path as config aligns
+ *     it; a track — radar-frame positions of one target, e.g. its measurements — is used whole)
  *   { action: 'tune', detections: Det[], commanded: [...], filter?: 'kalman' | 'imm', gateM?,
  *     config?, measuredBy?, profileName? }
  *   { action: 'nis-bounds', count, dof? }
  *   where Det = { timeS, azimuthDeg, rangeM, amplitude? }.
- * Response: { ok: true, action, ... } (fields per action below, angles in degrees) or
- *   { ok: false, code: ErrorCode | 'E_PROTOCOL', message }.
+ * Response (angles in degrees, lengths in metres):
+ *   steps      → { ok, action, steps: string[] }
+ *   offsets    → { ok, action, summary: { rangeOffsetM, rangeOffsetSeM, rangeScale, rangeScaleSe,
+ *                 azimuthOffsetDeg, azimuthOffsetSeDeg, sigmaRangeM, sigmaAzimuthDeg, detectionsUsed },
+ *                 reflectors: [{ label, trueRangeM, trueAzimuthDeg, detections, meanRangeResidualM,
+ *                 stdRangeResidualM, meanAzimuthResidualDeg, stdAzimuthResidualDeg }], config }
+ *   frame      → { ok, action, summary: { rotationDeg, rotationSeDeg, translationXM, translationYM,
+ *                 translationSeXM, translationSeYM, rmsM, maxM, pairs, candidates }, config }
+ *   tune       → { ok, action, summary: { samples, sigmaRangeM, sigmaAzimuthDeg, rangeBiasM,
+ *                 azimuthBiasDeg, nisMean, nisLower, nisUpper, nisVerdict, defaultNisMean,
+ *                 defaultNisVerdict, bracketed }, profile (bridge/tracking/profile.ts format),
+ *                 warnings: string[], config }
+ *   nis-bounds → { ok, action, lower, upper }
+ *   failure    → { ok: false, code: ErrorCode | 'E_PROTOCOL', message } (nothing to save)
+ *   `config` is the proposed bench config (bench-config.ts) with the new values and a history entry.
  */
 import { z } from 'zod';
 import { EchotrailError } from '../errors.ts';
@@ -42,7 +57,8 @@ const requestSchema = z.discriminatedUnion('action', [
     positions: z.array(z.object({ x: z.number().finite(), y: z.number().finite(), label: z.string().max(80).optional(), fromS: z.number().optional(), toS: z.number().optional() })).min(1).max(50),
     fitScale: z.union([z.literal('auto'), z.boolean()]).optional(), gateRangeM: z.number().positive().optional(), gateAzimuthDeg: z.number().positive().optional(),
   }),
-  z.object({ action: z.literal('frame'), ...common, detections: dets, commanded: timed, gateM: z.number().positive().optional(), allowCollinear: z.boolean().optional() }),
+  z.object({ action: z.literal('frame'), ...common, detections: dets.optional(), track: timed.optional(), commanded: timed, gateM: z.number().positive().optional(), allowCollinear: z.boolean().optional() })
+    .refine((r) => (r.detections === undefined) !== (r.track === undefined), { message: 'give either detections or track', path: ['detections'] }),
   z.object({ action: z.literal('tune'), ...common, detections: dets, commanded: timed, filter: z.enum(['kalman', 'imm']).optional(), gateM: z.number().positive().optional(), profileName: z.string().optional() }),
   z.object({ action: z.literal('nis-bounds'), count: z.number().int().min(1).max(10_000_000), dof: z.number().int().min(1).max(10).optional() }),
 ]);
@@ -82,8 +98,9 @@ export function calibrationApi(request: unknown): CalibrationResponse {
       }
       case 'frame': {
         const config = req.config ?? defaultBenchConfig();
-        const observed = sorted(req.detections.map(toDetection)).map((d) => correctDetection(d, config)).map((d) => ({ timeS: d.timeS, x: d.rangeM * Math.sin(d.azimuthRad), y: d.rangeM * Math.cos(d.azimuthRad) }));
-        const fit = alignFrame(observed, req.commanded, { initial: { rotationRad: config.positionerFrame.rotationDeg * DEG, translation: config.positionerFrame.translationM }, gateM: req.gateM, allowCollinear: req.allowCollinear });
+        const observed = req.track ?? sorted((req.detections ?? []).map(toDetection)).map((d) => correctDetection(d, config)).map((d) => ({ timeS: d.timeS, x: d.rangeM * Math.sin(d.azimuthRad), y: d.rangeM * Math.cos(d.azimuthRad) }));
+        const initial = req.track ? null : { rotationRad: config.positionerFrame.rotationDeg * DEG, translation: config.positionerFrame.translationM };
+        const fit = alignFrame(observed, req.commanded, { initial, gateM: req.gateM, allowCollinear: req.allowCollinear });
         const next = withCalibration(config, { positionerFrame: { rotationDeg: fit.rotationRad / DEG, translationM: fit.translation } }, frameRecord(fit, req.measuredBy ?? 'dashboard', now));
         return { ok: true, action: 'frame', summary: frameSummary(fit), config: next };
       }

@@ -32,6 +32,11 @@ describe('calibrationApi', () => {
     expect(tune.summary.nisVerdict).toBe('consistent');
     expect(() => parseTrackerProfile(tune.profile)).not.toThrow();
     expect(tune.config.history.map((h) => h.kind)).toEqual(['frame', 'noise']);
+    // a track (here the truth) instead of detections: used whole, no gating
+    const byTrack = calibrationApi({ action: 'frame', track: run.truth.map((t) => ({ timeS: t.timeS, x: t.x, y: t.y })), commanded, config });
+    if (!byTrack.ok || byTrack.action !== 'frame') throw new Error(JSON.stringify(byTrack));
+    expect(byTrack.summary.rotationDeg).toBeCloseTo(3, 6);
+    expect(calibrationApi({ action: 'frame', commanded, config })).toMatchObject({ ok: false, code: 'E_PROTOCOL' });
   });
 
   it('validates the request and reports degenerate input without throwing', () => {
