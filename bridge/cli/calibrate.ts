@@ -13,6 +13,7 @@ import { formatSummary, frameRecord, frameSummary, offsetsRecord, offsetsSummary
 import { numberArg, readAllDetections, runCommand } from '../calibrate/cli-common.ts';
 import { EchotrailError } from '../errors.ts';
 import { readFile } from 'node:fs/promises';
+import { z } from 'zod';
 
 const DEG = Math.PI / 180;
 
@@ -22,6 +23,20 @@ const reflector = (v: string, prev: ReflectorPosition[] = []): ReflectorPosition
   if (!Number.isFinite(p.x) || !Number.isFinite(p.y) || (from && !Number.isFinite(p.fromS)) || (to && !Number.isFinite(p.toS))) throw new InvalidArgumentError('expected x,y[,label[,from_s,to_s]] in metres and seconds, e.g. 0.5,1.5,A');
   return [...prev, p];
 };
+
+const positionsSchema = z.array(z.object({ x: z.number().finite(), y: z.number().finite(), label: z.string().optional(), fromS: z.number().optional(), toS: z.number().optional() }).strict()).min(1);
+
+async function readPositions(path: string): Promise<ReflectorPosition[]> {
+  let json: unknown;
+  try {
+    json = JSON.parse(await readFile(path, 'utf8'));
+  } catch (err) {
+    throw new EchotrailError('E_OPTION', `cannot read reflector positions from ${path}: ${(err as Error).message}`, { cause: err });
+  }
+  const r = positionsSchema.safeParse(json);
+  if (!r.success) throw new EchotrailError('E_OPTION', `${path}: ${r.error.issues[0].path.join('.') || '(top level)'}: ${r.error.issues[0].message}`);
+  return r.data;
+}
 
 function common(cmd: Command): Command {
   return cmd
@@ -35,6 +50,7 @@ function offsetsCommand(): Command {
     .description('Fit range offset, range scale and azimuth offset from detections of a reflector at tape-measured positions (radar frame: x across, y along the antenna zero, metres).')
     .requiredOption('--detections <file>', 'detections CSV of the calibration run(s) (time_s,azimuth_deg,range_m,amplitude)')
     .option('--reflector <x,y[,label[,from_s,to_s]]>', 'a tape-measured position, metres; repeat for each; from/to limit it to a time span, s', reflector, [])
+    .option('--reflectors <file.json>', 'or a JSON array of positions: [{ "x": 0.5, "y": 1.5, "label": "A", "fromS": 0, "toS": 60 }, …] (metres, seconds)')
     .option('--fit-scale <mode>', 'auto (when distances span ≥ 0.5 m), yes or no', 'auto')
     .option('--gate-range <m>', 'first range gate around each position, metres', numberArg, 0.5)
     .option('--gate-azimuth <deg>', 'first azimuth gate around each position, degrees', numberArg, 10);
@@ -53,7 +69,7 @@ function frameCommand(): Command {
 }
 
 async function offsets(o: Record<string, unknown>): Promise<number> {
-  const positions = o.reflector as ReflectorPosition[];
+  const positions = [...(o.reflector as ReflectorPosition[]), ...(o.reflectors ? await readPositions(o.reflectors as string) : [])];
   if (positions.length === 0) throw new EchotrailError('E_OPTION', 'give at least one --reflector x,y (tape-measured, metres)');
   const mode = String(o.fitScale);
   if (!['auto', 'yes', 'no'].includes(mode)) throw new EchotrailError('E_OPTION', `--fit-scale must be auto, yes or no (got '${mode}')`);

@@ -48,6 +48,10 @@ describe('echotrail calibrate', () => {
     await expect(stat(config)).rejects.toThrow();
     expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', 'one,two'])).toBe(2);
     expect(await calibrate(['sideways'])).toBe(2);
+    await writeFile(join(dir, 'spots.json'), JSON.stringify([{ x: 0.5, y: 1.5, label: 'A' }, { x: -1, y: 3 }, { x: 1.2, y: 4.8 }]));
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflectors', join(dir, 'spots.json'), '--dry-run'])).toBe(0);
+    await writeFile(join(dir, 'bad.json'), JSON.stringify([{ x: 'near the door' }]));
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflectors', join(dir, 'bad.json'), '--dry-run'])).toBe(1);
     expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5', '--dry-run', '--config', config])).toBe(0);
     await expect(readFile(config, 'utf8')).rejects.toThrow();
   });
