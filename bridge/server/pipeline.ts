@@ -42,6 +42,8 @@ export interface PipelineOptions {
 /** How often source status, replay state, fixed echoes and comparison figures are refreshed, ms. */
 const STATUS_MS = 1000;
 const REPLAY_MS = 250;
+/** A live record this much older than the run's latest time means the hardware's clock restarted, s. */
+const CLOCK_RESET_S = 2;
 
 export class Pipeline extends EventEmitter {
   readonly state: LiveState;
@@ -143,6 +145,7 @@ export class Pipeline extends EventEmitter {
 
   private onRecord(r: SourceRecord, receivedAtMs: number): void {
     if (this.seek.intercept(r, receivedAtMs)) return;
+    if (this.source?.kind === 'serial' && this.clockWentBack(r)) this.newLiveRun();
     // A replay's re-sent state after a seek is not new: neither record nor stream it twice.
     if (!this.seek.resending) this.recording.write(r);
     switch (r.kind) {
@@ -178,6 +181,35 @@ export class Pipeline extends EventEmitter {
         break;
     }
     this.batch.schedule();
+  }
+
+  /**
+   * True when a live record's time lies well before what the run has seen: the hardware restarted
+   * its clock (power cycle, firmware reset). Its records would otherwise be out of order for the
+   * tracker and the recording.
+   */
+  private clockWentBack(r: SourceRecord): boolean {
+    const t = r.kind === 'detection' ? r.detection.timeS : r.kind === 'antenna' || r.kind === 'positioner' ? r.sample.timeS : null;
+    return t !== null && this.state.timeS - t > CLOCK_RESET_S;
+  }
+
+  /** A new run on the same port: fresh tracker, state and recording file; clients get a snapshot. */
+  private newLiveRun(): void {
+    const source = this.source as Source;
+    this.options.log(`source ${source.name}: time went back from ${this.state.timeS.toFixed(3)} s; starting a new run`);
+    if (this.tracker) this.applyOutput(this.runTracker((t) => t.flush()), undefined);
+    this.batch.flush();
+    this.state.reset();
+    this.state.clearCommanded();
+    this.comparison?.restart();
+    this.fixedSignature = '';
+    const tracker = this.options.createTracker();
+    // Records are handled synchronously, so the tracker must be ready now: factories are synchronous in practice.
+    if (tracker instanceof Promise) throw new Error('tracker factory must be synchronous for live runs');
+    this.tracker = tracker;
+    this.recording.rotate(source);
+    this.emit('resync');
+    this.emitMessage({ type: 'source', source: this.stats.status() });
   }
 
   private runTracker(fn: (t: TrackEngine) => TrackerOutput): TrackerOutput {

@@ -32,9 +32,36 @@ export class RecordingSlot {
       this.stats.recording = this.recorder.name;
     } catch (err) {
       // A live view without a recording is still useful: say why and keep going.
-      this.stats.recordingError = (err as Error).message;
-      this.log(`recording disabled: ${(err as Error).message}`);
+      this.refused(err as Error);
     }
+  }
+
+  /**
+   * Closes the current file and opens the next one without a gap, when the recorder opens
+   * synchronously (the session recorder does): records of the same serial chunk go to the new file.
+   */
+  rotate(source: Source): void {
+    if (!this.open) return;
+    const old = this.recorder;
+    this.recorder = null;
+    void old?.close().catch((e: Error) => this.log(`closing recording ${old.name}: ${e.message}`));
+    this.stats.recording = null;
+    try {
+      const next = this.open(source, (message) => this.failed(message));
+      if (next instanceof Promise) {
+        void next.then((rec) => ((this.recorder = rec), (this.stats.recording = rec.name)), (err: Error) => this.refused(err));
+      } else {
+        this.recorder = next;
+        this.stats.recording = next.name;
+      }
+    } catch (err) {
+      this.refused(err as Error);
+    }
+  }
+
+  private refused(err: Error): void {
+    this.stats.recordingError = err.message;
+    this.log(`recording disabled: ${err.message}`);
   }
 
   write(r: SourceRecord): void {

@@ -2,7 +2,8 @@
  * End to end over a real pseudo-terminal: protocol lines written at the hardware end of a socat
  * pair come out of the bridge as track updates at a real WebSocket client; bad lines among them
  * are counted and shown, the good ones around them still arrive; killing and restarting socat is
- * survived without a restart; the live run is recorded to a session file.
+ * survived without a restart; a device whose clock restarts begins a new run; each live run is
+ * recorded to its own session file.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync } from 'node:fs';
@@ -80,14 +81,29 @@ describe.skipIf(!haveSocat)('serial → WebSocket through a socat pty pair', () 
     expect(after.some((u) => u.timeS > 4 && u.status === 'confirmed')).toBe(true);
   });
 
-  it('recorded the live run to a session file that lists with its detections', async () => {
-    const status = (await client.next('source')).source;
+  it('starts a new run (fresh tracks, new session file) when the device restarts its clock', async () => {
+    const firstRecording = client.of('source').at(-1)!.source.recording;
+    const from = client.messages.length;
+    const restart = lines.filter((l) => l.timeS < 3);
+    for (const l of restart) pty.write(l.line);
+    const snap = await client.next('snapshot', () => true, from);
+    expect(snap.tracks).toEqual([]);
+    const lastT = restart.filter((l) => l.record.kind === 'detection').at(-1)!.timeS;
+    await client.next('scan', (s) => s.detections.some((d) => d.timeS >= lastT - 1e-6), from);
+    const status = await client.next('source', (m) => m.source.recording !== null && m.source.recording !== firstRecording, from);
+    expect(status.source.recording).toMatch(/\.session\.jsonl$/);
+    const updates = client.messages.slice(from).flatMap((m) => (m.type === 'scan' ? m.updates : []));
+    expect(updates.some((u) => u.status === 'confirmed' && u.moving)).toBe(true);
+  });
+
+  it('recorded each live run to its own session file, with all its detections', async () => {
     await client.close();
     await bridge.close();
     const sessions = await listSessions(sessionsDir);
-    expect(sessions).toHaveLength(1);
-    expect(status.recording).toContain(sessions[0].id);
-    expect(sessions[0].detections).toBe(lines.filter((l) => l.record.kind === 'detection').length);
-    expect(sessions[0].tracks).toBeGreaterThan(0);
+    expect(sessions).toHaveLength(2);
+    const counts = sessions.map((s) => s.detections).sort((a, b) => a - b);
+    const det = (ls: typeof lines) => ls.filter((l) => l.record.kind === 'detection').length;
+    expect(counts).toEqual([det(lines.filter((l) => l.timeS < 3)), det(lines)]);
+    expect(sessions.every((s) => s.tracks > 0)).toBe(true);
   });
 });
