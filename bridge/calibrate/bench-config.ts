@@ -122,3 +122,12 @@ export function correctDetection<T extends { rangeM: number; azimuthRad: number 
   const tp = 2 * Math.PI;
   return { ...d, rangeM: (d.rangeM - config.radar.rangeOffsetM) / config.radar.rangeScale, azimuthRad: ((az % tp) + tp) % tp };
 }
+
+/** Maps positioner-frame points (a commanded path) into the radar frame with the bench's frame. */
+export function positionerToRadarFrame<T extends { x: number; y: number }>(points: T[], config: BenchConfig): T[] {
+  const a = config.positionerFrame.rotationDeg * DEG;
+  const c = Math.cos(a);
+  const s = Math.sin(a);
+  const { x: tx, y: ty } = config.positionerFrame.translationM;
+  return points.map((p) => ({ ...p, x: c * p.x - s * p.y + tx, y: s * p.x + c * p.y + ty }));
+}

@@ -2,7 +2,7 @@ import { mkdtemp, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { correctDetection, defaultBenchConfig, loadBenchConfig, parseBenchConfig, saveBenchConfig, trackerCorrections, withCalibration } from '../../bridge/calibrate/bench-config.ts';
+import { correctDetection, defaultBenchConfig, positionerToRadarFrame, loadBenchConfig, parseBenchConfig, saveBenchConfig, trackerCorrections, withCalibration } from '../../bridge/calibrate/bench-config.ts';
 import { resolveMeasurementOptions, toMeasurement } from '../../bridge/tracking/measurement.ts';
 import { simulateRun } from '../../bridge/sim/run.ts';
 import { hasCode } from '../../bridge/errors.ts';
@@ -60,5 +60,16 @@ describe('bench config', () => {
     const c = correctDetection({ rangeM: 1.01 * 3 + 0.1, azimuthRad: 0 }, cfg);
     expect(c.rangeM).toBeCloseTo(3, 12);
     expect(c.azimuthRad).toBeCloseTo(Math.PI / 180, 12);
+  });
+
+  it('maps a commanded path into the radar frame as the simulator does', () => {
+    const run = simulateRun({ durationS: 3, frameRotationDeg: 3, frameTranslation: { x: 0.05, y: -0.08 }, targets: [{ trajectory: { kind: 'circle', center: { x: 0, y: 3 }, radiusM: 0.5, periodS: 10 } }] });
+    const cfg = { ...defaultBenchConfig(), positionerFrame: { rotationDeg: 3, translationM: { x: 0.05, y: -0.08 } } };
+    const mapped = positionerToRadarFrame(run.commanded[0].points, cfg);
+    mapped.forEach((p, i) => {
+      expect(p.x).toBeCloseTo(run.truth[i].x, 12);
+      expect(p.y).toBeCloseTo(run.truth[i].y, 12);
+      expect(p.timeS).toBe(run.truth[i].timeS);
+    });
   });
 });
