@@ -11,7 +11,7 @@
  *   npm run bench -- latency
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { createWriteStream, mkdtempSync, writeFileSync, type WriteStream } from 'node:fs';
+import { createWriteStream, mkdtempSync, readFileSync, writeFileSync, type WriteStream } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -103,6 +103,17 @@ interface Figures {
   clientsReceived: number[];
   /** The bridge's own latencyMs (arrival at the bridge → scan sent), as its source messages report it. */
   bridgeReported: number[];
+  /** Resident memory of the bridge process at the end of the case, MiB (Linux /proc). */
+  rssMiB: number;
+}
+
+function rssMiB(pid: number | undefined): number {
+  try {
+    const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
+    return m ? Number(m[1]) / 1024 : NaN;
+  } catch {
+    return NaN;
+  }
 }
 
 async function measure(dir: string, rate: number, clients: number): Promise<Figures> {
@@ -112,7 +123,7 @@ async function measure(dir: string, rate: number, clients: number): Promise<Figu
   await pty.start();
   const { child, wsUrl } = await startBridgeProcess(dir, pty.device, run);
   const written = new Map<string, number>();
-  const fig: Figures = { detection: [], update: [], clientsReceived: [], bridgeReported: [] };
+  const fig: Figures = { detection: [], update: [], clientsReceived: [], bridgeReported: [], rssMiB: NaN };
   const sockets: WebSocket[] = [];
   for (let c = 0; c < clients; c++) {
     const ws = new WebSocket(wsUrl);
@@ -145,6 +156,7 @@ async function measure(dir: string, rate: number, clients: number): Promise<Figu
   // The map fills as lines are written; the clients look times up in it as scans arrive.
   await writeRealTime(out, run, SECONDS, written);
   await new Promise((r) => setTimeout(r, 500));
+  fig.rssMiB = rssMiB(child.pid);
   for (const ws of sockets) ws.close();
   out.destroy();
   child.kill('SIGINT');
@@ -164,13 +176,13 @@ async function main(): Promise<void> {
   const baseP50 = quantile(base, 0.5);
   process.stdout.write(`baseline (bare pty → reader, 300 det/s): p50 ${fmt(baseP50)} ms  p99 ${fmt(quantile(base, 0.99))} ms  (${base.length} lines)\n\n`);
   process.stdout.write(`load average at start: ${loadavg().map((l) => l.toFixed(1)).join(' ')} on ${cpus().length} cores (latencies include waiting for the CPU)\n`);
-  process.stdout.write('  det/s  clients |  detection p50     p99 |  track update p50     p99 | bridge-reported p50 | scans/client (min–max) | × baseline (p50)\n');
+  process.stdout.write('  det/s  clients |  detection p50     p99 |  track update p50     p99 | bridge-reported p50 | scans/client (min–max) | bridge RSS MiB | × baseline (p50)\n');
   for (const [rate, clients] of [[300, 1], [3000, 1], [300, 20], [3000, 20]] as const) {
     const f = await measure(dir, rate, clients);
     const counts = f.clientsReceived.filter((n) => n !== undefined);
     process.stdout.write(
       `  ${String(rate).padStart(5)}  ${String(clients).padStart(7)} | ${fmt(quantile(f.detection, 0.5))} ${fmt(quantile(f.detection, 0.99))} |` +
-        `     ${fmt(quantile(f.update, 0.5))} ${fmt(quantile(f.update, 0.99))} |             ${fmt(quantile(f.bridgeReported, 0.5))} | ${String(Math.min(...counts)).padStart(10)}–${String(Math.max(...counts)).padEnd(10)} |` +
+        `     ${fmt(quantile(f.update, 0.5))} ${fmt(quantile(f.update, 0.99))} |             ${fmt(quantile(f.bridgeReported, 0.5))} | ${String(Math.min(...counts)).padStart(10)}–${String(Math.max(...counts)).padEnd(10)} | ${f.rssMiB.toFixed(0).padStart(14)} |` +
         ` ${(quantile(f.detection, 0.5) / baseP50).toFixed(1)}\n`,
     );
   }
