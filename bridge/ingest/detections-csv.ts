@@ -117,7 +117,8 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
       } else held = d;
     };
     let nextLine = 1;
-    const cell = (record: string[], c: number) => JSON.stringify((record[c] ?? '').slice(0, 40));
+    // What to say about a cell that did not parse: a missing cell and an empty one read differently.
+    const cell = (record: string[], c: number) => (c >= record.length ? '(missing)' : record[c].trim() === '' ? '(empty)' : JSON.stringify(record[c].slice(0, 40)));
     const handle = (record: string[], out: Detection[]) => {
       while (brokenLines.length && brokenLines[0] <= nextLine) (brokenLines.shift(), nextLine++);
       const line = nextLine;

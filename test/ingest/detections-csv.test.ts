@@ -64,6 +64,9 @@ describe('readDetectionsCsv', () => {
       'bad azimuth_deg': 1, 'bad range_m': 1, 'range out of bounds': 2, 'amplitude not positive': 1, 'bad amplitude': 2, 'time going backwards': 1, 'bad time_s': 1,
     });
     expect(formatSkipReport(report)).toBe('9 rows skipped: first at line 3: azimuth_deg "abc" is not a number');
+    const { report: r2 } = await readAll('time_s,azimuth_deg,range_m,amplitude\n0,1,2\n,1,2,3\n0,1,2,3\n');
+    expect(r2.firstSkipped?.reason).toBe('amplitude (missing) is not a number');
+    expect(r2.skipped).toBe(2);
   });
 
   it('one far-future timestamp is skipped, not every row after it', async () => {
