@@ -38,8 +38,11 @@ interface Candidate {
   y: number;
   n: number;
   ampSum: number;
-  /** Smoothed share of scans with a hit. */
+  /** Smoothed share of scans with a hit, from detections no moving track took. */
   rate: number;
+  /** The same from every detection, whoever took it (for persistentAt). */
+  rateAll: number;
+  lastScanAll: number;
   lastScan: number;
   /** First detection, s. */
   firstS: number;
@@ -118,11 +121,28 @@ export class FixedEchoMap {
    * about to be). A track standing on such a spot is not evidence of motion: the tracker uses
    * this so that a track hopping between wall reflectors is not taken for a moving target.
    */
-  persistentAt(m: Measurement): boolean {
+  persistentAt(m: Measurement): { id: number; ageS: number } | null {
     const c = this.nearest(m, false);
-    if (!c) return false;
+    if (!c) return null;
     const scan = Math.floor(m.timeS / this.scanS);
-    return c.fixed || (m.timeS - c.firstS >= this.settleS() && c.rate * (1 - A) ** Math.max(0, scan - c.lastScan - 1) >= 0.3);
+    const live = c.fixed ? m.timeS - c.lastSeenS <= this.vacateS() || c.rateAll * (1 - A) ** Math.max(0, scan - c.lastScanAll - 1) >= 0.3 : c.rateAll * (1 - A) ** Math.max(0, scan - c.lastScanAll - 1) >= 0.3;
+    return live && m.timeS - c.firstS >= this.settleS() ? { id: c.id, ageS: m.timeS - c.firstS } : null;
+  }
+
+  /**
+   * Notes a detection that a moving track took: it keeps the spot's persistence up to date (so a
+   * track sitting on a reflector can be recognised) without teaching the map a fixed echo there.
+   */
+  observe(m: Measurement): void {
+    const c = this.nearest(m, false);
+    if (c) this.bumpAll(c, Math.floor(m.timeS / this.scanS));
+  }
+
+  private bumpAll(c: Candidate, scan: number): void {
+    if (scan > c.lastScanAll) {
+      c.rateAll = c.rateAll * (1 - A) ** (scan - c.lastScanAll) + A;
+      c.lastScanAll = scan;
+    }
   }
 
   /** How long a candidate must have been answering before it counts as persistent, s. */
@@ -135,7 +155,7 @@ export class FixedEchoMap {
     const scan = Math.floor(m.timeS / this.scanS);
     let c = this.nearest(m, false);
     if (!c) {
-      c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, scansSeen: 0, fixed: false };
+      c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, rateAll: 0, lastScanAll: scan - 1, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, scansSeen: 0, fixed: false };
       this.cands.set(c.id, c);
       this.grid.set(c.id, m.x, m.y, 0.5);
     }
@@ -144,6 +164,7 @@ export class FixedEchoMap {
     c.y += (m.y - c.y) / c.n;
     c.ampSum += d.amplitude;
     c.lastSeenS = m.timeS;
+    this.bumpAll(c, scan);
     if (scan > c.lastScan) {
       c.rate = c.rate * (1 - A) ** (scan - c.lastScan) + A;
       c.lastScan = scan;
@@ -162,7 +183,7 @@ export class FixedEchoMap {
   expire(nowS: number, forgetS: number): void {
     const scan = Math.floor(nowS / this.scanS);
     for (const c of this.cands.values()) {
-      const rate = c.rate * (1 - A) ** (scan - c.lastScan);
+      const rate = c.rateAll * (1 - A) ** (scan - c.lastScanAll);
       if ((c.fixed && nowS - c.lastSeenS > forgetS) || (!c.fixed && rate < 0.05)) {
         this.cands.delete(c.id);
         this.grid.remove(c.id);

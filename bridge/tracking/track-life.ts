@@ -40,8 +40,12 @@ export class Track {
   quality = 0.3;
   /** Sticky: set once the track has left its starting point. */
   moved = false;
-  /** Consecutive hits on detections inside a fixed echo's gate. */
+  /** Consecutive hits on persistent reflectors that were there before the track (see Tracker). */
   echoHits = 0;
+  /** Where and since when the track has been within moveThreshold of one spot. */
+  private stayX = NaN;
+  private stayY = NaN;
+  private stayS = NaN;
   lastNis: number | undefined;
   lastMeasurement: Measurement | undefined;
   private readonly mofn: MofN;
@@ -89,6 +93,7 @@ export class Track {
     this.lastNis = nis;
     this.lastMeasurement = m;
     this.ampSum += d.amplitude;
+    this.noteStay(m, Math.max(2 * moveThresholdM, 3 * Math.sqrt(m.rxx + m.ryy)));
     // Consistent innovations (NIS near its mean of 2) raise quality more than surprising ones.
     const g = Math.exp(-Math.max(0, nis - 2) / 4);
     this.quality += (1 - this.quality) * 0.3 * g;
@@ -122,6 +127,40 @@ export class Track {
         this.ax += (m.x - this.ax) / this.an;
         this.ay += (m.y - this.ay) / this.an;
       }
+    }
+  }
+
+  /**
+   * Time the track arrived where `m` is (its first hit within moveThresholdM of the current
+   * spot, approximately): a reflector older than the stay was there before the track.
+   */
+  lastArrivalS(m: Measurement): number {
+    return Number.isNaN(this.stayS) ? m.timeS : this.stayS;
+  }
+
+  /** Takes the moving status away and re-anchors here (see Tracker: tracks that wander onto reflectors). */
+  demote(m: Measurement): void {
+    this.moved = false;
+    this.outside = 0;
+    this.ax = m.x;
+    this.ay = m.y;
+    this.an = 1;
+    this.echoHits = 0;
+  }
+
+  private stayN = 0;
+
+  /** The stay point is the running mean of its detections, so noise does not end a stay. */
+  private noteStay(m: Measurement, thr: number): void {
+    if (Number.isNaN(this.stayS) || Math.hypot(m.x - this.stayX, m.y - this.stayY) > thr) {
+      this.stayX = m.x;
+      this.stayY = m.y;
+      this.stayS = m.timeS;
+      this.stayN = 1;
+    } else {
+      this.stayN++;
+      this.stayX += (m.x - this.stayX) / this.stayN;
+      this.stayY += (m.y - this.stayY) / this.stayN;
     }
   }
 

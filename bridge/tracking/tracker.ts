@@ -152,20 +152,27 @@ export class Tracker implements TrackEngine {
       hitNow.add(id);
       t.filter.predict(m.timeS);
       const nis = t.filter.update(m);
-      const onReflector = learn && !t.moved && this.echoes.persistentAt(m);
-      t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, onReflector, learn ? this.echoes.settleS() : 0);
-      // A "moving" track living on fixed-echo detections for four hits in a row is a track that
-      // wandered onto the echoes (a wall of reflectors): it loses its moving status and, with it,
-      // access to echo detections, so it coasts out. Four hits come well before an echo starved
-      // of its detections counts as vacated (8 scans).
-      t.echoHits = echoCost[j] < Infinity ? t.echoHits + 1 : 0;
-      if (t.echoHits >= 4) t.moved = false;
+      const wasMoving = t.moved;
+      const refl = learn ? this.echoes.persistentAt(m) : null;
+      t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, refl !== null && !wasMoving, learn ? this.echoes.settleS() : 0);
+      // A moving track that lands on a reflector which had been answering scan after scan before
+      // the track got there, and stays on it for four hits, has wandered onto it (a turn next to
+      // a mount, a wall of reflectors): it loses its moving status, and with it access to
+      // fixed-echo detections. A target pausing on its positioner starts its own spot's history
+      // when it arrives, so it is not affected.
+      // (Preexisting: twice the settle time old; one reflector may be held as neighbouring
+      // candidates, so any such reflector counts, not only the same one.)
+      t.echoHits = wasMoving && refl && refl.ageS - (m.timeS - t.lastArrivalS(m)) >= this.echoes.settleS() ? t.echoHits + 1 : 0;
+      if (t.echoHits >= 4) t.demote(m);
       if (this.becomesEcho(t, m.timeS, out)) continue;
       this.register(t);
       if (t.status !== 'tentative' && (t.moved || o.reportStationary)) out.updates.push(t.update(true));
     }
     for (let j = 0; j < ms.length; j++) {
-      if (taken[j] === 2) continue;
+      if (taken[j] === 2) {
+        if (learn) this.echoes.observe(ms[j]);
+        continue;
+      }
       const isEcho = learn && this.echoes.learn(ms[j], dets[j]);
       if (taken[j] || nearConfirmed[j] || isEcho) continue;
       const seed = this.seeds.take(ms[j]);
@@ -224,6 +231,10 @@ export class Tracker implements TrackEngine {
     const fe = this.options.fixedEchoes;
     if (!fe.enabled || t.moved || t.status === 'tentative') return false;
     if (now - t.createdS < this.echoAfterS()) return false;
+    // Only once the map holds the echo: until then the track is the competitor that keeps a
+    // passing moving track from taking the reflector's detections.
+    const m = t.lastMeasurement;
+    if (!m || !(this.echoes.match(m) < Infinity)) return false;
     this.drop(t);
     out.deletions.push({ timeS: now, id: t.id, reason: 'fixed-echo' } satisfies TrackDeletion);
     return true;
