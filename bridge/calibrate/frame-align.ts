@@ -5,7 +5,9 @@
  *
  * Observations may include clutter and fixed echoes. With an initial guess (the bench's current
  * frame) they are gated around the guessed path, the fit repeated and the gate tightened to 4σ
- * of the residuals; without one every pair is used (give a single track then).
+ * of the residuals; when the guess is too far off for the gate, a vote over rotations and
+ * translations (coarseFrame) finds a start. Without a guess every pair is used (give a single
+ * track then).
  */
 import { EchotrailError } from '../errors.ts';
 import { applyRigid, fitRigid2D, type RigidFit, type XY } from './rigid-fit.ts';
@@ -55,6 +57,11 @@ export function alignFrame(observed: TimedPoint[], commanded: TimedPoint[], opti
     return Math.hypot(q.x - m.x, q.y - m.y) <= radius;
   });
   let sel = o.initial ? near(o.initial.rotationRad, o.initial.translation, o.gateM) : pairs;
+  if (o.initial && sel.length < o.minPairs) {
+    // The starting frame is too far off for the gate: find one by voting (see coarseFrame).
+    const guess = coarseFrame(pairs, o.gateM);
+    if (guess) sel = near(guess.rotationRad, guess.translation, o.gateM);
+  }
   let result = fit(sel);
   for (let k = 0; k < o.rounds; k++) {
     // 4σ of a 2-D residual with per-axis σ keeps all but ~0.03% of true pairs (Rayleigh tail, common practice).
@@ -62,4 +69,34 @@ export function alignFrame(observed: TimedPoint[], commanded: TimedPoint[], opti
     result = fit(sel);
   }
   return { ...result, candidates: pairs.length, used: sel.length };
+}
+
+/**
+ * A starting frame when nothing better is known: for rotations every degree, every pair votes for
+ * the translation q − R·p in a grid of `cellM` cells. The target's pairs agree on one cell at the
+ * right rotation; a fixed echo's or clutter's pairs scatter as the commanded point moves. Returns
+ * the best rotation with the mean translation of its winning cell (a Hough-style vote, common
+ * practice), or null when no cell gathers 10 votes.
+ */
+export function coarseFrame(pairs: { p: XY; q: XY }[], cellM: number): { rotationRad: number; translation: XY } | null {
+  let best: { votes: number; rotationRad: number; translation: XY } | null = null;
+  for (let deg = -180; deg < 180; deg++) {
+    const rot = (deg * Math.PI) / 180;
+    const cells = new Map<string, { n: number; sx: number; sy: number }>();
+    for (const { p, q } of pairs) {
+      const m = applyRigid(p, rot, { x: 0, y: 0 });
+      const tx = q.x - m.x;
+      const ty = q.y - m.y;
+      const key = `${Math.round(tx / cellM)},${Math.round(ty / cellM)}`;
+      const c = cells.get(key) ?? { n: 0, sx: 0, sy: 0 };
+      c.n++;
+      c.sx += tx;
+      c.sy += ty;
+      cells.set(key, c);
+    }
+    for (const c of cells.values()) {
+      if (!best || c.n > best.votes) best = { votes: c.n, rotationRad: rot, translation: { x: c.sx / c.n, y: c.sy / c.n } };
+    }
+  }
+  return best && best.votes >= 10 ? { rotationRad: best.rotationRad, translation: best.translation } : null;
 }

@@ -29,6 +29,14 @@ describe('alignFrame on a simulated bench', () => {
     expect(fit.used).toBeGreaterThan(90);
   });
 
+  it('finds a badly misaligned frame from detections by voting, then fits it within 3σ', () => {
+    const run = simulateRun({ ...builtinScenario('offsets-check'), frameRotationDeg: 40, frameTranslation: { x: 0.6, y: -0.4 } });
+    const fit = alignFrame(observed(run, known), run.commanded[0].points, { initial: identity });
+    expect(Math.abs(fit.rotationRad - 40 * DEG)).toBeLessThan(3 * fit.rotationSeRad);
+    expect(Math.abs(fit.translation.x - 0.6)).toBeLessThan(3 * fit.translationSe.x);
+    expect(Math.abs(fit.translation.y + 0.4)).toBeLessThan(3 * fit.translationSe.y);
+  });
+
   it('the rotation error is honest: z-scores over 12 seeds have unit spread', () => {
     // (estimate − truth)/se ~ N(0,1) when the se is right; sample RMS of 12 values lies in
     // [0.5, 1.5] with probability ≈ 0.95 (χ²(12), common practice).
