@@ -1,6 +1,6 @@
 /**
  * The dashboard end to end: the built page in headless Chromium against a real bridge
- * (`startBridge`) replaying a simulated turntable run through the real tracker.
+ * (`startBridge`) replaying the recorded turntable demo session from replays/.
  *
  * Without Chromium the test skips with a message, except under CI=true, where it fails.
  */
@@ -12,15 +12,17 @@ import { background, trackColour } from '../../web/src/plan/palette.ts';
 import {
   buildDashboard, chromiumAvailable, colourDistance, launchChromium, repoRoot, rgbOf, samplePixels, CHROMIUM_PATH,
 } from '../web/fixtures/browser.ts';
-import { startDemoBridge, type DemoBridge } from '../web/fixtures/demo-run.ts';
+import type { RunningBridge } from '../../bridge/server/bridge.ts';
+import { startSessionBridge } from '../web/fixtures/demo-run.ts';
 
 const inCi = process.env.CI === 'true';
 const haveChromium = chromiumAvailable();
 if (!haveChromium && !inCi) console.warn(`dashboard e2e skipped: no Chromium at ${CHROMIUM_PATH} (set CHROMIUM_PATH, or run with CI=true to make this a failure)`);
 const artifacts = join(repoRoot, 'test-artifacts');
+const session = join(repoRoot, 'replays', 'bay3-turntable-loop.session.jsonl');
 
 describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', () => {
-  let demo: DemoBridge;
+  let bridge: RunningBridge;
   let browser: Browser;
   let page: Page;
   const pageErrors: string[] = [];
@@ -28,16 +30,16 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
   beforeAll(async () => {
     if (!haveChromium) throw new Error(`CI=true but no Chromium at ${CHROMIUM_PATH}`);
     const dist = await buildDashboard();
-    demo = await startDemoBridge(dist, 'turntable');
+    bridge = await startSessionBridge(dist, session);
     browser = await launchChromium();
     page = await browser.newPage({ viewport: { width: 1400, height: 860 } });
     page.on('pageerror', (e) => pageErrors.push(e.message));
-    await page.goto(demo.bridge.url);
+    await page.goto(bridge.url);
   });
 
   afterAll(async () => {
     await browser?.close();
-    await demo?.bridge.close();
+    await bridge?.close();
   });
 
   const clock = () => page.locator('[data-testid=replay-clock]').innerText();
@@ -124,6 +126,13 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
     await page.screenshot({ path: join(artifacts, 'dashboard-e2e-selected.png') });
   });
 
+  it('shows the commanded-path comparison the session carries', async () => {
+    const panel = page.locator('[data-testid=comparison]');
+    await panel.waitFor();
+    expect(await panel.innerText()).toMatch(/RMSE \(running\)\s+\d+\.\d{3} m/);
+    expect(await panel.innerText()).toMatch(/Lag behind command\s+(−|-)?\d+ (ms|s)/);
+  });
+
   it('opens the safety note and the shortcut list from the keyboard', async () => {
     await page.mouse.move(5, 5);
     await page.keyboard.press('s');
@@ -137,8 +146,8 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
   });
 
   it('runs the guided calibration against the bridge: guide, capture, fit', async () => {
-    // The turntable reflector moves, so a fit of offsets at one fixed spot must be refused by the
-    // calibration API with a coded message, and the panel must show that message as it is.
+    // A spot where nothing stands (behind the radar, away from every echo of the bay): the
+    // calibration API must refuse the fit with a coded message, and the panel show it as it is.
     await page.click('[data-testid=open-calibration]');
     const dialog = page.locator('[data-testid=calibration]');
     await dialog.locator('.steps li').first().waitFor();
@@ -149,8 +158,8 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
     await page.locator('[data-testid=source-status] [data-state="replay-playing"]').waitFor();
     await page.waitForFunction(() => /([1-9]\d{2,}) detections/.test(document.querySelector('[data-testid=calibration]')?.textContent ?? ''), undefined, { timeout: 60_000 });
     await dialog.getByRole('button', { name: '■ Stop capture' }).click();
-    await dialog.getByLabel('x, metres').fill('0');
-    await dialog.getByLabel('y, metres').fill('3.5');
+    await dialog.getByLabel('x, metres').fill('2');
+    await dialog.getByLabel('y, metres').fill('-2');
     await dialog.getByRole('button', { name: 'Fit range / azimuth offsets' }).click();
     const refusal = page.locator('[data-testid=calibration-error]');
     await refusal.waitFor();
@@ -158,5 +167,15 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
     expect(await page.locator('[data-testid=calibration-result]').count()).toBe(0);
     await page.screenshot({ path: join(artifacts, 'dashboard-e2e-calibration.png') });
     await page.keyboard.press('Escape');
+  });
+
+  it('opens another session from the picker', async () => {
+    const picker = page.locator('[data-testid=session-picker]');
+    const option = picker.locator('option', { hasText: 'crossing' });
+    await option.waitFor({ state: 'attached' });
+    await picker.selectOption(await option.getAttribute('value') ?? '');
+    await page.locator('[data-testid=source-status]', { hasText: 'crossing' }).waitFor();
+    expect(await page.locator('[data-testid=replay-clock]').innerText()).toMatch(/^0:0\d\.\d/);
+    expect(pageErrors).toEqual([]);
   });
 });
