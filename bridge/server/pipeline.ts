@@ -95,6 +95,14 @@ export class Pipeline extends EventEmitter {
   }
 
   private async switchTo(source: Source): Promise<void> {
+    // Built first: bad tracker options leave the current source running.
+    let tracker: TrackEngine | null;
+    try {
+      tracker = source.carriesTracks ? null : await this.options.createTracker();
+    } catch (err) {
+      await source.close().catch(() => undefined);
+      throw err;
+    }
     this.seek.begin(false, false);
     await this.detach();
     this.batch.discard();
@@ -102,8 +110,9 @@ export class Pipeline extends EventEmitter {
     this.state.reset();
     this.state.clearCommanded();
     this.comparison?.restart();
+    this.fixedSignature = '';
     this.stats.reset(source.kind, source.name);
-    this.tracker = source.carriesTracks ? null : await this.options.createTracker();
+    this.tracker = tracker;
     this.source = source;
     this.on2(source, 'record', (r: SourceRecord, at: number) => this.onRecord(r, at));
     this.on2(source, 'bad', (b: BadLine) => this.onBad(b));

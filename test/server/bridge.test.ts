@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { startBridge, type RunningBridge } from '../../bridge/server/bridge.ts';
 import { ScriptedSource, trackAt } from '../helpers/scripted-source.ts';
 import { TestClient } from '../helpers/ws-client.ts';
+import { hasCode } from '../../bridge/errors.ts';
 
 const quiet = (): void => undefined;
 let bridge: RunningBridge | null = null;
@@ -163,5 +164,13 @@ describe('source switches', () => {
     const scan = await c.next('scan');
     expect(scan.updates.map((u) => u.id)).toEqual([2]);
     expect(b.pipeline.status().name).toBe('z');
+  });
+});
+
+describe('tracker options', () => {
+  it('refuses bad tracker options at start with the tracker\'s own E_OPTION message', async () => {
+    const err = await startBridge({ port: 0, createSource: () => new ScriptedSource({ carriesTracks: false }), trackerOptions: { antenna: 'sideways' }, log: quiet }).catch((e: unknown) => e);
+    expect(hasCode(err, 'E_OPTION')).toBe(true);
+    expect((err as Error).message).toMatch(/antenna/);
   });
 });
