@@ -28,8 +28,8 @@ export interface TrackFilter {
   /** Current estimate. */
   estimate(): FilterEstimate;
   /**
-   * Gate statistic d² = νᵀS⁻¹ν of a measurement against the prediction at its time, and ln|S|
-   * for the assignment cost. Does not change the filter.
+   * Gate statistic d² = νᵀS⁻¹ν of a measurement against the prediction at its time, and ln|S|;
+   * the tracker gates on d2 and prices the pair at d2 + logDetS. Does not change the filter.
    */
   gate(m: Measurement): GateResult;
 }

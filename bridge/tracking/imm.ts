@@ -79,11 +79,18 @@ export class ImmCv2 implements TrackFilter {
   /**
    * Union of the two models' gates: a detection the manoeuvre model expects is in the gate even
    * while the quiet model dominates, which is exactly the moment a stop or a reversal begins.
+   * `d2 + logDetS` is the better model's assignment cost.
    */
   gate(m: Measurement): GateResult {
     const a = this.models[0].gate(m);
     const b = this.models[1].gate(m);
-    return a.d2 <= b.d2 ? a : b;
+    // In the gate if either model expects it; but priced by the model that explains it best
+    // (smallest d² + ln|S|), so the manoeuvre model's wide gate does not make a neighbour's
+    // detection look as cheap as the track's own when two targets cross.
+    const ca = a.d2 + a.logDetS;
+    const cb = b.d2 + b.logDetS;
+    const d2 = Math.min(a.d2, b.d2);
+    return { d2, logDetS: Math.min(ca, cb) - d2 };
   }
 
   predict(t: number): void {

@@ -58,10 +58,11 @@ export function decide(dets: readonly Detection[], o: TrackerOptions): TrackerIn
   let noiseFrom: Origin = o.estimateNoise ? 'default' : 'option';
   let noiseReflectors = 0;
   if (o.estimateNoise) {
-    const n = estimateNoise(dets, antenna === 'rotating' ? intervalS : Math.max(10 * intervalS, 0.1));
+    // One slice per scan: a reflector then answers about once per slice, rotating or staring.
+    const n = estimateNoise(dets, intervalS);
     // Accept estimates within a factor 4 of the typical bench figures; outside that, the
     // "stationary reflector" was more likely a slow target or two reflectors in one bin.
-    if (n && n.samples >= 20 && within(n.sigmaRangeM, sigmaRangeM) && within(n.sigmaAzimuthRad, sigmaAzimuthRad)) {
+    if (n && n.samples >= MIN_SAMPLES && within(n.sigmaRangeM, sigmaRangeM) && within(n.sigmaAzimuthRad, sigmaAzimuthRad)) {
       sigmaRangeM = n.sigmaRangeM;
       sigmaAzimuthRad = n.sigmaAzimuthRad;
       noiseFrom = 'inferred';
@@ -83,6 +84,12 @@ export function decide(dets: readonly Detection[], o: TrackerOptions): TrackerIn
     outOfOrder: 0,
   };
 }
+
+/**
+ * Fewer scan-to-scan pairs than this and the robust σ is too loose (its relative standard error
+ * is about 0.78/√n for a MAD: common practice) to beat the typical-bench defaults.
+ */
+const MIN_SAMPLES = 40;
 
 function within(v: number, ref: number): boolean {
   return v > ref / 4 && v < ref * 4;

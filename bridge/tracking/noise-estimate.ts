@@ -22,6 +22,12 @@ export interface NoiseEstimate {
 
 const RANGE_BIN = 0.4;
 const AZ_BIN = (8 * Math.PI) / 180;
+/**
+ * Pairing window: ±4·√2 of the typical noise (σ_r 5 cm, σ_az 1.5°) on the scan-to-scan
+ * difference; estimates up to about twice those figures stay inside it.
+ */
+const PAIR_RANGE = 4 * Math.SQRT2 * 0.05;
+const PAIR_AZ = (4 * Math.SQRT2 * 1.5 * Math.PI) / 180;
 
 function mad(v: number[]): number {
   const s = v.map(Math.abs).sort((a, b) => a - b);
@@ -74,7 +80,7 @@ export function estimateNoise(dets: readonly Detection[], sliceS: number): Noise
             for (const p of prev) {
               const er = d.rangeM - p.rangeM;
               const ea = azimuthDiff(d.azimuthRad, p.azimuthRad);
-              if (Math.abs(er) < RANGE_BIN && Math.abs(ea) < AZ_BIN) {
+              if (Math.abs(er) < PAIR_RANGE && Math.abs(ea) < PAIR_AZ) {
                 count++;
                 br = er;
                 ba = ea;
