@@ -6,6 +6,9 @@ import { createServer, type IncomingMessage, type ServerResponse } from 'node:ht
 import type { Duplex } from 'node:stream';
 import { randomBytes } from 'node:crypto';
 import { WebSocketServer } from 'ws';
+import { z } from 'zod';
+import type { PositionerSample } from '../types.ts';
+import { positionerToRadarFrame } from '../calibrate/bench-config.ts';
 import type { Source, SourceState } from '../ingest/source.ts';
 import { EchotrailError } from '../errors.ts';
 import { Playlist } from './playlist.ts';
@@ -47,6 +50,29 @@ export interface RunningBridge {
 
 const SESSIONS_CACHE_MS = 2000;
 
+/** The calibration's positioner → radar frame mapping for live samples, or null for the identity. */
+function positionerMapping(calibration: unknown): ((s: PositionerSample) => PositionerSample) | null {
+  const parsed = calibrationFrame.safeParse(calibration);
+  if (!parsed.success) return null;
+  const { rotationDeg, translationM } = parsed.data.positionerFrame;
+  if (rotationDeg === 0 && translationM.x === 0 && translationM.y === 0) return null;
+  const cfg = parsed.data as unknown as Parameters<typeof positionerToRadarFrame>[1];
+  return (s) => {
+    const [cmd, meas] = positionerToRadarFrame([{ x: s.cmdX, y: s.cmdY }, { x: s.measX ?? 0, y: s.measY ?? 0 }], cfg);
+    const out: PositionerSample = { timeS: s.timeS, cmdX: cmd.x, cmdY: cmd.y };
+    if (s.measX !== undefined && s.measY !== undefined) {
+      out.measX = meas.x;
+      out.measY = meas.y;
+    }
+    return out;
+  };
+}
+
+/** The part of a calibration file (bridge/calibrate/bench-config.ts) the bridge applies itself. */
+const calibrationFrame = z.object({
+  positionerFrame: z.object({ rotationDeg: z.number().finite(), translationM: z.object({ x: z.number().finite(), y: z.number().finite() }) }),
+});
+
 function hostForUrl(host: string): string {
   if (host === '0.0.0.0' || host === '::') return '127.0.0.1';
   return host.includes(':') && !host.startsWith('[') ? `[${host}]` : host;
@@ -73,12 +99,13 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
     },
     createRecorder: o.record
       ? (source, onError) =>
-          openRecording({ dir: o.sessionsDir, name: source.kind === 'serial' ? 'live' : source.name, source: { kind: source.kind, name: source.name }, config: { bench: o.benchConfig ?? null, tracker: o.trackerOptions ?? null }, onError })
+          openRecording({ dir: o.sessionsDir, name: source.kind === 'serial' ? 'live' : source.name, source: { kind: source.kind, name: source.name }, config: { bench: o.benchConfig ?? null, tracker: o.trackerOptions ?? null, calibration: o.calibration ?? null, positionerSamples: 'radar frame (calibration applied)' }, onError })
       : null,
     createComparison: () => createLiveComparison(o.log),
     state: { historyPoints: o.historyPoints, recentDetectionsS: o.recentDetectionsS, maxRecentDetections: o.maxRecentDetections },
     scanRateHz: o.scanRateHz,
     log: o.log,
+    positionerToRadar: positionerMapping(o.calibration),
   });
 
   const sessionDirs = [o.sessionsDir, ...o.extraSessionDirs];

@@ -10,7 +10,7 @@
  */
 import { EventEmitter } from 'node:events';
 import type { BadLine, Source, SourceRecord, SourceState } from '../ingest/source.ts';
-import type { FixedEcho, TrackEngine, TrackerOutput } from '../types.ts';
+import type { FixedEcho, PositionerSample, TrackEngine, TrackerOutput } from '../types.ts';
 import type { ReplayState, ServerMessage, SourceStatus } from './protocol.ts';
 import { PROTOCOL_VERSION } from './protocol.ts';
 import { isReplayControl, type LiveComparisonLike, type ReplaySourceLike } from './deps.ts';
@@ -37,6 +37,12 @@ export interface PipelineOptions {
   scanRateHz: number;
   /** Where problems the user should see in the log go. */
   log: (line: string) => void;
+  /**
+   * Maps live positioner samples from the positioner's frame into the radar frame (bench
+   * calibration), or null when the frames coincide. Applied to serial input only, before
+   * recording: sessions then hold radar-frame samples and replays need no mapping.
+   */
+  positionerToRadar: ((s: PositionerSample) => PositionerSample) | null;
 }
 
 /** How often source status, replay state, fixed echoes and comparison figures are refreshed, ms. */
@@ -154,7 +160,10 @@ export class Pipeline extends EventEmitter {
 
   private onRecord(r: SourceRecord, receivedAtMs: number): void {
     if (this.seek.intercept(r, receivedAtMs)) return;
-    if (this.source?.kind === 'serial' && this.clockWentBack(r)) this.newLiveRun();
+    if (this.source?.kind === 'serial') {
+      if (this.clockWentBack(r)) this.newLiveRun();
+      if (r.kind === 'positioner' && this.options.positionerToRadar) r = { kind: 'positioner', sample: this.options.positionerToRadar(r.sample) };
+    }
     // A replay's re-sent state after a seek is not new: neither record nor stream it twice.
     if (!this.seek.resending) this.recording.write(r);
     switch (r.kind) {

@@ -174,3 +174,29 @@ describe('tracker options', () => {
     expect((err as Error).message).toMatch(/antenna/);
   });
 });
+
+describe('positioner frame', () => {
+  const calibration = { version: 1, bench: 't', updatedUtc: '2026-12-02T00:00:00.000Z', radar: { rangeOffsetM: 0, rangeScale: 1, azimuthOffsetDeg: 0 }, positionerFrame: { rotationDeg: 90, translationM: { x: 1, y: 0 } }, history: [] };
+
+  it('maps live positioner samples into the radar frame with the calibration (p = R·p + t, R counter-clockwise)', async () => {
+    const src = new ScriptedSource({ kind: 'serial', name: '/dev/ttyP' });
+    const b = await start(src, { record: false, calibration });
+    const c = await connect(b.wsUrl);
+    await c.next('snapshot');
+    src.emitRecord({ kind: 'positioner', sample: { timeS: 1, cmdX: 1, cmdY: 0, measX: 0, measY: 2 } });
+    const p = (await c.next('scan', (s) => s.positioner.length > 0)).positioner[0];
+    expect(p.cmdX).toBeCloseTo(1, 12);
+    expect(p.cmdY).toBeCloseTo(1, 12);
+    expect(p.measX).toBeCloseTo(-1, 12);
+    expect(p.measY).toBeCloseTo(0, 12);
+  });
+
+  it('leaves replayed samples alone: sessions already hold the radar frame', async () => {
+    const src = new ScriptedSource({ kind: 'replay' });
+    const b = await start(src, { calibration });
+    const c = await connect(b.wsUrl);
+    await c.next('snapshot');
+    src.emitRecord({ kind: 'positioner', sample: { timeS: 1, cmdX: 1, cmdY: 0 } });
+    expect((await c.next('scan', (s) => s.positioner.length > 0)).positioner[0]).toEqual({ timeS: 1, cmdX: 1, cmdY: 0 });
+  });
+});
