@@ -1,0 +1,139 @@
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { run } from '../../bridge/cli/track.ts';
+import { simulateRun } from '../../bridge/sim/run.ts';
+import { SCENARIOS } from '../../bridge/sim/scenarios.ts';
+import { DETECTIONS_CSV_HEADER, detectionCsvLine } from '../../bridge/ingest/detections-csv.ts';
+import { TRACKS_CSV_COLUMNS } from '../../bridge/tracking/tracks-csv.ts';
+
+let dir = '';
+let good = '';
+
+/** Runs `track` capturing stderr. */
+async function track(args: string[]): Promise<{ code: number; err: string }> {
+  let err = '';
+  const spy = vi.spyOn(process.stderr, 'write').mockImplementation((s: string | Uint8Array) => {
+    err += String(s);
+    return true;
+  });
+  try {
+    return { code: await run(args), err };
+  } finally {
+    spy.mockRestore();
+  }
+}
+
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), 'echotrail-track-'));
+  const sim = simulateRun({ ...SCENARIOS['rail-sweep'], durationS: 40 });
+  good = join(dir, 'good.csv');
+  writeFileSync(good, [DETECTIONS_CSV_HEADER, ...sim.detections.map(detectionCsvLine)].join('\n') + '\n');
+});
+
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+const rows = (path: string) => readFileSync(path, 'utf8').trim().split('\n');
+
+describe('echotrail track', () => {
+  it('writes the tracks CSV with the agreed columns, in time order, and says what it inferred', async () => {
+    const out = join(dir, 'tracks.csv');
+    const r = await track(['--in', good, '--out', out]);
+    expect(r.code).toBe(0);
+    const lines = rows(out);
+    expect(lines[0]).toBe(TRACKS_CSV_COLUMNS.join(','));
+    expect(lines[0].startsWith('time_s,track_id,x_m,y_m,vx_mps,vy_mps,speed_mps,heading_deg')).toBe(true);
+    expect(lines.length).toBeGreaterThan(20);
+    const cells = lines.slice(1).map((l) => l.split(','));
+    const t = cells.map((c) => Number(c[0]));
+    for (let k = 1; k < t.length; k++) expect(t[k]).toBeGreaterThanOrEqual(t[k - 1]);
+    for (const c of cells) {
+      expect(c).toHaveLength(TRACKS_CSV_COLUMNS.length);
+      expect(['confirmed', 'coasting']).toContain(c[8]);
+      // Measurement columns are empty exactly on coasts.
+      expect(c[12] === '').toBe(c[8] === 'coasting');
+      const heading = Number(c[7]);
+      expect(heading).toBeGreaterThanOrEqual(0);
+      expect(heading).toBeLessThan(360);
+    }
+    expect(r.err).toMatch(/antenna: rotating \(inferred/);
+    expect(r.err).toMatch(/revolution period: 1\.000 s/);
+    expect(r.err).not.toMatch(/skipped/);
+  });
+
+  it('skips bad rows with a line-numbered report and still tracks the good ones', async () => {
+    const lines = rows(good);
+    lines.splice(200, 0, '12.5,abc,3.0,10'); // line 201: non-numeric azimuth
+    lines.splice(300, 0, 'NaN,10,3.0,10');
+    lines.splice(400, 0, '1.0,10,3.0,10'); // time going backwards
+    lines.splice(500, 0, '30.0,10,99999,10'); // absurd range
+    const bad = join(dir, 'bad.csv');
+    writeFileSync(bad, lines.join('\n') + '\n');
+    const out = join(dir, 'bad-tracks.csv');
+    const r = await track(['--in', bad, '--out', out]);
+    expect(r.code).toBe(0);
+    expect(r.err).toMatch(/4 rows skipped: first at line 201: /);
+    expect(rows(out).length).toBeGreaterThan(20);
+  });
+
+  it('refuses unusable input with a one-line reason and a non-zero exit', async () => {
+    const empty = join(dir, 'empty.csv');
+    writeFileSync(empty, '');
+    let r = await track(['--in', empty, '--out', join(dir, 'x.csv')]);
+    expect(r.code).not.toBe(0);
+    expect(r.err.trim().split('\n')).toHaveLength(1);
+    expect(r.err).toMatch(/empty/);
+
+    const cols = join(dir, 'cols.csv');
+    writeFileSync(cols, 'time_s,range_m\n0,1\n');
+    r = await track(['--in', cols, '--out', join(dir, 'x.csv')]);
+    expect(r.code).not.toBe(0);
+    expect(r.err).toMatch(/azimuth_deg/);
+
+    r = await track(['--in', join(dir, 'missing.csv'), '--out', join(dir, 'x.csv')]);
+    expect(r.code).not.toBe(0);
+    expect(r.err).toMatch(/cannot read/);
+  });
+
+  it('takes options and a profile; the command line wins over the profile', async () => {
+    const profile = join(dir, 'p.json');
+    writeFileSync(profile, JSON.stringify({ version: 1, antenna: 'rotating', intervalS: 1, estimateNoise: false, measurement: { sigmaAzimuthDeg: 1.2 }, initiation: { m: 2, n: 3 } }));
+    const out = join(dir, 'p.csv');
+    const r = await track(['--in', good, '--out', out, '--profile', profile, '--sigma-azimuth', '1.6', '--filter', 'kalman']);
+    expect(r.code).toBe(0);
+    expect(r.err).toMatch(/antenna: rotating \(as given/);
+    expect(r.err).toMatch(/σ_azimuth 1\.60° \(as given\)/);
+    expect(rows(out).length).toBeGreaterThan(20);
+
+    writeFileSync(profile, JSON.stringify({ version: 1, gate: { probability: 2 } }));
+    const bad = await track(['--in', good, '--out', out, '--profile', profile]);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/gate\.probability/);
+  });
+
+  it('rejects bad option values with exit code 2', async () => {
+    for (const args of [['--confirm', '5/3'], ['--gate-probability', '1.5'], ['--filter', 'ekf'], ['--sigma-range', 'x']]) {
+      const r = await track(['--in', good, '--out', join(dir, 'y.csv'), ...args]);
+      expect(r.code).toBe(2);
+    }
+  });
+
+  it('documents every option with units and defaults in --help', async () => {
+    let out = '';
+    const spy = vi.spyOn(process.stdout, 'write').mockImplementation((s: string | Uint8Array) => {
+      out += String(s);
+      return true;
+    });
+    try {
+      expect(await run(['--help'])).toBe(0);
+    } finally {
+      spy.mockRestore();
+    }
+    for (const opt of ['--in', '--out', '--profile', '--sigma-range', '--sigma-azimuth', '--filter', '--gate-probability', '--confirm', '--no-fixed-echoes', '--interval']) {
+      expect(out).toContain(opt);
+    }
+    expect(out).toMatch(/default 0\.99/);
+    expect(out).toMatch(/degrees/);
+  });
+});
