@@ -3,6 +3,8 @@ import { CommanderError, InvalidArgumentError, type Command } from 'commander';
 import { EchotrailError } from '../errors.ts';
 import { formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
 import type { Detection } from '../types.ts';
+import { readPathCsv, type TimedPoint } from './path.ts';
+import { readSessionRun } from './session-input.ts';
 
 /** All detections of a (calibration-sized) CSV, with the skipped-row report on stderr. */
 export async function readAllDetections(path: string): Promise<Detection[]> {
@@ -38,4 +40,27 @@ export async function runCommand(cmd: Command, argv: string[], body: (opts: Reco
     }
     throw err;
   }
+}
+
+/**
+ * Detections and (when `needPath`) the commanded path of a run: from --session, or from
+ * --detections and --commanded (a --commanded file also overrides the session's own path).
+ */
+export async function readRunInputs(o: Record<string, unknown>, needPath: boolean): Promise<{ detections: Detection[]; commanded: TimedPoint[] | null; name: string }> {
+  let detections: Detection[];
+  let commanded: TimedPoint[] | null = null;
+  let name: string;
+  if (typeof o.session === 'string') {
+    const s = await readSessionRun(o.session);
+    for (const w of s.warnings) process.stderr.write(`warning: ${w}\n`);
+    detections = s.detections;
+    commanded = s.commanded;
+    name = o.session;
+  } else if (typeof o.detections === 'string') {
+    detections = await readAllDetections(o.detections);
+    name = o.detections;
+  } else throw new EchotrailError('E_OPTION', 'give --detections FILE.csv or --session FILE');
+  if (typeof o.commanded === 'string') commanded = await readPathCsv(o.commanded, { id: o.targetId as number | undefined });
+  if (needPath && !commanded) throw new EchotrailError('E_OPTION', `${name} has no commanded path: give --commanded PATH.csv (time_s,x_m,y_m)`);
+  return { detections, commanded, name };
 }

@@ -10,7 +10,7 @@ import { alignFrame } from '../calibrate/frame-align.ts';
 import { fitRadarOffsets, type ReflectorPosition } from '../calibrate/offsets.ts';
 import { parseTracksById, readPathCsv, type TimedPoint } from '../calibrate/path.ts';
 import { formatSummary, frameRecord, frameSummary, offsetsRecord, offsetsSummary } from '../calibrate/report.ts';
-import { numberArg, readAllDetections, runCommand } from '../calibrate/cli-common.ts';
+import { numberArg, readRunInputs, runCommand } from '../calibrate/cli-common.ts';
 import { EchotrailError } from '../errors.ts';
 import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
@@ -48,7 +48,8 @@ function common(cmd: Command): Command {
 function offsetsCommand(): Command {
   return common(new Command('echotrail calibrate offsets'))
     .description('Fit range offset, range scale and azimuth offset from detections of a reflector at tape-measured positions (radar frame: x across, y along the antenna zero, metres).')
-    .requiredOption('--detections <file>', 'detections CSV of the calibration run(s) (time_s,azimuth_deg,range_m,amplitude)')
+    .option('--detections <file>', 'detections CSV of the calibration run(s) (time_s,azimuth_deg,range_m,amplitude)')
+    .option('--session <file>', 'or a recorded session (its raw detections are used)')
     .option('--reflector <x,y[,label[,from_s,to_s]]>', 'a tape-measured position, metres; repeat for each; from/to limit it to a time span, s', reflector, [])
     .option('--reflectors <file.json>', 'or a JSON array of positions: [{ "x": 0.5, "y": 1.5, "label": "A", "fromS": 0, "toS": 60 }, …] (metres, seconds)')
     .option('--fit-scale <mode>', 'auto (when distances span ≥ 0.5 m), yes or no', 'auto')
@@ -59,9 +60,10 @@ function offsetsCommand(): Command {
 function frameCommand(): Command {
   return common(new Command('echotrail calibrate frame'))
     .description('Fit the positioner frame (rotation + translation into the radar frame) from a run and its commanded path.')
-    .requiredOption('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id])')
+    .option('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id]); default with --session: the session\'s own')
     .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
     .option('--detections <file>', 'detections CSV of the run (corrected with the config\'s offsets, gated around the path)')
+    .option('--session <file>', 'or a recorded session: its detections and commanded path')
     .option('--tracks <file>', 'or a tracks CSV from echotrail track (time_s,track_id,x_m,y_m): the longest track is used')
     .option('--track-id <n>', 'use this track id instead of the longest', numberArg)
     .option('--gate <m>', 'first gate radius around the path as currently aligned, metres', numberArg, 0.5)
@@ -74,7 +76,7 @@ async function offsets(o: Record<string, unknown>): Promise<number> {
   const mode = String(o.fitScale);
   if (!['auto', 'yes', 'no'].includes(mode)) throw new EchotrailError('E_OPTION', `--fit-scale must be auto, yes or no (got '${mode}')`);
   const config = await loadBenchConfig(o.config as string, true);
-  const dets = await readAllDetections(o.detections as string);
+  const dets = (await readRunInputs(o, false)).detections;
   const fit = fitRadarOffsets(positions, dets, { fitScale: mode === 'auto' ? 'auto' : mode === 'yes', gateRangeM: o.gateRange as number, gateAzimuthDeg: o.gateAzimuth as number });
   process.stdout.write(formatSummary('radar offsets (measured = scale·true + offset):', offsetsSummary(fit)) + '\n');
   for (const r of fit.reflectors) {
@@ -91,19 +93,23 @@ async function offsets(o: Record<string, unknown>): Promise<number> {
 
 async function frame(o: Record<string, unknown>): Promise<number> {
   const config = await loadBenchConfig(o.config as string, true);
-  const commanded = await readPathCsv(o.commanded as string, { id: o.targetId as number | undefined });
+  let commanded: TimedPoint[];
   let observed: TimedPoint[];
   let initial: { rotationRad: number; translation: { x: number; y: number } } | null = null;
   if (o.tracks) {
+    if (typeof o.commanded !== 'string') throw new EchotrailError('E_OPTION', 'give --commanded PATH.csv with --tracks');
+    commanded = await readPathCsv(o.commanded, { id: o.targetId as number | undefined });
     const byId = parseTracksById(await readFile(o.tracks as string, 'utf8'), o.tracks as string);
     const id = (o.trackId as number | undefined) ?? [...byId.entries()].sort((a, b) => b[1].length - a[1].length)[0][0];
     const t = byId.get(id);
     if (!t) throw new EchotrailError('E_OPTION', `no track ${id} in ${o.tracks as string} (ids: ${[...byId.keys()].slice(0, 10).join(', ')})`);
     observed = t;
-  } else if (o.detections) {
-    observed = (await readAllDetections(o.detections as string)).map((d) => correctDetection(d, config)).map((d) => ({ timeS: d.timeS, x: d.rangeM * Math.sin(d.azimuthRad), y: d.rangeM * Math.cos(d.azimuthRad) }));
+  } else {
+    const run = await readRunInputs(o, true);
+    commanded = run.commanded as TimedPoint[];
+    observed = run.detections.map((d) => correctDetection(d, config)).map((d) => ({ timeS: d.timeS, x: d.rangeM * Math.sin(d.azimuthRad), y: d.rangeM * Math.cos(d.azimuthRad) }));
     initial = { rotationRad: config.positionerFrame.rotationDeg * DEG, translation: config.positionerFrame.translationM };
-  } else throw new EchotrailError('E_OPTION', 'give --detections or --tracks');
+  }
   const fit = alignFrame(observed, commanded, { initial, gateM: o.gate as number, allowCollinear: Boolean(o.allowLine) });
   process.stdout.write(formatSummary('positioner → radar frame (p_radar = R·p + t, R counter-clockwise):', frameSummary(fit)) + '\n');
   if (o.dryRun) return 0;

@@ -7,10 +7,10 @@ import { Command } from 'commander';
 import { loadBenchConfig, saveBenchConfig, withCalibration } from '../calibrate/bench-config.ts';
 import { describeNis } from '../calibrate/nis.ts';
 import { tuneNoise } from '../calibrate/noise-tuning.ts';
-import { readPathCsv } from '../calibrate/path.ts';
+import type { TimedPoint } from '../calibrate/path.ts';
 import { profilePath, saveTrackerProfile, tunedProfile } from '../calibrate/profile-out.ts';
 import { noiseRecord } from '../calibrate/report.ts';
-import { numberArg, readAllDetections, runCommand } from '../calibrate/cli-common.ts';
+import { numberArg, readRunInputs, runCommand } from '../calibrate/cli-common.ts';
 import { EchotrailError } from '../errors.ts';
 
 const DEG = Math.PI / 180;
@@ -18,8 +18,9 @@ const DEG = Math.PI / 180;
 function command(): Command {
   return new Command('echotrail tune')
     .description('Estimate measurement and process noise from a run with a known commanded path and write a tracker profile.')
-    .requiredOption('--detections <file>', 'detections CSV of the run (time_s,azimuth_deg,range_m,amplitude)')
-    .requiredOption('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id])')
+    .option('--detections <file>', 'detections CSV of the run (time_s,azimuth_deg,range_m,amplitude)')
+    .option('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id]); default with --session: the session\'s own')
+    .option('--session <file>', 'or a recorded session: its raw detections and commanded path')
     .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
     .requiredOption('--name <name>', 'profile name (letters, digits, . _ -): written to <profile-dir>/<name>.json')
     .option('--profile-dir <dir>', 'folder of tracker profiles', 'profiles')
@@ -35,9 +36,8 @@ async function body(o: Record<string, unknown>): Promise<number> {
   if (filter !== 'kalman' && filter !== 'imm') throw new EchotrailError('E_OPTION', `--filter must be kalman or imm (got '${filter}')`);
   const path = profilePath(o.name as string, o.profileDir as string);
   const config = await loadBenchConfig(o.config as string, true);
-  const commanded = await readPathCsv(o.commanded as string, { id: o.targetId as number | undefined });
-  const dets = await readAllDetections(o.detections as string);
-  const r = tuneNoise(dets, commanded, config, { filter, gateM: o.gate as number });
+  const run = await readRunInputs(o, true);
+  const r = tuneNoise(run.detections, run.commanded as TimedPoint[], config, { filter, gateM: o.gate as number });
   const ci = (v: [number, number], k = 1) => `[${(v[0] * k).toFixed(4)}, ${(v[1] * k).toFixed(4)}]`;
   const lines = [
     `associated detections: ${r.samples}`,
@@ -49,7 +49,7 @@ async function body(o: Record<string, unknown>): Promise<number> {
   ];
   process.stdout.write(lines.join('\n') + '\n');
   const now = new Date().toISOString();
-  const { profile, warnings } = tunedProfile(r, config, { name: o.name as string, measuredBy: o.by as string, run: o.detections as string, dateUtc: now });
+  const { profile, warnings } = tunedProfile(r, config, { name: o.name as string, measuredBy: o.by as string, run: run.name, dateUtc: now });
   for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
   if (o.dryRun) return 0;
   await saveTrackerProfile(path, profile);

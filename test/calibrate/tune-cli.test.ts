@@ -25,6 +25,7 @@ describe('echotrail tune', () => {
   it('refuses a bad name or filter before reading anything', async () => {
     expect(await tune(['--detections', 'x.csv', '--commanded', 'y.csv', '--name', '../x'])).toBe(1);
     expect(await tune(['--detections', 'x.csv', '--commanded', 'y.csv', '--name', 'ok', '--filter', 'magic'])).toBe(1);
-    expect(await tune(['--name', 'ok'])).toBe(2);
+    expect(await tune(['--detections', 'x.csv'])).toBe(2); // --name is required
+    expect(await tune(['--name', 'ok'])).toBe(1); // no input named
   });
 });
