@@ -1,0 +1,65 @@
+import { describe, expect, it } from 'vitest';
+import { lambdaMax, resolveDeletionOptions, Track } from '../../bridge/tracking/track-life.ts';
+import { KalmanCv } from '../../bridge/tracking/kalman-cv.ts';
+import type { Detection, Measurement } from '../../bridge/types.ts';
+
+const R = 0.0025;
+const meas = (t: number, x: number, y = 3): Measurement => ({ timeS: t, x, y, rxx: R, rxy: 0, ryy: R });
+const det = (t: number): Detection => ({ timeS: t, azimuthRad: 0, rangeM: 3, amplitude: 5 });
+
+function newTrack(x0: number): Track {
+  const f = new KalmanCv(meas(0, x0), { model: 'dwna', sigmaAccel: 0.3, sigmaVel0: 0.75 });
+  return new Track(1, f, meas(0, x0), det(0), { m: 3, n: 4 });
+}
+
+function hit(t: Track, m: Measurement): void {
+  t.filter.predict(m.timeS);
+  t.onHit(m, t.filter.update(m), det(m.timeS), 0.15);
+}
+
+describe('track life', () => {
+  it('confirms on M of N, coasts on misses and is deleted after maxMisses and minCoastS', () => {
+    const t = newTrack(0);
+    hit(t, meas(1, 0.2));
+    expect(t.status).toBe('tentative');
+    hit(t, meas(2, 0.4));
+    expect(t.status).toBe('confirmed');
+    const o = resolveDeletionOptions();
+    t.onMiss();
+    expect(t.status).toBe('coasting');
+    t.onMiss();
+    expect(t.deletionReason(5, o)).toBeNull();
+    t.onMiss();
+    expect(t.deletionReason(5, o)).toBe('misses');
+    expect(t.quality).toBeLessThan(0.5);
+  });
+
+  it('fails a tentative track that cannot reach M of N', () => {
+    const t = newTrack(0);
+    t.onMiss();
+    expect(t.failedInitiation()).toBe(false);
+    t.onMiss();
+    expect(t.failedInitiation()).toBe(true);
+  });
+
+  it('counts as moving only after leaving its start for three hits in a row, and stays so when it stops', () => {
+    const t = newTrack(0);
+    for (let k = 1; k <= 5; k++) hit(t, meas(k, 0.01 * (k % 2)));
+    expect(t.moved).toBe(false);
+    for (let k = 6; k <= 14; k++) hit(t, meas(k, 0.25 * (k - 5)));
+    expect(t.moved).toBe(true);
+    for (let k = 15; k <= 60; k++) hit(t, meas(k, 2.25));
+    expect(t.moved).toBe(true); // a pause keeps the track a target
+    expect(t.update(true).speed).toBeLessThan(0.05);
+  });
+
+  it('deletes on covariance growth', () => {
+    const t = newTrack(0);
+    hit(t, meas(1, 0));
+    hit(t, meas(2, 0));
+    t.filter.predict(30);
+    expect(t.deletionReason(30, resolveDeletionOptions())).toBe('covariance');
+    // λmax of [[2, 1], [1, 2]] is 3 (common practice: (a+c)/2 + √(((a−c)/2)² + b²)).
+    expect(lambdaMax(2, 1, 2)).toBeCloseTo(3, 12);
+  });
+});
