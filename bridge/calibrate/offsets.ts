@@ -103,17 +103,17 @@ export function fitRadarOffsets(positions: ReflectorPosition[], detections: Iter
       throw new EchotrailError('E_CALIBRATION', `offset fit: no detections within ±${o.gateRangeM} m and ±${o.gateAzimuthDeg}° of ${r.label} (${r.r.toFixed(2)} m, ${deg360(r.az)}°)${near}. Check the entered position or widen the gate; nothing was saved`);
     }
   }
-  // Robust first pass: common offsets from the medians, then keep detections within 4 robust σ.
-  const dr0 = refl.flatMap((r) => r.dets.map((d) => d.rangeM - r.r));
-  const da0 = refl.flatMap((r) => r.dets.map((d) => wrapPi(d.azimuthRad - r.az)));
-  const b0 = median(dr0);
-  const d0 = median(da0);
-  const sr = Math.max(robustSigma(dr0.map((v) => v - b0)), 0.005);
-  const sa = Math.max(robustSigma(da0.map((v) => v - d0)), 0.05 * DEG);
-  for (const r of refl) {
-    r.dets = r.dets.filter((d) => Math.abs(d.rangeM - r.r - b0) <= 4 * sr && Math.abs(wrapPi(d.azimuthRad - r.az) - d0) <= 4 * sa);
+  // Robust first pass: each reflector's median residuals (a scale error shifts them apart), a
+  // pooled robust σ, then keep detections within 4 robust σ of their reflector's median.
+  const centre = refl.map((r) => ({ dr: median(r.dets.map((d) => d.rangeM - r.r)), da: median(r.dets.map((d) => wrapPi(d.azimuthRad - r.az))) }));
+  const dr0 = refl.flatMap((r, i) => r.dets.map((d) => d.rangeM - r.r - centre[i].dr));
+  const da0 = refl.flatMap((r, i) => r.dets.map((d) => wrapPi(d.azimuthRad - r.az) - centre[i].da));
+  const sr = Math.max(robustSigma(dr0), 0.005);
+  const sa = Math.max(robustSigma(da0), 0.05 * DEG);
+  refl.forEach((r, i) => {
+    r.dets = r.dets.filter((d) => Math.abs(d.rangeM - r.r - centre[i].dr) <= 4 * sr && Math.abs(wrapPi(d.azimuthRad - r.az) - centre[i].da) <= 4 * sa);
     if (r.dets.length < o.minDetections) throw new EchotrailError('E_CALIBRATION', `offset fit: only ${r.dets.length} consistent detections of ${r.label} (need ${o.minDetections}); record longer or check the position; nothing was saved`);
-  }
+  });
   const span = Math.max(...refl.map((r) => r.r)) - Math.min(...refl.map((r) => r.r));
   const canScale = span >= o.minScaleSpanM;
   if (o.fitScale === true && !canScale) {

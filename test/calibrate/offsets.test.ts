@@ -38,6 +38,12 @@ describe('fitRadarOffsets on a simulated bench', () => {
     expect(fit.sigmaRangeM).toBeLessThan(0.06);
   });
 
+  it('a large scale error (5%) does not make the robust gate drop the far reflector', () => {
+    const fit = fitRadarOffsets(SPOTS, simulateRun(bench(6, { rangeScale: 1.05 })).detections);
+    expect(Math.abs(fit.rangeScale - 1.05)).toBeLessThan(3 * fit.rangeScaleSe);
+    expect(fit.reflectors[2].detections).toBeGreaterThan(45);
+  });
+
   it('its standard errors are honest: z-scores over 30 seeds have unit spread', () => {
     // If the errors are right, (estimate − truth)/se is ~N(0, 1); the sample std of 30 such
     // values lies in [0.7, 1.3] with probability ≈ 0.97 (χ²(29) quantiles, common practice).
