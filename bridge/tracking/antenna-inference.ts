@@ -11,7 +11,7 @@ export interface AntennaInference {
   kind: AntennaKind;
   /** Revolution period for a rotating antenna, s; NaN for a staring one. */
   periodS: number;
-  /** Typical time between two detections of the same target, s. */
+  /** Typical time between two detections of the same target, s; NaN when nothing repeats. */
   intervalS: number;
   /** Wrap-arounds (2π → 0) seen. */
   wraps: number;
@@ -112,5 +112,5 @@ function stareInterval(dets: readonly Detection[]): number {
     last.set(ix * 100003 + iy, d.timeS);
   }
   const m = median(gaps);
-  return m > 0 ? m : 0.01;
+  return m > 0 ? m : NaN;
 }
