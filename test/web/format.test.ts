@@ -45,3 +45,13 @@ describe('formatting with units', () => {
     expect(formatSpeedFactor(50)).toBe('50×');
   });
 });
+
+describe('formatAge', async () => {
+  const { formatAge } = await import('../../web/src/stream/format.ts');
+  it('keeps table ages short and unit-marked', () => {
+    expect(formatAge(4.26)).toBe('4.3 s');
+    expect(formatAge(76.4)).toBe('76 s');
+    expect(formatAge(725)).toBe('12 min');
+    expect(formatAge(NaN)).toBe('—');
+  });
+});

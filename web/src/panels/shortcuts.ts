@@ -11,7 +11,7 @@ export interface Shortcut { keys: string[]; label: string; command: Command }
 
 export const shortcuts: readonly Shortcut[] = [
   { keys: ['Space'], label: 'Play / pause the replay', command: 'play-pause' },
-  { keys: ['.'], label: 'Step one scan forward', command: 'step' },
+  { keys: ['.'], label: 'Step forward and pause', command: 'step' },
   { keys: ['←'], label: 'Seek 5 s back', command: 'back' },
   { keys: ['→'], label: 'Seek 5 s forward', command: 'forward' },
   { keys: ['['], label: 'Slower replay', command: 'slower' },

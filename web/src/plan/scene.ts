@@ -34,6 +34,29 @@ export const defaultSettings: PlanSettings = {
   selectedId: null, hoverId: null,
 };
 
+/**
+ * WebGL first (SwiftShader when there is no GPU), canvas as the fallback; WebGPU is left out
+ * because headless software stacks can advertise it without being able to draw with it. If a
+ * WebGL context passes pixi's check but then fails to start, try once more with canvas only.
+ */
+async function startPixi(width: number, height: number): Promise<Application> {
+  const common = {
+    width, height, failIfMajorPerformanceCaveat: false, background, antialias: true, autoStart: false,
+    resolution: window.devicePixelRatio || 1, autoDensity: true,
+  };
+  // `?renderer=canvas` forces the fallback, to check it or to work around a bad GPU driver.
+  const forced = new URLSearchParams(location.search).get('renderer') === 'canvas';
+  const app = new Application();
+  try {
+    await app.init({ ...common, preference: forced ? ['canvas'] : ['webgl', 'canvas'] });
+    return app;
+  } catch (first) {
+    const fallback = new Application();
+    await fallback.init({ ...common, preference: ['canvas'] }).catch(() => { throw first; });
+    return fallback;
+  }
+}
+
 export class PlanScene {
   view: View;
   settings: PlanSettings = { ...defaultSettings };
@@ -58,14 +81,8 @@ export class PlanScene {
   }
 
   static async create(host: HTMLElement): Promise<PlanScene> {
-    const app = new Application();
     const width = Math.max(1, host.clientWidth), height = Math.max(1, host.clientHeight);
-    // WebGL first (SwiftShader when there is no GPU), canvas as the fallback; WebGPU is left out
-    // because headless software stacks advertise it without being able to draw with it.
-    await app.init({
-      width, height, preference: ['webgl', 'canvas'], failIfMajorPerformanceCaveat: false,
-      background, antialias: true, autoStart: false, resolution: window.devicePixelRatio || 1, autoDensity: true,
-    });
+    const app = await startPixi(width, height);
     app.ticker.stop();
     host.appendChild(app.canvas);
     const scene = new PlanScene(app, width, height);
@@ -149,6 +166,9 @@ export class PlanScene {
     this.world.scale.set(v.scale, -v.scale);
     if (s) {
       this.dots.updateFixed(v, s.fixedEchoes, s.fixedVersion, o.showFixedEchoes);
+      // Canvas fallback: line width in metres, snapped to zoom steps of ~20 % so a wheel
+      // gesture does not re-stroke every trail on every notch.
+      if (this.rendererName === 'canvas') this.trails.setWorldWidth(1.2 / 1.2 ** Math.round(Math.log(v.scale) / Math.log(1.2)));
       this.trails.update(s.tracks, s.timeS, o.trailSeconds, s.epoch);
       this.renderTrailCache();
       this.paths.update(v, s, this.coverage.maxRangeM, o.selectedId, s.timeS - o.trailSeconds);

@@ -31,6 +31,18 @@ export class TrailLayer {
   /** Points stroked in the last update: the bench and tests read it. */
   strokedPoints = 0;
   private trails = new Map<number, Trail>();
+  /**
+   * The canvas renderer cannot draw `pixelLine` strokes (it fills them), so there trails are
+   * stroked with a world-unit width for the current zoom and re-stroked when the zoom changes.
+   */
+  private worldWidth: number | null = null;
+
+  /** null: 1-pixel lines (WebGL); a number: stroke width in metres (canvas fallback). */
+  setWorldWidth(width: number | null): void {
+    if (width === this.worldWidth) return;
+    this.worldWidth = width;
+    for (const t of this.trails.values()) for (const c of t.chunks.values()) c.drawn = { from: -1, to: -1 };
+  }
 
   update(tracks: Map<number, TrackEntry>, nowS: number, trailSeconds: number, epoch: number): void {
     this.strokedPoints = 0;
@@ -75,7 +87,7 @@ export class TrailLayer {
         this.settledDirty = true;
       }
       if (c.drawn.from < 0 || needsRestroke(c.drawn, r, HEAD_SLACK)) {
-        strokeRange(c.g, entry, r.from, r.to, colour);
+        strokeRange(c.g, entry, r.from, r.to, colour, this.worldWidth);
         c.drawn = { from: r.from, to: r.to };
         this.strokedPoints += r.to - r.from + 1;
         if (!c.live) this.settledDirty = true;
@@ -103,7 +115,7 @@ export class TrailLayer {
   }
 }
 
-function strokeRange(g: Graphics, entry: TrackEntry, from: number, to: number, colour: number): void {
+function strokeRange(g: Graphics, entry: TrackEntry, from: number, to: number, colour: number, worldWidth: number | null): void {
   const h = entry.history;
   g.clear();
   let i = h.slot(from);
@@ -112,5 +124,6 @@ function strokeRange(g: Graphics, entry: TrackEntry, from: number, to: number, c
     i = s % h.capacity;
     g.lineTo(h.x[i], h.y[i]);
   }
-  g.stroke({ width: 1, color: colour, alpha: 1, pixelLine: true });
+  if (worldWidth === null) g.stroke({ width: 1, color: colour, alpha: 1, pixelLine: true });
+  else g.stroke({ width: worldWidth, color: colour, alpha: 1 });
 }

@@ -15,6 +15,9 @@ export interface StreamClientOptions {
   maxBackoffMs?: number;
 }
 
+/** Frames held for the next animation frame before they are applied without waiting for it. */
+const MAX_QUEUED_FRAMES = 2000;
+
 export type FrameListener = (state: DashboardState) => void;
 
 export class StreamClient {
@@ -23,7 +26,7 @@ export class StreamClient {
   private readonly limits: StateLimits;
   private readonly maxBackoffMs: number;
   private socket: WebSocket | null = null;
-  private queue: unknown[] = [];
+  private queue: string[] = [];
   private frameRequested = false;
   private listeners = new Set<FrameListener>();
   private backoffMs = 250;
@@ -50,6 +53,8 @@ export class StreamClient {
     ws.onmessage = (ev) => {
       if (typeof ev.data !== 'string') return;
       this.queue.push(ev.data);
+      // A hidden tab gets no animation frames: apply a long backlog now rather than hold it.
+      if (this.queue.length >= MAX_QUEUED_FRAMES) this.drain();
       this.requestFrame();
     };
     ws.onclose = () => {
@@ -89,11 +94,15 @@ export class StreamClient {
     requestAnimationFrame(() => this.flush());
   }
 
-  private flush(): void {
-    this.frameRequested = false;
+  private drain(): void {
     const batch = this.queue;
     this.queue = [];
-    for (const text of batch) applyFrame(this.state, text as string, this.limits);
+    for (const text of batch) applyFrame(this.state, text, this.limits);
+  }
+
+  private flush(): void {
+    this.frameRequested = false;
+    this.drain();
     for (const l of this.listeners) l(this.state);
   }
 }

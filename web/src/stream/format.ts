@@ -77,3 +77,9 @@ export function formatShortTime(s: number | null | undefined): string {
   if (!ok(s)) return DASH;
   return Math.abs(s) < 1 ? `${(s * 1000).toFixed(0)} ms` : `${s.toFixed(2)} s`;
 }
+
+/** Compact age for table cells: "42 s", "76 s", "12 min". */
+export function formatAge(s: number | null | undefined): string {
+  if (!ok(s)) return DASH;
+  return s < 600 ? `${s.toFixed(s < 10 ? 1 : 0)} s` : `${Math.floor(s / 60)} min`;
+}
