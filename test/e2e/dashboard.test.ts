@@ -95,27 +95,7 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
   });
 
   it('draws each track where it is: pixels of its colour at its projected position', async () => {
-    await page.keyboard.press('r');
-    await page.waitForTimeout(500);
-    const target = await page.evaluate(() => {
-      const h = window.echotrail!;
-      const rect = h.canvasRect();
-      const pts = h.trackIds().map((id) => ({ id, p: h.trackPosition(id)! })).map(({ id, p }) => ({ id, s: h.project(p.x, p.y) }));
-      // The track farthest from any other on screen, so its symbol is not covered by a neighbour's.
-      const inside = pts.filter(({ s }) => s.px > 20 && s.py > 90 && s.px < rect.width - 20 && s.py < rect.height - 120);
-      const score = (a: (typeof pts)[number]) => Math.min(...pts.filter((b) => b.id !== a.id).map((b) => Math.hypot(a.s.px - b.s.px, a.s.py - b.s.py)), 1e9);
-      inside.sort((a, b) => score(b) - score(a));
-      return inside[0] ? { id: inside[0].id, x: rect.left + inside[0].s.px, y: rect.top + inside[0].s.py, corner: { x: rect.left + rect.width - 4, y: rect.top + rect.height - 4 } } : null;
-    });
-    expect(target).not.toBeNull();
-    mkdirSync(artifacts, { recursive: true });
-    const png = await page.screenshot({ path: join(artifacts, 'dashboard-e2e.png') });
-    const [atTrack, atCorner] = await samplePixels(page, png, [{ x: target!.x, y: target!.y }, target!.corner], 2);
-    const want = rgbOf(trackColour(target!.id));
-    const best = Math.min(...atTrack.map((p) => colourDistance(p, want)));
-    expect(best).toBeLessThan(40);
-    // The far corner shows the plain background (outside the coverage): the decode is sound.
-    expect(colourDistance(atCorner[0], rgbOf(background))).toBeLessThan(12);
+    const target = await checkTrackPixels(page, 'dashboard-e2e.png');
 
     // Clicking the symbol selects the track in the shared selection.
     await page.mouse.click(target!.x, target!.y);
@@ -169,6 +149,18 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
     await page.keyboard.press('Escape');
   });
 
+  it('falls back to the canvas renderer and still draws the tracks where they are', async () => {
+    const second = await browser.newPage({ viewport: { width: 1400, height: 860 } });
+    second.on('pageerror', (e) => pageErrors.push(e.message));
+    await second.goto(`${bridge.url}${bridge.url.includes('?') ? '&' : '?'}renderer=canvas`);
+    await second.waitForFunction(() => window.echotrail?.renderer === 'canvas');
+    await second.locator('[data-testid=track-list] tbody tr[data-track-id]').first().waitFor({ timeout: 60_000 });
+    if (await second.locator('[data-testid=source-status] [data-state="replay-playing"]').count()) await second.click('[data-testid=play-pause]');
+    await second.locator('[data-testid=source-status] [data-state="replay-paused"]').waitFor();
+    await checkTrackPixels(second, 'dashboard-e2e-canvas.png');
+    await second.close();
+  });
+
   it('opens another session from the picker', async () => {
     const picker = page.locator('[data-testid=session-picker]');
     const option = picker.locator('option', { hasText: 'crossing' });
@@ -179,3 +171,29 @@ describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', 
     expect(pageErrors).toEqual([]);
   });
 });
+
+/** Finds the most isolated track on screen and checks the screenshot has its colour where it is projected. */
+async function checkTrackPixels(page: Page, shotName: string): Promise<{ id: number; x: number; y: number }> {
+  await page.keyboard.press('r');
+  await page.waitForTimeout(500);
+  const target = await page.evaluate(() => {
+    const h = window.echotrail!;
+    const rect = h.canvasRect();
+    const pts = h.trackIds().map((id) => ({ id, p: h.trackPosition(id)! })).map(({ id, p }) => ({ id, s: h.project(p.x, p.y) }));
+    // The track farthest from any other on screen, so its symbol is not covered by a neighbour's.
+    const inside = pts.filter(({ s }) => s.px > 20 && s.py > 90 && s.px < rect.width - 20 && s.py < rect.height - 120);
+    const score = (a: (typeof pts)[number]) => Math.min(...pts.filter((b) => b.id !== a.id).map((b) => Math.hypot(a.s.px - b.s.px, a.s.py - b.s.py)), 1e9);
+    inside.sort((a, b) => score(b) - score(a));
+    return inside[0] ? { id: inside[0].id, x: rect.left + inside[0].s.px, y: rect.top + inside[0].s.py, corner: { x: rect.left + rect.width - 4, y: rect.top + rect.height - 4 } } : null;
+  });
+  expect(target).not.toBeNull();
+  mkdirSync(artifacts, { recursive: true });
+  const png = await page.screenshot({ path: join(artifacts, shotName) });
+  const [atTrack, atCorner] = await samplePixels(page, png, [{ x: target!.x, y: target!.y }, target!.corner], 2);
+  const want = rgbOf(trackColour(target!.id));
+  const best = Math.min(...atTrack.map((p) => colourDistance(p, want)));
+  expect(best).toBeLessThan(40);
+  // The far corner shows the plain background (outside the coverage): the decode is sound.
+  expect(colourDistance(atCorner[0], rgbOf(background))).toBeLessThan(12);
+  return target!;
+}
