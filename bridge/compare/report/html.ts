@@ -70,9 +70,10 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
   const cmdPts: [number, number][] = a.commanded.points.map((p) => [p.x, p.y]);
   const plan = planPlot(
     [
-      { name: 'commanded', color: C.cmd, points: cmdPts, width: 2.5 },
       { name: 'tracked (filtered)', color: C.trk, points: withGaps(rows.map((r) => [r.x, r.y]), times, gap), width: 1.3 },
       ...(sm ? [{ name: 'smoothed', color: C.smo, points: withGaps(sm.states.map((s): [number, number] => [s.x, s.y]), smTimes, gap), width: 1.3, dash: true }] : []),
+      // Drawn last: on a long looping run the estimates would bury the reference otherwise.
+      { name: 'commanded', color: C.cmd, points: cmdPts, width: 2.2 },
     ],
     { id: 'plan', width: 540, height: 480, xLabel: 'x, m (radar frame)', yLabel: 'y, m' },
     [

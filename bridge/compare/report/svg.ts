@@ -122,9 +122,16 @@ function extent(series: Series[], axis: 0 | 1): [number, number] {
   return [lo, hi];
 }
 
-function strokes(series: Series[], sx: (v: number) => number, sy: (v: number) => number): string {
+/** Every k-th point, for plan views (min/max buckets would zigzag a path drawn in x and y). */
+export function stride(points: [number, number][], max = 3000): [number, number][] {
+  if (points.length <= max) return points;
+  const k = Math.ceil(points.length / max);
+  return points.filter((p, i) => i % k === 0 || !Number.isFinite(p[0]) || i === points.length - 1);
+}
+
+function strokes(series: Series[], sx: (v: number) => number, sy: (v: number) => number, thin = decimate): string {
   return series
-    .map((s) => `<path d="${pathData(decimate(s.points), sx, sy)}" fill="none" stroke="${s.color}" stroke-width="${s.width ?? 1.5}"${s.dash ? ' stroke-dasharray="5 4"' : ''} stroke-linejoin="round"><title>${esc(s.name)}</title></path>`)
+    .map((s) => `<path d="${pathData(thin(s.points), sx, sy)}" fill="none" stroke="${s.color}" stroke-width="${s.width ?? 1.5}"${s.dash ? ' stroke-dasharray="5 4"' : ''} stroke-linejoin="round"><title>${esc(s.name)}</title></path>`)
     .join('');
 }
 
@@ -159,6 +166,6 @@ export function planPlot(series: Series[], o: ChartOptions, dots: { x: number; y
       extra += `<path class="radar" d="M${sx(0) - 6},${sy(0) + 5}L${sx(0)},${sy(0) - 7}L${sx(0) + 6},${sy(0) + 5}Z"><title>radar</title></path>`;
     }
     for (const d of dots) extra += `<circle cx="${sx(d.x)}" cy="${sy(d.y)}" r="4" fill="${d.color}" stroke="#fff" stroke-width="1"><title>${esc(d.label)}</title></circle>`;
-    return strokes(series, sx, sy) + extra;
+    return strokes(series, sx, sy, (p) => stride(p)) + extra;
   });
 }

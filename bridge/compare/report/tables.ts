@@ -37,8 +37,9 @@ export function wholeRunTable(a: Analysis): string {
 }
 
 /** Per-leg table: position RMSE and p95, mean along and cross, for both estimates (lag removed and not). */
-export function legTable(a: Analysis): string {
-  const rows = a.perLeg.map(({ leg, filtered, smoothed }) => {
+export function legTable(a: Analysis, maxRows = 200): string {
+  // A long looping run has hundreds of legs; summary.json keeps them all, the page the first ones.
+  const rows = a.perLeg.slice(0, maxRows).map(({ leg, filtered, smoothed }) => {
     const f = filtered.noLag;
     const fa = filtered.aligned;
     const s = smoothed?.aligned;
@@ -48,5 +49,6 @@ export function legTable(a: Analysis): string {
   });
   return `<table><thead><tr><th>leg</th><th>time, s</th><th>length, m</th><th>speed, m/s</th><th>n</th>` +
     `<th>RMSE raw</th><th>RMSE lag removed</th><th>RMSE smoothed</th><th>p95 lag removed</th><th>mean along</th><th>mean cross</th><th>mean cross smoothed</th></tr></thead>` +
-    `<tbody>${rows.join('')}</tbody></table>`;
+    `<tbody>${rows.join('')}</tbody></table>` +
+    (a.perLeg.length > maxRows ? `<p class="note">First ${maxRows} of ${a.perLeg.length} legs shown; summary.json holds all of them.</p>` : '');
 }
