@@ -41,8 +41,25 @@ export function solveDense(cost: number[][], missCost: number[]): number[] {
  * solved greedily (cheapest pair first) instead: the Hungarian method is cubic, and such clusters
  * only arise among tentative tracks in dense clutter, where an exact optimum buys nothing.
  */
-export function assign(pairs: readonly GatedPair[], missCost: (track: number) => number, maxCluster = Infinity): Array<[number, number]> {
+export function assign(pairs: readonly GatedPair[] | GatedPair[], missCost: (track: number) => number, maxCluster = Infinity): Array<[number, number]> {
   if (pairs.length === 0) return [];
+  const result: Array<[number, number]> = [];
+  // Fast path: a pair whose track and detection appear in no other pair is a cluster of its
+  // own, the usual case; only the rest goes through union-find.
+  const tCount = new Map<number, number>();
+  const dCount = new Map<number, number>();
+  for (const p of pairs) {
+    tCount.set(p.track, (tCount.get(p.track) ?? 0) + 1);
+    dCount.set(p.det, (dCount.get(p.det) ?? 0) + 1);
+  }
+  const rest: GatedPair[] = [];
+  for (const p of pairs) {
+    if (tCount.get(p.track) === 1 && dCount.get(p.det) === 1) {
+      if (p.cost <= missCost(p.track)) result.push([p.track, p.det]);
+    } else rest.push(p);
+  }
+  if (rest.length === 0) return result;
+  pairs = rest;
   // Union-find over nodes: tracks as 2k, detections as 2k+1 (ids are sparse, so use a map).
   const parent = new Map<number, number>();
   const find = (a: number): number => {
@@ -71,7 +88,6 @@ export function assign(pairs: readonly GatedPair[], missCost: (track: number) =>
     if (c) c.push(p);
     else clusters.set(root, [p]);
   }
-  const result: Array<[number, number]> = [];
   for (const c of clusters.values()) {
     if (c.length === 1) {
       if (c[0].cost <= missCost(c[0].track)) result.push([c[0].track, c[0].det]);

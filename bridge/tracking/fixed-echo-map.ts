@@ -32,7 +32,14 @@ export function resolveFixedEchoOptions(o: Partial<FixedEchoOptions> = {}): Fixe
   return r;
 }
 
-interface Candidate {
+/** Result of one look-up: nearest candidate of any kind, nearest active fixed echo. */
+export interface EchoLookup {
+  any: EchoCandidate | null;
+  fixed: EchoCandidate | null;
+}
+
+/** A reflector the map is learning or has learned (opaque outside this module). */
+export interface EchoCandidate {
   id: number;
   x: number;
   y: number;
@@ -57,7 +64,7 @@ interface Candidate {
 const A = 0.125;
 
 export class FixedEchoMap {
-  private readonly cands = new Map<number, Candidate>();
+  private readonly cands = new Map<number, EchoCandidate>();
   private readonly grid = new SpatialGrid(0.5);
   private nextId = 1;
   private fixedCount = 0;
@@ -84,21 +91,38 @@ export class FixedEchoMap {
     return Math.max(8 * this.scanS, 8);
   }
 
-  private nearest(m: Measurement, activeFixedOnly: boolean): Candidate | null {
-    let best: Candidate | null = null;
-    let bd = this.gamma;
+  private nearest(m: Measurement, activeFixedOnly: boolean): EchoCandidate | null {
+    const r = this.search(m);
+    return activeFixedOnly ? r.fixed : r.any;
+  }
+
+  /** Nearest candidate within its gate, and nearest active fixed echo, in one pass. */
+  private search(m: Measurement): EchoLookup {
+    let any: EchoCandidate | null = null;
+    let fixed: EchoCandidate | null = null;
+    let bAny = this.gamma;
+    let bFixed = this.gamma;
+    // Cheap Euclidean pre-check: no gate here is wider than 4 times the larger measurement σ.
+    const r2 = 16 * (m.rxx + m.ryy);
+    const vacate = this.vacateS();
     for (const id of this.grid.query(m.x, m.y)) {
       const c = this.cands.get(id)!;
-      if (activeFixedOnly && (!c.fixed || m.timeS - c.lastSeenS > this.vacateS())) continue;
+      const ex = m.x - c.x;
+      const ey = m.y - c.y;
+      if (ex * ex + ey * ey > r2) continue;
       // Gate on R·(1 + 1/n): the detection's own noise plus that of the candidate's mean.
       const k = 1 + 1 / c.n;
-      const d2 = mahalanobis2(m.x - c.x, m.y - c.y, k * m.rxx + 1e-4, k * m.rxy, k * m.ryy + 1e-4);
-      if (d2 < bd) {
-        bd = d2;
-        best = c;
+      const d2 = mahalanobis2(ex, ey, k * m.rxx + 1e-4, k * m.rxy, k * m.ryy + 1e-4);
+      if (d2 < bAny) {
+        bAny = d2;
+        any = c;
+      }
+      if (c.fixed && d2 < bFixed && m.timeS - c.lastSeenS <= vacate) {
+        bFixed = d2;
+        fixed = c;
       }
     }
-    return best;
+    return { any, fixed };
   }
 
   /**
@@ -107,7 +131,20 @@ export class FixedEchoMap {
    * a detection that it explains better than a moving track does.
    */
   match(m: Measurement): number {
-    const c = this.nearest(m, true);
+    return this.costOf(this.search(m), m);
+  }
+
+  /**
+   * The candidate nearest to `m` within its gate, fixed or not, or null. The tracker looks up
+   * each detection once and hands the answer to costOf, persistent, learnWith and observeWith.
+   */
+  lookup(m: Measurement): EchoLookup {
+    return this.search(m);
+  }
+
+  /** match() for a looked-up measurement: Infinity unless an active fixed echo gates it. */
+  costOf(l: EchoLookup, m: Measurement): number {
+    const c = l.fixed;
     if (!c) return Infinity;
     const k = 1 + 1 / c.n;
     const sxx = k * m.rxx + 1e-4;
@@ -122,7 +159,11 @@ export class FixedEchoMap {
    * this so that a track hopping between wall reflectors is not taken for a moving target.
    */
   persistentAt(m: Measurement): { id: number; ageS: number } | null {
-    const c = this.nearest(m, false);
+    return this.persistent(this.search(m).any, m);
+  }
+
+  /** persistentAt() for a looked-up candidate. */
+  persistent(c: EchoCandidate | null, m: Measurement): { id: number; ageS: number } | null {
     if (!c) return null;
     const scan = Math.floor(m.timeS / this.scanS);
     const live = c.fixed ? m.timeS - c.lastSeenS <= this.vacateS() || c.rateAll * (1 - A) ** Math.max(0, scan - c.lastScanAll - 1) >= 0.3 : c.rateAll * (1 - A) ** Math.max(0, scan - c.lastScanAll - 1) >= 0.3;
@@ -134,11 +175,14 @@ export class FixedEchoMap {
    * track sitting on a reflector can be recognised) without teaching the map a fixed echo there.
    */
   observe(m: Measurement): void {
-    const c = this.nearest(m, false);
+    this.observeWith(this.search(m).any, m);
+  }
+
+  observeWith(c: EchoCandidate | null, m: Measurement): void {
     if (c) this.bumpAll(c, Math.floor(m.timeS / this.scanS));
   }
 
-  private bumpAll(c: Candidate, scan: number): void {
+  private bumpAll(c: EchoCandidate, scan: number): void {
     if (scan > c.lastScanAll) {
       c.rateAll = c.rateAll * (1 - A) ** (scan - c.lastScanAll) + A;
       c.lastScanAll = scan;
@@ -152,8 +196,13 @@ export class FixedEchoMap {
 
   /** Learns from a detection no moving track took; true when it belongs to a fixed echo. */
   learn(m: Measurement, d: Detection): boolean {
+    return this.learnWith(this.search(m).any, m, d);
+  }
+
+  /** learn() for a looked-up candidate (null: start one). */
+  learnWith(found: EchoCandidate | null, m: Measurement, d: Detection): boolean {
     const scan = Math.floor(m.timeS / this.scanS);
-    let c = this.nearest(m, false);
+    let c = found && this.cands.get(found.id) === found ? found : null;
     if (!c) {
       c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, rateAll: 0, lastScanAll: scan - 1, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, scansSeen: 0, fixed: false };
       this.cands.set(c.id, c);

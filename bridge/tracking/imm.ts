@@ -32,6 +32,9 @@ export interface ImmOptions {
   sigmaVel0: number;
 }
 
+// Gate scratch: filled and consumed within one gate() call.
+const GATE_A: GateResult = { d2: 0, logDetS: 0 };
+const GATE_B: GateResult = { d2: 0, logDetS: 0 };
 // Mixing scratch: filled and consumed within one predict() call.
 const MIX_X = [new Float64Array(4), new Float64Array(4)];
 const MIX_P = [new Float64Array(16), new Float64Array(16)];
@@ -82,8 +85,8 @@ export class ImmCv2 implements TrackFilter {
    * `d2 + logDetS` is the better model's assignment cost.
    */
   gate(m: Measurement): GateResult {
-    const a = this.models[0].gate(m);
-    const b = this.models[1].gate(m);
+    const a = this.models[0].gateInto(m, GATE_A);
+    const b = this.models[1].gateInto(m, GATE_B);
     // In the gate if either model expects it; but priced by the model that explains it best
     // (smallest d² + ln|S|), so the manoeuvre model's wide gate does not make a neighbour's
     // detection look as cheap as the track's own when two targets cross.

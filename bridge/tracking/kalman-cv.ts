@@ -139,6 +139,11 @@ export class KalmanCv implements TrackFilter {
   }
 
   gate(m: Measurement): GateResult {
+    return this.gateInto(m, { d2: 0, logDetS: 0 });
+  }
+
+  /** gate() into a caller's object (the IMM calls it twice per candidate pair). */
+  gateInto(m: Measurement, out: GateResult): GateResult {
     // Same as gateAgainst(this.peek(t), m) without the intermediate object.
     const dt = m.timeS - this.timeS;
     const P = this.P;
@@ -148,7 +153,9 @@ export class KalmanCv implements TrackFilter {
     const sxy = P[2] + dt * (P[3] + P[6]) + dt * dt * P[7] + m.rxy;
     const nx = m.x - (this.x[0] + dt * this.x[1]);
     const ny = m.y - (this.x[2] + dt * this.x[3]);
-    return { d2: mahalanobis2(nx, ny, sxx, sxy, syy), logDetS: Math.log(sxx * syy - sxy * sxy) };
+    out.d2 = mahalanobis2(nx, ny, sxx, sxy, syy);
+    out.logDetS = Math.log(sxx * syy - sxy * sxy);
+    return out;
   }
 
   estimate(): FilterEstimate {

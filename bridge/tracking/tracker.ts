@@ -12,7 +12,7 @@
 import type { Detection, FixedEcho, Measurement, TrackDeletion, TrackEngine, TrackerOutput, TrackUpdate } from '../types.ts';
 import { assign, type GatedPair } from './assignment.ts';
 import { createFilter } from './filter.ts';
-import { FixedEchoMap } from './fixed-echo-map.ts';
+import { FixedEchoMap, type EchoLookup } from './fixed-echo-map.ts';
 import { gateThreshold } from './gate.ts';
 import { decide, describeInference, type TrackerInference } from './inference.ts';
 import { toMeasurement, type MeasurementOptions } from './measurement.ts';
@@ -120,11 +120,15 @@ export class Tracker implements TrackEngine {
     const pairsTent: GatedPair[] = [];
     const missCost = new Map<number, number>();
     const echoCost = new Float64Array(ms.length).fill(Infinity);
+    const cand: EchoLookup[] = new Array(ms.length);
     const nearConfirmed = new Uint8Array(ms.length);
     const learn = o.fixedEchoes.enabled;
     for (let j = 0; j < ms.length; j++) {
       const m = ms[j];
-      if (learn) echoCost[j] = this.echoes.match(m);
+      if (learn) {
+        cand[j] = this.echoes.lookup(m);
+        echoCost[j] = this.echoes.costOf(cand[j], m);
+      }
       for (const id of this.grid.query(m.x, m.y)) {
         const t = this.live.get(id)!;
         // Inside a fixed echo's gate only a moving track may take a detection, and only one
@@ -153,7 +157,7 @@ export class Tracker implements TrackEngine {
       t.filter.predict(m.timeS);
       const nis = t.filter.update(m);
       const wasMoving = t.moved;
-      const refl = learn ? this.echoes.persistentAt(m) : null;
+      const refl = learn ? this.echoes.persistent(cand[j].any, m) : null;
       t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, refl !== null && !wasMoving, learn ? this.echoes.settleS() : 0);
       // A moving track that lands on a reflector which had been answering scan after scan before
       // the track got there, and stays on it for four hits, has wandered onto it (a turn next to
@@ -170,10 +174,10 @@ export class Tracker implements TrackEngine {
     }
     for (let j = 0; j < ms.length; j++) {
       if (taken[j] === 2) {
-        if (learn) this.echoes.observe(ms[j]);
+        if (learn) this.echoes.observeWith(cand[j].any, ms[j]);
         continue;
       }
-      const isEcho = learn && this.echoes.learn(ms[j], dets[j]);
+      const isEcho = learn && this.echoes.learnWith(cand[j].any, ms[j], dets[j]);
       if (taken[j] || nearConfirmed[j] || isEcho) continue;
       const seed = this.seeds.take(ms[j]);
       if (!seed) {

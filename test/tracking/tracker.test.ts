@@ -149,8 +149,11 @@ describe('tracker end to end on simulated runs', () => {
 
   it('reports no fixed echo among the tracks of a run with a moving target', () => {
     const { run, rows } = track(SCENARIOS['rail-sweep']);
-    const onTarget = rows.filter((u) => dist(run, 0, u) < 0.5).length;
-    expect(onTarget / rows.length).toBeGreaterThan(0.85);
+    // While the map learns (its first ~10 s plus the settle time) a wall reflector may briefly
+    // pass for a target; after that, every row must be the target's.
+    const late = rows.filter((u) => u.timeS > 25);
+    const onTarget = late.filter((u) => dist(run, 0, u) < 0.5).length;
+    expect(onTarget / late.length).toBeGreaterThan(0.97);
   });
 
   it('staring antenna: hundreds of detections a second, far below the measurement noise', () => {
