@@ -7,8 +7,8 @@ import { Application, Container, RenderTexture, Sprite, type Renderer } from 'pi
 import type { DashboardState } from '../stream/state.ts';
 import { type Coverage, defaultCoverage } from './coverage.ts';
 import { DetectionDots } from './detection-dots.ts';
-import { background } from './palette.ts';
 import { PathLayer } from './path-layer.ts';
+import { startPixi } from './pixi-start.ts';
 import { StaticLayer } from './static-layer.ts';
 import { TrackMarkers } from './track-markers.ts';
 import { TrailLayer } from './trails.ts';
@@ -33,29 +33,6 @@ export const defaultSettings: PlanSettings = {
   showGrid: false, showFixedEchoes: true, showDetections: true, trailSeconds: 30, detectionAgeS: 3,
   selectedId: null, hoverId: null,
 };
-
-/**
- * WebGL first (SwiftShader when there is no GPU), canvas as the fallback; WebGPU is left out
- * because headless software stacks can advertise it without being able to draw with it. If a
- * WebGL context passes pixi's check but then fails to start, try once more with canvas only.
- */
-async function startPixi(width: number, height: number): Promise<Application> {
-  const common = {
-    width, height, failIfMajorPerformanceCaveat: false, background, antialias: true, autoStart: false,
-    resolution: window.devicePixelRatio || 1, autoDensity: true,
-  };
-  // `?renderer=canvas` forces the fallback, to check it or to work around a bad GPU driver.
-  const forced = new URLSearchParams(location.search).get('renderer') === 'canvas';
-  const app = new Application();
-  try {
-    await app.init({ ...common, preference: forced ? ['canvas'] : ['webgl', 'canvas'] });
-    return app;
-  } catch (first) {
-    const fallback = new Application();
-    await fallback.init({ ...common, preference: ['canvas'] }).catch(() => { throw first; });
-    return fallback;
-  }
-}
 
 export class PlanScene {
   view: View;

@@ -1,0 +1,26 @@
+/** Starting pixi for the plan view, with the renderer choice explained in one place. */
+import { Application } from 'pixi.js';
+import { background } from './palette.ts';
+
+/**
+ * WebGL first (SwiftShader when there is no GPU), canvas as the fallback; WebGPU is left out
+ * because headless software stacks can advertise it without being able to draw with it. If a
+ * WebGL context passes pixi's check but then fails to start, try once more with canvas only.
+ */
+export async function startPixi(width: number, height: number): Promise<Application> {
+  const common = {
+    width, height, failIfMajorPerformanceCaveat: false, background, antialias: true, autoStart: false,
+    resolution: window.devicePixelRatio || 1, autoDensity: true,
+  };
+  // `?renderer=canvas` forces the fallback, to check it or to work around a bad GPU driver.
+  const forced = new URLSearchParams(location.search).get('renderer') === 'canvas';
+  const app = new Application();
+  try {
+    await app.init({ ...common, preference: forced ? ['canvas'] : ['webgl', 'canvas'] });
+    return app;
+  } catch (first) {
+    const fallback = new Application();
+    await fallback.init({ ...common, preference: ['canvas'] }).catch(() => { throw first; });
+    return fallback;
+  }
+}
