@@ -22,6 +22,12 @@ export interface AntennaInference {
 }
 
 const TWO_PI = 2 * Math.PI;
+/**
+ * Azimuth noise makes neighbouring detections of a crowded scan step back a little; steps back by
+ * less than this (about 3σ of a typical encoder-plus-beam error, 1.5°: common practice) still
+ * count as forward.
+ */
+const JITTER_RAD = (5 * Math.PI) / 180;
 /** Shortest revolution period taken for a rotating antenna, s (benches turn at 0.5–2 s: common practice). */
 const MIN_PERIOD_S = 0.1;
 
@@ -42,7 +48,7 @@ export function inferAntenna(dets: readonly Detection[]): AntennaInference {
     if (d < -Math.PI) {
       forward++;
       wrapTimes.push(0.5 * (dets[i].timeS + dets[i - 1].timeS));
-    } else if (d >= 0) forward++;
+    } else if (d >= -JITTER_RAD) forward++;
   }
   const forwardFraction = pairs ? forward / pairs : 0;
   const base = { wraps: wrapTimes.length, forwardFraction, detections: dets.length };
