@@ -35,6 +35,11 @@ function mad(v: number[]): number {
   return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
+function drifts(v: number[]): boolean {
+  const mean = v.reduce((a, b) => a + b, 0) / v.length;
+  return Math.abs(mean) > 0.5 * 1.4826 * mad(v);
+}
+
 /**
  * @param dets detections of the first part of the run, in time order
  * @param sliceS one scan: a revolution (rotating) or a short stretch of a staring run
@@ -62,8 +67,9 @@ export function estimateNoise(dets: readonly Detection[], sliceS: number): Noise
   let reflectors = 0;
   for (const [k, b] of bins) {
     if (b.size < 0.7 * slices) continue;
-    reflectors++;
     const ir = Math.floor(k / nAz);
+    const br: number[] = [];
+    const ba: number[] = [];
     const ia = k % nAz;
     for (const [s, list] of b) {
       for (const d of list) {
@@ -71,8 +77,8 @@ export function estimateNoise(dets: readonly Detection[], sliceS: number): Noise
         // are several (a wall of reflectors closer than the bins), picking the nearest would cut
         // the tails off the difference distribution and bias σ low, so such pairs are skipped.
         let count = 0;
-        let br = 0;
-        let ba = 0;
+        let er1 = 0;
+        let ea1 = 0;
         for (let i = -1; i <= 1; i++) {
           for (let j = -1; j <= 1; j++) {
             const prev = bins.get((ir + i) * nAz + ((ia + j + nAz) % nAz))?.get(s - 1);
@@ -82,18 +88,24 @@ export function estimateNoise(dets: readonly Detection[], sliceS: number): Noise
               const ea = azimuthDiff(d.azimuthRad, p.azimuthRad);
               if (Math.abs(er) < PAIR_RANGE && Math.abs(ea) < PAIR_AZ) {
                 count++;
-                br = er;
-                ba = ea;
+                er1 = er;
+                ea1 = ea;
               }
             }
           }
         }
         if (count === 1) {
-          dr.push(br);
-          da.push(ba);
+          br.push(er1);
+          ba.push(ea1);
         }
       }
     }
+    // A slowly moving target also fills a bin scan after scan, but its differences share a
+    // drift: a bin whose mean difference exceeds half its robust σ is not a stationary one.
+    if (br.length < 5 || drifts(br) || drifts(ba)) continue;
+    reflectors++;
+    dr.push(...br);
+    da.push(...ba);
   }
   if (dr.length < 5) return null;
   return { sigmaRangeM: (1.4826 * mad(dr)) / Math.SQRT2, sigmaAzimuthRad: (1.4826 * mad(da)) / Math.SQRT2, reflectors, samples: dr.length };
