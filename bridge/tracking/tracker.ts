@@ -10,9 +10,10 @@
  * counted against each track's expected next detection (one interval after its last hit).
  */
 import type { Detection, FixedEcho, Measurement, TrackDeletion, TrackEngine, TrackerOutput, TrackUpdate } from '../types.ts';
-import { assign, type GatedPair } from './assignment.ts';
+import { assign } from './assignment.ts';
+import { gateBatch } from './gating.ts';
 import { createFilter } from './filter.ts';
-import { FixedEchoMap, type EchoLookup } from './fixed-echo-map.ts';
+import { FixedEchoMap } from './fixed-echo-map.ts';
 import { gateThreshold } from './gate.ts';
 import { decide, describeInference, type TrackerInference } from './inference.ts';
 import { toMeasurement, type MeasurementOptions } from './measurement.ts';
@@ -116,39 +117,20 @@ export class Tracker implements TrackEngine {
     // Established tracks (confirmed, coasting) pick first, tentative ones share what is left:
     // a wide tentative gate must never take a detection from an established track, and keeping
     // them apart keeps the clusters of the first pass small.
-    const pairsEst: GatedPair[] = [];
-    const pairsTent: GatedPair[] = [];
-    const missCost = new Map<number, number>();
-    const echoCost = new Float64Array(ms.length).fill(Infinity);
-    const cand: EchoLookup[] = new Array(ms.length);
-    const nearConfirmed = new Uint8Array(ms.length);
     const learn = o.fixedEchoes.enabled;
-    for (let j = 0; j < ms.length; j++) {
-      const m = ms[j];
-      if (learn) {
-        cand[j] = this.echoes.lookup(m);
-        echoCost[j] = this.echoes.costOf(cand[j], m);
-      }
-      for (const id of this.grid.query(m.x, m.y)) {
-        const t = this.live.get(id)!;
-        // Inside a fixed echo's gate only a moving track may take a detection, and only one
-        // that it explains better than the echo does.
-        if (echoCost[j] < Infinity && !t.moved) continue;
-        const { d2, logDetS: logDet } = t.filter.gate(m);
-        if (!(d2 < gamma)) continue;
-        if (d2 + logDet > echoCost[j]) continue;
-        const tentative = t.status === 'tentative';
-        (tentative ? pairsTent : pairsEst).push({ track: id, det: j, cost: d2 + logDet });
-        missCost.set(id, Math.max(missCost.get(id) ?? -Infinity, gamma + logDet));
-        if (!tentative) nearConfirmed[j] = 1;
-      }
-    }
+    const { established, tentative, missCost, echoCost, echo: cand, nearEstablished: nearConfirmed } = gateBatch(
+      ms,
+      this.grid,
+      this.live,
+      learn ? this.echoes : null,
+      gamma,
+    );
     const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
     const hitNow = new Set<number>();
     const miss = (id: number) => missCost.get(id)!;
-    const chosen = assign(pairsEst, miss, 40);
+    const chosen = assign(established, miss, 40);
     for (const [, j] of chosen) taken[j] = 1;
-    chosen.push(...assign(pairsTent.filter((p) => !taken[p.det]), miss, 12));
+    chosen.push(...assign(tentative.filter((p) => !taken[p.det]), miss, 12));
     for (const [id, j] of chosen) {
       const t = this.live.get(id)!;
       const m = ms[j];
