@@ -7,6 +7,7 @@ import { Container, Graphics, Text } from 'pixi.js';
 import type { TrackEntry } from '../stream/state.ts';
 import { cssColour, selectionColour, shapeFor, trackColour } from './palette.ts';
 import { type View, toScreen } from './view.ts';
+import { placeLabels } from './label-placement.ts';
 
 /** The velocity vector shows where the target will be in this many seconds. */
 export const VECTOR_LOOKAHEAD_S = 1;
@@ -41,8 +42,16 @@ export class TrackMarkers {
       else g.poly([p.px, p.py - 7, p.px + 7, p.py, p.px, p.py + 7, p.px - 7, p.py], true).stroke({ width: 2, color: colour });
       if (t.id === selectedId) g.circle(p.px, p.py, 12).stroke({ width: 2, color: selectionColour });
       else if (t.id === hoverId) g.circle(p.px, p.py, 11).stroke({ width: 1, color: selectionColour, alpha: 0.6 });
-      this.label(t.id, colour, p.px + 10, p.py - 10);
     }
+    this.placeAllLabels(selectedId);
+  }
+
+  /** Labels avoid each other and other symbols; the selected track gets first choice. */
+  private placeAllLabels(selectedId: number | null): void {
+    const ids = [...this.screen.keys()].sort((a, b) => (a === selectedId ? -1 : b === selectedId ? 1 : a - b));
+    const labels = ids.map((id) => this.label(id, trackColour(id)));
+    const boxes = placeLabels(ids.map((id, i) => ({ ...this.screen.get(id)!, w: labels[i].width, h: labels[i].height })));
+    boxes.forEach((b, i) => labels[i].position.set(Math.round(b.x), Math.round(b.y)));
   }
 
   /** Nearest track symbol within `radiusPx`, or null. */
@@ -56,7 +65,7 @@ export class TrackMarkers {
     return best;
   }
 
-  private label(id: number, colour: number, x: number, y: number): void {
+  private label(id: number, colour: number): Text {
     let t = this.labels.get(id);
     if (!t) {
       t = new Text({
@@ -64,11 +73,10 @@ export class TrackMarkers {
         style: { fontFamily: 'system-ui, sans-serif', fontSize: 13, fontWeight: '600', fill: cssColour(colour),
           stroke: { color: 0x0c1116, width: 3 } },
       });
-      t.anchor.set(0, 1);
       this.labels.set(id, t);
       this.container.addChild(t);
     }
-    t.position.set(Math.round(x), Math.round(y));
+    return t;
   }
 }
 
