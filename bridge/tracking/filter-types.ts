@@ -37,6 +37,8 @@ export interface TrackFilter {
 export interface GateResult {
   d2: number;
   logDetS: number;
+  /** d² under the filter's most probable model (the IMM's; d2 for single-model filters). */
+  d2Likely?: number;
 }
 
 /** d² and ln|S| of `m` against a position prediction (S = P + R). */

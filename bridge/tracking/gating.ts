@@ -19,7 +19,7 @@ export interface BatchGates {
   echoCost: Float64Array;
   /** Fixed-echo look-up of each detection (when the map is on). */
   echo: EchoLookup[];
-  /** 1 where an established track gated the detection (it then never seeds a new track). */
+  /** 1 where an established track expects the detection (it then never seeds a new track). */
   nearEstablished: Uint8Array;
 }
 
@@ -44,14 +44,17 @@ export function gateBatch(ms: readonly Measurement[], grid: SpatialGrid, live: M
       // Inside a fixed echo's gate only a moving track may take a detection, and only one that
       // it explains better than the echo does.
       if (echoCost < Infinity && !t.moved) continue;
-      const { d2, logDetS } = t.filter.gate(m);
+      const { d2, logDetS, d2Likely } = t.filter.gate(m);
       if (!(d2 < gamma)) continue;
       const cost = d2 + logDetS;
       if (cost > echoCost) continue;
       const tentative = t.status === 'tentative';
       (tentative ? g.tentative : g.established).push({ track: id, det: j, cost });
       g.missCost.set(id, Math.max(g.missCost.get(id) ?? -Infinity, gamma + logDetS));
-      if (!tentative) g.nearEstablished[j] = 1;
+      // Only a detection the track really expects (under its likely model) is kept from seeding:
+      // the manoeuvre model's wide gate would otherwise keep a close neighbour from ever
+      // getting a track of its own.
+      if (!tentative && (d2Likely ?? d2) < gamma) g.nearEstablished[j] = 1;
     }
   }
   return g;

@@ -93,7 +93,7 @@ export class ImmCv2 implements TrackFilter {
     const ca = a.d2 + a.logDetS;
     const cb = b.d2 + b.logDetS;
     const d2 = Math.min(a.d2, b.d2);
-    return { d2, logDetS: Math.min(ca, cb) - d2 };
+    return { d2, logDetS: Math.min(ca, cb) - d2, d2Likely: this.mu[0] >= this.mu[1] ? a.d2 : b.d2 };
   }
 
   predict(t: number): void {
