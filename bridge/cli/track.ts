@@ -67,7 +67,7 @@ function program(): Command {
     .option('--max-speed <mps>', 'fastest expected target, m/s; sizes the gate of new tracks (default 1.5)', num)
     .option('--max-misses <n>', 'consecutive missed scans before a confirmed track is deleted (default 3)', int)
     .option('--min-coast <s>', 'never delete for misses before this much coasting, s (default 1)', num)
-    .option('--max-sigma <m>', 'delete a track whose position σ exceeds this, m (default 1.5)', num)
+    .option('--max-sigma <m>', 'delete a track whose position σ exceeds this plus twice the measurement σ there, m (default 1.5)', num)
     .option('--no-fixed-echoes', 'do not learn fixed echoes (stationary reflectors then stay as tracks, see --stationary)')
     .option('--fixed-after <s>', 'a reflector seen in most scans this long becomes a fixed echo, s (default max(10 s, 8 scans))', num)
     .option('--move-threshold <m>', 'displacement that makes a track a moving target, m (default 0.15)', num)

@@ -12,7 +12,7 @@ export interface DeletionOptions {
   maxMisses: number;
   /** ...but never before it has coasted this long, s (matters for staring antennas at hundreds of Hz). */
   minCoastS: number;
-  /** Delete when the position standard deviation (largest axis) exceeds this, m. */
+  /** Delete when the position standard deviation (largest axis) exceeds this plus twice the measurement σ there, m. */
   maxPositionSigmaM: number;
 }
 
@@ -47,6 +47,8 @@ export class Track {
   private stayY = NaN;
   private stayS = NaN;
   lastNis: number | undefined;
+  /** Largest eigenvalue of the last detection's covariance, m². */
+  lastRMax = 0;
   lastMeasurement: Measurement | undefined;
   private readonly mofn: MofN;
   private ax: number;
@@ -69,6 +71,7 @@ export class Track {
     this.ay = m.y;
     this.ampSum = d.amplitude;
     this.lastMeasurement = m;
+    this.lastRMax = lambdaMax(m.rxx, m.rxy, m.ryy);
     if (mofn.m <= 1) this.confirm(m.timeS);
   }
 
@@ -91,6 +94,7 @@ export class Track {
     this.misses = 0;
     this.lastHitS = m.timeS;
     this.lastNis = nis;
+    this.lastRMax = lambdaMax(m.rxx, m.rxy, m.ryy);
     this.lastMeasurement = m;
     this.ampSum += d.amplitude;
     this.noteStay(m, Math.max(2 * moveThresholdM, 3 * Math.sqrt(m.rxx + m.ryy)));
@@ -183,7 +187,10 @@ export class Track {
   deletionReason(nowS: number, o: DeletionOptions): 'misses' | 'covariance' | null {
     if (this.status === 'tentative') return null;
     const e = this.filter.estimate();
-    if (Math.sqrt(lambdaMax(e.pxx, e.pxy, e.pyy)) > o.maxPositionSigmaM) return 'covariance';
+    // Relative to the measurement noise where the track is: at 30 m a 1.5° encoder alone gives
+    // 0.8 m across the beam, and one coast must not delete a track there.
+    const limit = o.maxPositionSigmaM + 2 * Math.sqrt(this.lastRMax);
+    if (Math.sqrt(lambdaMax(e.pxx, e.pxy, e.pyy)) > limit) return 'covariance';
     if (this.misses >= o.maxMisses && nowS - this.lastHitS >= o.minCoastS) return 'misses';
     return null;
   }
