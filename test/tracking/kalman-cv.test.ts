@@ -67,7 +67,7 @@ describe('KalmanCv', () => {
     }
   });
 
-  it('is consistent: average NEES over 50 Monte Carlo runs lies in the 95 % χ² interval', () => {
+  it('is consistent: average NEES and NIS over 50 Monte Carlo runs lie in their 95 % χ² intervals', () => {
     // Bar-Shalom et al. 2001, §5.4: N = 50 runs, n = 4 → [χ²_200(0.025)/50, χ²_200(0.975)/50] = [3.2546, 4.8212].
     const lo = quantile(0.025, 200) / 50;
     const hi = quantile(0.975, 200) / 50;
@@ -85,10 +85,17 @@ describe('KalmanCv', () => {
       runs[r].x[1] = 0.5 + rng.normal();
       runs[r].x[3] = -0.2 + rng.normal();
     }
+    // NIS, n = 2 (measurement dimension): [χ²_100(0.025)/50, χ²_100(0.975)/50] = [1.4844, 2.5912].
+    const nlo = quantile(0.025, 100) / 50;
+    const nhi = quantile(0.975, 100) / 50;
+    expect(nlo).toBeCloseTo(1.4844, 3);
+    expect(nhi).toBeCloseTo(2.5912, 3);
     let inside = 0;
+    let nisInside = 0;
     const steps = 40;
     for (let k = 1; k <= steps; k++) {
       let nees = 0;
+      let nis = 0;
       for (let r = 0; r < 50; r++) {
         const s = truth[r];
         // DWNA truth: a white acceleration per step (Bar-Shalom et al. 2001, §6.3.2).
@@ -100,13 +107,15 @@ describe('KalmanCv', () => {
         s[3] += ay * dt;
         const f = runs[r];
         f.predict(k * dt);
-        f.update(meas(k * dt, s[0] + rng.normal() * 0.1, s[2] + rng.normal() * 0.1, 0.01));
+        nis += f.update(meas(k * dt, s[0] + rng.normal() * 0.1, s[2] + rng.normal() * 0.1, 0.01));
         nees += neesOf(f, s);
       }
       if (nees / 50 >= lo && nees / 50 <= hi) inside++;
+      if (nis / 50 >= nlo && nis / 50 <= nhi) nisInside++;
     }
     // 95 % intervals: expect about 95 % of the 40 steps inside; allow down to 85 %.
     expect(inside / steps).toBeGreaterThan(0.85);
+    expect(nisInside / steps).toBeGreaterThan(0.85);
   });
 });
 
