@@ -112,6 +112,8 @@ function follow(path: TimedPath, rows: readonly TrackRow[], lagS: number, o: Par
   const out: TrackRow[] = [];
   for (const r of rows) {
     const c = sampleAt(path, r.timeS - lagS);
+    // Outside the commanded span there is nothing to compare with (the path would be clamped).
+    if (!c.inside) continue;
     if (f.offer(r, c.x, c.y)) out.push(r);
   }
   return { rows: out, switches: [...f.switches], releases: [...f.releases] };

@@ -146,7 +146,7 @@ export class LiveComparison {
     const path = this.path!;
     const row = rowFromUpdate(u);
     const c = sampleAt(path, u.timeS - (this.lagS ?? 0));
-    if (!this.follower.offer(row, c.x, c.y)) return;
+    if (!c.inside || !this.follower.offer(row, c.x, c.y)) return;
     const d = deviationAt(path, row);
     this.n++;
     this.sumSq += d.positionM ** 2;

@@ -70,6 +70,8 @@ beforeAll(async () => {
     rec.record({ kind: 'detection', detection: d });
     for (const u of tracker2.push(d).updates) rec.record({ kind: 'track', update: u });
   }
+  for (const u of tracker2.flush().updates) rec.record({ kind: 'track', update: u });
+  for (; k < pos.length; k++) rec.record({ kind: 'positioner', sample: { timeS: pos[k].timeS, cmdX: pos[k].x, cmdY: pos[k].y } });
   await rec.close();
   await writeFile(join(dir, 'late.csv'), commandedCsv({ ...path, points: path.points.map((p) => ({ ...p, timeS: p.timeS + 500 })) }));
 });
