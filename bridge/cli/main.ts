@@ -12,6 +12,7 @@ const SUBCOMMANDS: Record<string, { summary: string; load: () => Promise<{ run(a
   calibrate: { summary: 'fit range/azimuth offsets or the positioner frame from recorded runs', load: () => import('./calibrate.ts') },
   tune: { summary: 'estimate noise and process-noise settings from a recorded run into a tracker profile', load: () => import('./tune.ts') },
   sessions: { summary: 'list recorded sessions', load: () => import('./sessions.ts') },
+  feed: { summary: 'play a simulated bench run into a serial port in the line protocol (no radar needed)', load: () => import('./feed.ts') },
   demo: { summary: 'rebuild the demo sessions in replays/ from the bench simulator', load: () => import('./demo.ts') },
 };
 

@@ -1,0 +1,135 @@
+/**
+ * `echotrail feed`: plays a simulated bench run into a serial port (or stdout) in the line
+ * protocol (docs/line-protocol.md), in real time. It stands in for the acquisition hardware, so
+ * the live path of the bridge (serial → tracker → recorder → dashboard) can be tried and taught
+ * without a radar: pair two pseudo-terminals with socat, start the bridge on one end and feed
+ * the other.
+ */
+import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { SerialPort } from 'serialport';
+import { setTimeout as sleep } from 'node:timers/promises';
+import { iterateRun, type SimRecord } from '../sim/run.ts';
+import { beamAzimuth } from '../sim/antenna.ts';
+import { resolveScenarioOptions, type ResolvedScenario } from '../sim/scenario.ts';
+import { SCENARIOS, builtinScenario } from '../sim/scenarios.ts';
+import { encodeLine, type WireRecord } from '../ingest/line-protocol.ts';
+
+/** Options of one feed, after defaults. */
+export interface FeedOptions {
+  /** Built-in scenario name (bridge/sim/scenarios.ts). */
+  scenario: string;
+  seed: number;
+  /** Serial device to write to; null writes to stdout. */
+  port: string | null;
+  baudRate: number;
+  /** Run-time seconds per wall-clock second; 0 writes as fast as the port takes it. */
+  speed: number;
+  /** Start the run again when it ends (device time keeps counting up). */
+  loop: boolean;
+  /** Antenna heartbeat records per second (rotating antenna only). */
+  antennaRateHz: number;
+}
+
+export function resolveFeedOptions(o: Partial<FeedOptions> = {}): FeedOptions {
+  return {
+    scenario: o.scenario ?? 'turntable',
+    seed: o.seed ?? 1,
+    port: o.port ?? null,
+    baudRate: o.baudRate ?? 115200,
+    speed: o.speed ?? 1,
+    loop: o.loop ?? false,
+    antennaRateHz: o.antennaRateHz ?? 10,
+  };
+}
+
+/**
+ * The wire records of one pass over the scenario, shifted by `offsetS`, in time order:
+ * detections, antenna heartbeats and positioner samples (commanded + encoder position of the
+ * first target), as the hardware interleaves them.
+ */
+export function* feedRecords(sc: ResolvedScenario, offsetS: number, antennaRateHz: number): Generator<WireRecord> {
+  let nextAntenna = 0;
+  const cmd = new Map<number, { x: number; y: number }>();
+  const first = sc.targets[0]?.id;
+  const timeOf = (r: SimRecord) => (r.kind === 'detection' ? r.detection.timeS : r.kind === 'truth' ? r.sample.timeS : r.point.timeS);
+  for (const r of iterateRun(sc)) {
+    const t = timeOf(r);
+    if (sc.antenna.mode === 'rotating' && antennaRateHz > 0) {
+      for (; nextAntenna <= t; nextAntenna += 1 / antennaRateHz)
+        yield { kind: 'antenna', sample: { timeS: nextAntenna + offsetS, azimuthRad: beamAzimuth(sc.antenna.periodS, sc.antenna.startAzimuthRad, nextAntenna) } };
+    }
+    if (r.kind === 'detection') yield { kind: 'detection', detection: { ...r.detection, timeS: t + offsetS } };
+    else if (r.kind === 'commanded') cmd.set(r.targetId, r.point);
+    else if (r.sample.targetId === first) {
+      const c = cmd.get(first) ?? r.sample;
+      yield { kind: 'positioner', sample: { timeS: t + offsetS, cmdX: c.x, cmdY: c.y, measX: r.sample.x, measY: r.sample.y } };
+    }
+  }
+}
+
+function recordTime(r: WireRecord): number {
+  return r.kind === 'detection' ? r.detection.timeS : r.sample.timeS;
+}
+
+/** Writes the feed; resolves when the run ends (never, with loop) or the port closes. */
+export async function feed(options: FeedOptions, write: (line: string) => Promise<void>, signal?: AbortSignal): Promise<number> {
+  const sc = resolveScenarioOptions({ ...builtinScenario(options.scenario), seed: options.seed });
+  const startMs = performance.now();
+  let lines = 0;
+  for (let pass = 0; pass === 0 || options.loop; pass++) {
+    for (const rec of feedRecords(sc, pass * sc.durationS, options.antennaRateHz)) {
+      if (signal?.aborted) return lines;
+      if (options.speed > 0) {
+        const dueMs = startMs + (recordTime(rec) / options.speed) * 1000;
+        const waitMs = dueMs - performance.now();
+        if (waitMs > 1) await sleep(waitMs);
+      }
+      await write(encodeLine(rec) + '\n');
+      lines++;
+    }
+  }
+  return lines;
+}
+
+function positive(v: string): number {
+  const n = Number(v);
+  if (!Number.isFinite(n) || n < 0) throw new InvalidArgumentError('expected a number ≥ 0');
+  return n;
+}
+
+export async function run(argv: string[]): Promise<number> {
+  const cmd = new Command('echotrail feed')
+    .description('Play a simulated bench run into a serial port in the line protocol, in real time (a stand-in for the acquisition hardware).')
+    .option('--scenario <name>', `built-in scenario (${Object.keys(SCENARIOS).join(', ')})`, 'turntable')
+    .option('--seed <n>', 'PRNG seed', positive, 1)
+    .option('--port <path>', 'serial device to write to, e.g. one end of a socat pty pair (default: stdout)')
+    .option('--baud <n>', 'serial line speed, bit/s', positive, 115200)
+    .option('--speed <x>', 'run seconds per wall-clock second; 0 = as fast as possible', positive, 1)
+    .option('--loop', 'start the run again when it ends', false)
+    .exitOverride()
+    .configureOutput({ writeErr: (s) => process.stderr.write(s) });
+  try {
+    cmd.parse(argv, { from: 'user' });
+  } catch (err) {
+    if (err instanceof CommanderError) return err.exitCode;
+    throw err;
+  }
+  const f = cmd.opts<{ scenario: string; seed: number; port?: string; baud: number; speed: number; loop: boolean }>();
+  const options = resolveFeedOptions({ scenario: f.scenario, seed: f.seed, port: f.port ?? null, baudRate: f.baud, speed: f.speed, loop: f.loop });
+  const abort = new AbortController();
+  process.once('SIGINT', () => abort.abort());
+  if (!options.port) {
+    const n = await feed(options, (line) => new Promise((res) => (process.stdout.write(line) ? res() : process.stdout.once('drain', res))), abort.signal);
+    process.stderr.write(`echotrail feed: ${n} lines written\n`);
+    return 0;
+  }
+  const port = new SerialPort({ path: options.port, baudRate: options.baudRate, autoOpen: false });
+  await new Promise<void>((res, rej) => port.open((err) => (err ? rej(new Error(`cannot open '${options.port}': ${err.message}`)) : res())));
+  port.on('close', () => abort.abort());
+  process.stderr.write(`echotrail feed: scenario ${options.scenario} → ${options.port} at ${options.speed}× (Ctrl-C stops)\n`);
+  const n = await feed(options, (line) => new Promise((res) => (port.write(line) ? res() : port.once('drain', () => res()))), abort.signal);
+  await new Promise<void>((res) => port.drain(() => res()));
+  if (port.isOpen) await new Promise<void>((res) => port.close(() => res()));
+  process.stderr.write(`echotrail feed: ${n} lines written\n`);
+  return 0;
+}
