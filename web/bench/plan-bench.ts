@@ -1,10 +1,12 @@
 /**
  * Browser side of bench/dashboard.bench.ts: fills 50 tracks × 5,000 points, then streams one
- * scan per animation frame and times the render step (layer updates + pixi draw + GPU finish) of
+ * scan per animation frame and times the render step (layer updates + pixi draw + a pixel read
+ * back, which waits for the GPU) of
  * the real plan scene and of the naive redraw-everything baseline, in the same page.
  */
 import { Application } from 'pixi.js';
 import { PlanScene } from '../src/plan/scene.ts';
+import { softwareWebGl } from '../src/plan/pixi-start.ts';
 import { applyMessage } from '../src/stream/reduce.ts';
 import { createState, defaultLimits, type DashboardState } from '../src/stream/state.ts';
 import { NaivePlan } from './naive-plan.ts';
@@ -29,8 +31,9 @@ function filledState(): { state: DashboardState; t: number } {
 
 function finish(renderer: unknown): void {
   // Include the GPU's (SwiftShader's) work in the timed step, not only the command submission.
+  // gl.finish() does not wait in Chromium; reading one pixel back does.
   const gl = (renderer as { gl?: WebGLRenderingContext }).gl;
-  gl?.finish();
+  if (gl) gl.readPixels(0, 0, 1, 1, gl.RGBA, gl.UNSIGNED_BYTE, new Uint8Array(4));
 }
 
 function countPoints(s: DashboardState): number {
@@ -55,7 +58,7 @@ async function measure(mode: 'layered' | 'naive', keep = false): Promise<ModeRes
     cleanup = () => scene.destroy();
   } else {
     const app = new Application();
-    await app.init({ width: 1000, height: 800, preference: ['webgl', 'canvas'], failIfMajorPerformanceCaveat: false, background: 0x0c1116, antialias: true, autoStart: false });
+    await app.init({ width: 1000, height: 800, preference: ['webgl', 'canvas'], failIfMajorPerformanceCaveat: false, background: 0x0c1116, antialias: !softwareWebGl(), autoStart: false });
     app.ticker.stop();
     host.appendChild(app.canvas);
     rendererName = app.renderer.name;

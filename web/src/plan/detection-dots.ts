@@ -45,11 +45,12 @@ export class DetectionDots {
     for (let i = used; i < this.pool.length; i++) this.pool[i].visible = false;
   }
 
-  /** Rebuilt only when the map or the view changes. */
-  updateFixed(view: View, echoes: readonly FixedEchoDot[], version: number, show: boolean): void {
+  /** Rebuilt only when the map, the toggle or the view changes; returns whether anything changed. */
+  updateFixed(view: View, echoes: readonly FixedEchoDot[], version: number, show: boolean): boolean {
+    const toggled = this.fixedContainer.visible !== show;
     this.fixedContainer.visible = show;
     const key = `${version},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height}`;
-    if (!show || key === this.fixedKey) return;
+    if (!show || key === this.fixedKey) return toggled;
     this.fixedKey = key;
     const g = this.fixedGraphics.clear();
     for (const e of echoes) {
@@ -57,6 +58,7 @@ export class DetectionDots {
       g.rect(s.px - 4, s.py - 4, 8, 8);
     }
     g.stroke({ width: 1, color: fixedEchoColour, alpha: 0.45 });
+    return true;
   }
 
   private sprite(i: number): Sprite {

@@ -9,6 +9,7 @@ import { type Coverage, defaultCoverage } from './coverage.ts';
 import { DetectionDots } from './detection-dots.ts';
 import { PathLayer } from './path-layer.ts';
 import { startPixi } from './pixi-start.ts';
+import { background } from './palette.ts';
 import { StaticLayer } from './static-layer.ts';
 import { TrackMarkers } from './track-markers.ts';
 import { TrailLayer } from './trails.ts';
@@ -46,10 +47,15 @@ export class PlanScene {
   private readonly markers = new TrackMarkers();
   private readonly paths = new PathLayer();
   private dots!: DetectionDots;
-  /** Settled trail chunks, rendered here only when they or the view change. */
-  private trailCache: RenderTexture | null = null;
-  private readonly trailSprite = new Sprite();
-  private trailCacheKey = '';
+  /**
+   * Everything that changes rarely — rings, coverage, grid, fixed echoes and the settled trail
+   * chunks — rendered into one texture when one of them changes, so a streaming frame draws a
+   * single opaque quad for them. With software rendering every full-screen layer costs.
+   */
+  private backdrop: RenderTexture | null = null;
+  private readonly backdropSprite = new Sprite();
+  private readonly backdropContent = new Container();
+  private backdropKey = '';
   private state: DashboardState | null = null;
   private pending = false;
 
@@ -66,7 +72,8 @@ export class PlanScene {
     scene.rendererName = app.renderer.name;
     scene.dots = new DetectionDots(app.renderer);
     scene.world.addChild(scene.trails.live);
-    app.stage.addChild(scene.staticLayer.container, scene.dots.fixedContainer, scene.trailSprite, scene.world, scene.paths.container,
+    scene.backdropContent.addChild(scene.staticLayer.container, scene.dots.fixedContainer, scene.trails.settled);
+    app.stage.addChild(scene.backdropSprite, scene.world, scene.paths.container,
       scene.dots.container, scene.markers.container);
     scene.reset();
     return scene;
@@ -138,44 +145,44 @@ export class PlanScene {
   /** The render step: layer updates plus the pixi draw. */
   renderNow(): void {
     const v = this.view, s = this.state, o = this.settings;
-    this.staticLayer.update(v, this.coverage, o.showGrid);
+    let backdropChanged = this.staticLayer.update(v, this.coverage, o.showGrid);
     this.world.position.set(v.width / 2 - v.centreX * v.scale, v.height / 2 + v.centreY * v.scale);
     this.world.scale.set(v.scale, -v.scale);
     if (s) {
-      this.dots.updateFixed(v, s.fixedEchoes, s.fixedVersion, o.showFixedEchoes);
+      backdropChanged = this.dots.updateFixed(v, s.fixedEchoes, s.fixedVersion, o.showFixedEchoes) || backdropChanged;
       // Canvas fallback: line width in metres, snapped to zoom steps of ~20 % so a wheel
       // gesture does not re-stroke every trail on every notch.
       if (this.rendererName === 'canvas') this.trails.setWorldWidth(1.2 / 1.2 ** Math.round(Math.log(v.scale) / Math.log(1.2)));
       this.trails.update(s.tracks, s.timeS, o.trailSeconds, s.epoch);
-      this.renderTrailCache();
       this.paths.update(v, s, this.coverage.maxRangeM, o.selectedId, s.timeS - o.trailSeconds);
       this.dots.update(v, s.detections, s.timeS, o.detectionAgeS, o.showDetections);
       this.markers.update(v, s.tracks, o.selectedId, o.hoverId);
     }
+    this.renderBackdrop(backdropChanged);
     this.app.render();
   }
 
-  private renderTrailCache(): void {
+  private renderBackdrop(changed: boolean): void {
     const v = this.view;
     const res = this.app.renderer.resolution;
     const key = `${v.centreX},${v.centreY},${v.scale},${v.width},${v.height},${res}`;
-    if (!this.trails.settledDirty && key === this.trailCacheKey) return;
-    if (!this.trailCache || this.trailCache.width !== v.width || this.trailCache.height !== v.height) {
-      this.trailCache?.destroy(true);
-      this.trailCache = RenderTexture.create({ width: v.width, height: v.height, resolution: res });
-      this.trailSprite.texture = this.trailCache;
+    if (!changed && !this.trails.settledDirty && key === this.backdropKey) return;
+    if (!this.backdrop || this.backdrop.width !== v.width || this.backdrop.height !== v.height) {
+      this.backdrop?.destroy(true);
+      this.backdrop = RenderTexture.create({ width: v.width, height: v.height, resolution: res });
+      this.backdropSprite.texture = this.backdrop;
     }
     const settled = this.trails.settled;
     settled.position.copyFrom(this.world.position);
     settled.scale.copyFrom(this.world.scale);
-    this.app.renderer.render({ container: settled, target: this.trailCache, clear: true, clearColor: [0, 0, 0, 0] });
+    this.app.renderer.render({ container: this.backdropContent, target: this.backdrop, clear: true, clearColor: background });
     this.trails.settledDirty = false;
-    this.trailCacheKey = key;
+    this.backdropKey = key;
   }
 
   destroy(): void {
-    this.trailCache?.destroy(true);
-    this.trails.settled.destroy({ children: true });
+    this.backdrop?.destroy(true);
+    this.backdropContent.destroy({ children: true });
     this.app.destroy(true, { children: true });
   }
 }

@@ -19,9 +19,10 @@ export class StaticLayer {
     this.container.addChild(this.lines);
   }
 
-  update(view: View, coverage: Coverage, showGrid: boolean): void {
+  /** Redraws when the view, coverage or grid toggle changed; returns whether it did. */
+  update(view: View, coverage: Coverage, showGrid: boolean): boolean {
     const key = `${view.centreX},${view.centreY},${view.scale},${view.width},${view.height},${showGrid},${JSON.stringify(coverage)}`;
-    if (key === this.key) return;
+    if (key === this.key) return false;
     this.key = key;
     const g = this.lines.clear();
     let label = 0;
@@ -50,6 +51,7 @@ export class StaticLayer {
     g.rect(o.px - 5, o.py - 5, 10, 10).stroke({ width: 2, color: ringLabelColour, alpha: 0.9 });
     g.moveTo(o.px, o.py - 5).lineTo(o.px, o.py - 12).stroke({ width: 2, color: ringLabelColour, alpha: 0.9 });
     for (let i = label; i < this.labels.length; i++) this.labels[i].visible = false;
+    return true;
   }
 
   private drawCoverage(g: Graphics, view: View, c: Coverage): void {
