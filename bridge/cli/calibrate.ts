@@ -40,7 +40,7 @@ async function readPositions(path: string): Promise<ReflectorPosition[]> {
 
 function common(cmd: Command): Command {
   return cmd
-    .option('--config <file>', 'bench config JSON to read and update (created when missing)', 'bench.json')
+    .option('--calibration <file>', 'calibration file (JSON) to read and update, created when missing; the bench config\'s "calibration" entry points npm start at it', 'calibration.json')
     .option('--by <who>', 'who or what measured it, stored in the config history', process.env.USER ?? 'unknown')
     .option('--dry-run', 'fit and print, save nothing');
 }
@@ -75,7 +75,7 @@ async function offsets(o: Record<string, unknown>): Promise<number> {
   if (positions.length === 0) throw new EchotrailError('E_OPTION', 'give at least one --reflector x,y (tape-measured, metres)');
   const mode = String(o.fitScale);
   if (!['auto', 'yes', 'no'].includes(mode)) throw new EchotrailError('E_OPTION', `--fit-scale must be auto, yes or no (got '${mode}')`);
-  const config = await loadBenchConfig(o.config as string, true);
+  const config = await loadBenchConfig(o.calibration as string, true);
   const dets = (await readRunInputs(o, false)).detections;
   const fit = fitRadarOffsets(positions, dets, { fitScale: mode === 'auto' ? 'auto' : mode === 'yes', gateRangeM: o.gateRange as number, gateAzimuthDeg: o.gateAzimuth as number });
   process.stdout.write(formatSummary('radar offsets (measured = scale·true + offset):', offsetsSummary(fit)) + '\n');
@@ -86,13 +86,13 @@ async function offsets(o: Record<string, unknown>): Promise<number> {
   if (o.dryRun) return 0;
   const now = new Date().toISOString();
   const next = withCalibration(config, { radar: { ...config.radar, rangeOffsetM: fit.rangeOffsetM, rangeScale: fit.rangeScale, azimuthOffsetDeg: fit.azimuthOffsetRad / DEG } }, offsetsRecord(fit, o.by as string, now, positions.length));
-  await saveBenchConfig(o.config as string, next);
-  process.stdout.write(`saved to ${o.config as string}\n`);
+  await saveBenchConfig(o.calibration as string, next);
+  process.stdout.write(`saved to ${o.calibration as string}\n`);
   return 0;
 }
 
 async function frame(o: Record<string, unknown>): Promise<number> {
-  const config = await loadBenchConfig(o.config as string, true);
+  const config = await loadBenchConfig(o.calibration as string, true);
   let commanded: TimedPoint[];
   let observed: TimedPoint[];
   let initial: { rotationRad: number; translation: { x: number; y: number } } | null = null;
@@ -114,8 +114,8 @@ async function frame(o: Record<string, unknown>): Promise<number> {
   process.stdout.write(formatSummary('positioner → radar frame (p_radar = R·p + t, R counter-clockwise):', frameSummary(fit)) + '\n');
   if (o.dryRun) return 0;
   const next = withCalibration(config, { positionerFrame: { rotationDeg: fit.rotationRad / DEG, translationM: fit.translation } }, frameRecord(fit, o.by as string, new Date().toISOString()));
-  await saveBenchConfig(o.config as string, next);
-  process.stdout.write(`saved to ${o.config as string}\n`);
+  await saveBenchConfig(o.calibration as string, next);
+  process.stdout.write(`saved to ${o.calibration as string}\n`);
   return 0;
 }
 

@@ -24,7 +24,7 @@ function command(): Command {
     .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
     .requiredOption('--name <name>', 'profile name (letters, digits, . _ -): written to <profile-dir>/<name>.json')
     .option('--profile-dir <dir>', 'folder of tracker profiles', 'profiles')
-    .option('--config <file>', 'bench config with offsets and frame (read; the noise figures are added to its history)', 'bench.json')
+    .option('--calibration <file>', 'calibration file with offsets and frame (read; the noise figures are added to its history)', 'calibration.json')
     .option('--filter <kind>', 'filter to tune: kalman (σ_a, m/s²) or imm (both levels scaled)', 'kalman')
     .option('--gate <m>', 'association radius around the commanded position, metres', numberArg, 0.4)
     .option('--by <who>', 'who or what tuned it, stored in the profile and the config history', process.env.USER ?? 'unknown')
@@ -35,7 +35,7 @@ async function body(o: Record<string, unknown>): Promise<number> {
   const filter = String(o.filter);
   if (filter !== 'kalman' && filter !== 'imm') throw new EchotrailError('E_OPTION', `--filter must be kalman or imm (got '${filter}')`);
   const path = profilePath(o.name as string, o.profileDir as string);
-  const config = await loadBenchConfig(o.config as string, true);
+  const config = await loadBenchConfig(o.calibration as string, true);
   const run = await readRunInputs(o, true);
   const r = tuneNoise(run.detections, run.commanded as TimedPoint[], config, { filter, gateM: o.gate as number });
   const ci = (v: [number, number], k = 1) => `[${(v[0] * k).toFixed(4)}, ${(v[1] * k).toFixed(4)}]`;
@@ -53,7 +53,7 @@ async function body(o: Record<string, unknown>): Promise<number> {
   for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
   if (o.dryRun) return 0;
   await saveTrackerProfile(path, profile);
-  await saveBenchConfig(o.config as string, withCalibration(config, { radar: { ...config.radar, sigmaRangeM: r.sigmaRangeM, sigmaAzimuthDeg: r.sigmaAzimuthRad / DEG } }, noiseRecord(r, o.by as string, now)));
+  await saveBenchConfig(o.calibration as string, withCalibration(config, { radar: { ...config.radar, sigmaRangeM: r.sigmaRangeM, sigmaAzimuthDeg: r.sigmaAzimuthRad / DEG } }, noiseRecord(r, o.by as string, now)));
   process.stdout.write(`profile written to ${path}; use: echotrail track --profile ${path}\n`);
   return 0;
 }

@@ -10,14 +10,14 @@ import { loadBenchConfig } from '../../bridge/calibrate/bench-config.ts';
 describe('echotrail calibrate', () => {
   it('offsets then frame, saved into the bench config with history', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'echotrail-calcli-'));
-    const config = join(dir, 'bench.json');
+    const config = join(dir, 'calibration.json');
     expect(await simulate(['--scenario', 'tape-points', '--out', join(dir, 'tape.csv')])).toBe(0);
-    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5,A', '--reflector', '-1,3,B', '--reflector', '1.2,4.8,C', '--config', config, '--by', 'cli test'])).toBe(0);
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5,A', '--reflector', '-1,3,B', '--reflector', '1.2,4.8,C', '--calibration', config, '--by', 'cli test'])).toBe(0);
     const c1 = await loadBenchConfig(config);
     expect(Math.abs(c1.radar.azimuthOffsetDeg - 2)).toBeLessThan(0.5);
     expect(c1.history[0].measuredBy).toBe('cli test');
     expect(await simulate(['--scenario', 'offsets-check', '--out', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv')])).toBe(0);
-    expect(await calibrate(['frame', '--detections', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv'), '--config', config])).toBe(0);
+    expect(await calibrate(['frame', '--detections', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv'), '--calibration', config])).toBe(0);
     const c2 = await loadBenchConfig(config);
     expect(Math.abs(c2.positionerFrame.rotationDeg - 3)).toBeLessThan(1.5);
     expect(c2.history.map((h) => h.kind)).toEqual(['offsets', 'frame']);
@@ -30,21 +30,21 @@ describe('echotrail calibrate', () => {
     const truth = (await readFile(join(dir, 't.csv'), 'utf8')).trim().split('\n').slice(1).map((l) => l.split(',').map(Number));
     const rows = ['time_s,track_id,x_m,y_m,meas_x_m,meas_y_m', ...truth.map(([t, , x, y]) => `${t},7,${x + 1},${y},${x},${y}`), '1,9,0,3,0,3', '2,9,0,3,0,3'];
     await writeFile(join(dir, 'tracks.csv'), rows.join('\n') + '\n');
-    const config = join(dir, 'bench.json');
-    expect(await calibrate(['frame', '--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'c.csv'), '--config', config])).toBe(0);
+    const config = join(dir, 'calibration.json');
+    expect(await calibrate(['frame', '--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'c.csv'), '--calibration', config])).toBe(0);
     const c = await loadBenchConfig(config);
     expect(c.positionerFrame.rotationDeg).toBeCloseTo(3, 2); // truth CSV is rounded to 0.1 mm
     expect(c.positionerFrame.translationM.x).toBeCloseTo(0.05, 3);
-    expect(await calibrate(['frame', '--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'c.csv'), '--track-id', '5', '--config', config])).toBe(1);
+    expect(await calibrate(['frame', '--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'c.csv'), '--track-id', '5', '--calibration', config])).toBe(1);
   });
 
   it('a failed fit saves nothing and exits 1; bad usage exits 2', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'echotrail-calcli-'));
-    const config = join(dir, 'bench.json');
+    const config = join(dir, 'calibration.json');
     expect(await simulate(['--scenario', 'tape-points', '--out', join(dir, 'tape.csv')])).toBe(0);
-    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '2.5,0.3', '--config', config])).toBe(1);
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '2.5,0.3', '--calibration', config])).toBe(1);
     await expect(stat(config)).rejects.toThrow();
-    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5', '--fit-scale', 'yes', '--config', config])).toBe(1);
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5', '--fit-scale', 'yes', '--calibration', config])).toBe(1);
     await expect(stat(config)).rejects.toThrow();
     expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', 'one,two'])).toBe(2);
     expect(await calibrate(['sideways'])).toBe(2);
@@ -52,7 +52,7 @@ describe('echotrail calibrate', () => {
     expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflectors', join(dir, 'spots.json'), '--dry-run'])).toBe(0);
     await writeFile(join(dir, 'bad.json'), JSON.stringify([{ x: 'near the door' }]));
     expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflectors', join(dir, 'bad.json'), '--dry-run'])).toBe(1);
-    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5', '--dry-run', '--config', config])).toBe(0);
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), '--reflector', '0.5,1.5', '--dry-run', '--calibration', config])).toBe(0);
     await expect(readFile(config, 'utf8')).rejects.toThrow();
   });
 });

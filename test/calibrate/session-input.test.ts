@@ -45,9 +45,9 @@ describe('readSessionRun', () => {
     const s = await readSessionRun(file);
     expect(s.pathSource).toBe('positioner');
     for (let i = 1; i < s.commanded!.length; i++) expect(s.commanded![i].timeS).toBeGreaterThan(s.commanded![i - 1].timeS);
-    const config = join(dir, 'bench.json');
+    const config = join(dir, 'calibration.json');
     await saveBenchConfig(config, { ...defaultBenchConfig(), radar: { rangeOffsetM: 0.12, rangeScale: 1, azimuthOffsetDeg: 2 }, positionerFrame: { rotationDeg: 3, translationM: { x: 0.05, y: -0.08 } } });
-    expect(await tune(['--session', file, '--name', 'from-session', '--profile-dir', join(dir, 'p'), '--config', config])).toBe(0);
+    expect(await tune(['--session', file, '--name', 'from-session', '--profile-dir', join(dir, 'p'), '--calibration', config])).toBe(0);
     expect((await loadTrackerProfile(join(dir, 'p', 'from-session.json'))).filter?.kind).toBe('kalman');
   });
 });

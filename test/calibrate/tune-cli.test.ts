@@ -11,10 +11,10 @@ import { loadBenchConfig, saveBenchConfig, defaultBenchConfig } from '../../brid
 describe('echotrail tune', () => {
   it('writes a named profile the tracker can load', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'echotrail-tunecli-'));
-    const config = join(dir, 'bench.json');
+    const config = join(dir, 'calibration.json');
     await saveBenchConfig(config, { ...defaultBenchConfig('bay 3'), radar: { rangeOffsetM: 0.12, rangeScale: 1, azimuthOffsetDeg: 2 }, positionerFrame: { rotationDeg: 3, translationM: { x: 0.05, y: -0.08 } } });
     expect(await simulate(['--scenario', 'offsets-check', '--out', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv')])).toBe(0);
-    const code = await tune(['--detections', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv'), '--name', 'bay3-eight', '--profile-dir', join(dir, 'profiles'), '--config', config, '--by', 'cli test']);
+    const code = await tune(['--detections', join(dir, 'd.csv'), '--commanded', join(dir, 'c.csv'), '--name', 'bay3-eight', '--profile-dir', join(dir, 'profiles'), '--calibration', config, '--by', 'cli test']);
     expect(code).toBe(0);
     const opts = await loadTrackerProfile(join(dir, 'profiles', 'bay3-eight.json'));
     expect(opts.measurement?.rangeOffsetM).toBe(-0.12);
