@@ -56,6 +56,10 @@ export interface EchoCandidate {
   /** Start of the current persistent stretch, s. */
   sinceS: number;
   lastSeenS: number;
+  /** Times of the last few learned detections, s (a ring of RECENT_SEEN, NaN while empty). */
+  recentS: number[];
+  /** Next slot of recentS. */
+  recentAt: number;
   scansSeen: number;
   fixed: boolean;
 }
@@ -182,6 +186,41 @@ export class FixedEchoMap {
     if (c) this.bumpAll(c, Math.floor(m.timeS / this.scanS));
   }
 
+  /**
+   * True when a spot a track has left still answers: one of the track's earlier hits (`hits`,
+   * oldest first, the latest last; those of the last `withinS` count) or the hit where its
+   * departure began (`from`, whatever its age) lies on a reflector of the map that has since given
+   * two detections the track did not take, at least `gapS` after that hit, and that reflector is not
+   * where the track is now (`now`). A target that drives on leaves its spots silent behind it; a
+   * track hopping from one reflector of a wall to the next leaves reflectors that keep answering.
+   * Only detections the map learned count (no moving track took them). (The age limit: a track that coasted over from elsewhere, say a mount track that lost its
+   * mount and picked up a target, is judged on where it has been lately.)
+   */
+  leftBehindAnswers(hits: readonly Measurement[], from: Measurement | undefined, now: Measurement, gapS: number, withinS: number): boolean {
+    const here = this.search(now).any;
+    const answers = (h: Measurement, k: number): boolean => {
+      const c = this.search(h).any;
+      if (!c || c === here || c.lastSeenS < h.timeS + gapS) return false;
+      // Twice since the hit, not counting the track's own later hits (they land on its old spots
+      // when it moves slowly): one stray answer may be the same target taken by a duplicate track.
+      let foreign = 0;
+      for (const t of c.recentS) {
+        if (!(t >= h.timeS + gapS)) continue;
+        let own = false;
+        for (let i = k + 1; i < hits.length; i++) if (hits[i].timeS === t) own = true;
+        if (!own) foreign++;
+      }
+      return foreign >= 2;
+    };
+    for (let k = 0; k < hits.length - 1; k++) if (now.timeS - hits[k].timeS <= withinS && answers(hits[k], k)) return true;
+    if (from && from !== hits[hits.length - 1]) {
+      let k = hits.indexOf(from);
+      if (k < 0) k = -1;
+      if (answers(from, k)) return true;
+    }
+    return false;
+  }
+
   private bumpAll(c: EchoCandidate, scan: number): void {
     if (scan > c.lastScanAll) {
       c.rateAll = c.rateAll * (1 - A) ** (scan - c.lastScanAll) + A;
@@ -204,7 +243,7 @@ export class FixedEchoMap {
     const scan = Math.floor(m.timeS / this.scanS);
     let c = found && this.cands.get(found.id) === found ? found : null;
     if (!c) {
-      c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, rateAll: 0, lastScanAll: scan - 1, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, scansSeen: 0, fixed: false };
+      c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, rateAll: 0, lastScanAll: scan - 1, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, recentS: [NaN, NaN, NaN, NaN], recentAt: 0, scansSeen: 0, fixed: false };
       this.cands.set(c.id, c);
       this.grid.set(c.id, m.x, m.y, 0.5);
     }
@@ -213,6 +252,8 @@ export class FixedEchoMap {
     c.y += (m.y - c.y) / c.n;
     c.ampSum += d.amplitude;
     c.lastSeenS = m.timeS;
+    c.recentS[c.recentAt] = m.timeS;
+    c.recentAt = (c.recentAt + 1) % c.recentS.length;
     this.bumpAll(c, scan);
     if (scan > c.lastScan) {
       c.rate = c.rate * (1 - A) ** (scan - c.lastScan) + A;

@@ -23,7 +23,19 @@ export interface BatchGates {
   nearEstablished: Uint8Array;
 }
 
-export function gateBatch(ms: readonly Measurement[], grid: SpatialGrid, live: Map<number, Track>, echoes: FixedEchoMap | null, gamma: number): BatchGates {
+/**
+ * @param minGapS a track takes no detection less than this after its last hit: on a rotating
+ *   antenna one target answers once per revolution, so a second detection within the same sweep
+ *   is a neighbour's (the way a track would chain along a wall of reflectors); 0 = no limit
+ */
+export function gateBatch(
+  ms: readonly Measurement[],
+  grid: SpatialGrid,
+  live: Map<number, Track>,
+  echoes: FixedEchoMap | null,
+  gamma: number,
+  minGapS = 0,
+): BatchGates {
   const g: BatchGates = {
     established: [],
     tentative: [],
@@ -44,6 +56,7 @@ export function gateBatch(ms: readonly Measurement[], grid: SpatialGrid, live: M
       // Inside a fixed echo's gate only a moving track may take a detection, and only one that
       // it explains better than the echo does.
       if (echoCost < Infinity && !t.moved) continue;
+      if (m.timeS - t.lastHitS < minGapS) continue;
       const { d2, logDetS, d2Likely } = t.filter.gate(m);
       if (!(d2 < gamma)) continue;
       const cost = d2 + logDetS;

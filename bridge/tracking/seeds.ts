@@ -25,10 +25,13 @@ export class SeedPool {
   /**
    * @param maxSpeedMps fastest expected target, m/s
    * @param lifeS a seed pairs with detections up to this much later, s
+   * @param minGapS ...and no sooner than this, s: on a rotating antenna a reflector answers once
+   *   per revolution, so two detections of one sweep are two reflectors (neighbours on a wall)
    */
   constructor(
     private readonly maxSpeedMps: number,
     private readonly lifeS: number,
+    private readonly minGapS = 0,
   ) {
     // One cell spans a seed's whole reach, so a look-up needs the 3×3 block around it.
     this.inv = 1 / Math.max(maxSpeedMps * lifeS + 0.3, 0.05);
@@ -63,7 +66,7 @@ export class SeedPool {
         if (!c) continue;
         for (const s of c) {
           const dt = m.timeS - s.m.timeS;
-          if (s.dead || !(dt > 0)) continue;
+          if (s.dead || !(dt > 0) || dt < this.minGapS) continue;
           const sig = Math.sqrt(Math.max(s.m.rxx + m.rxx, s.m.ryy + m.ryy));
           const reach = this.maxSpeedMps * dt + 3 * sig;
           const q = Math.hypot(m.x - s.m.x, m.y - s.m.y) / reach;

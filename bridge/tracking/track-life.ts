@@ -30,6 +30,9 @@ export function lambdaMax(a: number, b: number, c: number): number {
   return 0.5 * (a + c) + Math.sqrt(h * h + b * b);
 }
 
+/** Earlier hits a track keeps for the left-behind test: the start of a three-hit departure. */
+export const RECENT_HITS = 5;
+
 export class Track {
   status: TrackStatus = 'tentative';
   hits = 1;
@@ -38,8 +41,10 @@ export class Track {
   confirmedS = NaN;
   /** 0..1, see onHit/onMiss. */
   quality = 0.3;
-  /** Sticky: set once the track has left its starting point. */
+  /** Sticky: set once the track has left its starting point (unless demoted). */
   moved = false;
+  /** When `moved` was last set, s. */
+  movedS = NaN;
   /** Consecutive hits on persistent reflectors that were there before the track (see Tracker). */
   echoHits = 0;
   /** Where and since when the track has been within moveThreshold of one spot. */
@@ -50,11 +55,15 @@ export class Track {
   /** Largest eigenvalue of the last detection's covariance, m². */
   lastRMax = 0;
   lastMeasurement: Measurement | undefined;
+  /** The latest hits, oldest first (at most RECENT_HITS), kept through coasts, for the left-behind test. */
+  readonly recent: Measurement[] = [];
   private readonly mofn: MofN;
   private ax: number;
   private ay: number;
   private an = 1;
   private outside = 0;
+  /** First hit of the current run of hits away from the anchor. */
+  private outsideFrom: Measurement | undefined;
   private ampSum: number;
 
   constructor(
@@ -66,6 +75,7 @@ export class Track {
     readonly createdS = m.timeS,
   ) {
     this.lastHitS = m.timeS;
+    this.recent.push(m);
     this.mofn = new MofN(mofn.m, mofn.n);
     this.ax = m.x;
     this.ay = m.y;
@@ -89,7 +99,9 @@ export class Track {
    * `onReflector` says the detection sits on a persistent stationary reflector; no track counts
    * as moving before it is `settleS` old, the time the map needs to know the reflectors.
    */
-  onHit(m: Measurement, nis: number, d: Detection, moveThresholdM: number, onReflector = false, settleS = 0): void {
+  onHit(m: Measurement, nis: number, d: Detection, moveThresholdM: number, onReflector = false, settleS = 0, leftBehind = false): void {
+    this.recent.push(m);
+    if (this.recent.length > RECENT_HITS) this.recent.shift();
     this.hits++;
     this.misses = 0;
     this.lastHitS = m.timeS;
@@ -122,9 +134,21 @@ export class Track {
       // A hit on a spot where a stationary reflector has answered for several scans is not
       // counted either way: that is how a track hopping along a wall looks.
       if (onReflector) {
-        // neither evidence of motion nor of rest
+        // Neither evidence of motion nor of rest; but the track is here now, so a departure is
+        // measured from here: a track that slid along a wall to its end must not count the
+        // distance from where it started as motion.
+        this.outside = 0;
+        this.an = 1;
+        this.ax = m.x;
+        this.ay = m.y;
       } else if (this.status !== 'tentative' && d2 > 13.8155 && dx * dx + dy * dy > moveThresholdM * moveThresholdM) {
-        if (++this.outside >= 3 && m.timeS - this.createdS >= settleS) this.moved = true;
+        // ...and not while a spot it came from still answers (see FixedEchoMap.leftBehindAnswers;
+        // the first hit of this run away from the anchor is one of those spots).
+        if (this.outside++ === 0) this.outsideFrom = m;
+        if (this.outside >= 3 && m.timeS - this.createdS >= settleS && !leftBehind) {
+          this.moved = true;
+          this.movedS = m.timeS;
+        }
       } else {
         this.outside = 0;
         this.an++;
@@ -140,6 +164,11 @@ export class Track {
    */
   lastArrivalS(m: Measurement): number {
     return Number.isNaN(this.stayS) ? m.timeS : this.stayS;
+  }
+
+  /** First hit of the current run away from the anchor (where a departure began), if any. */
+  departureStart(): Measurement | undefined {
+    return this.outside > 0 ? this.outsideFrom : undefined;
   }
 
   /** Takes the moving status away and re-anchors here (see Tracker: tracks that wander onto reflectors). */

@@ -19,11 +19,19 @@ import { decide, describeInference, type TrackerInference } from './inference.ts
 import { toMeasurement, type MeasurementOptions } from './measurement.ts';
 import { SeedPool } from './seeds.ts';
 import { SpatialGrid } from './spatial-grid.ts';
-import { lambdaMax, Track } from './track-life.ts';
+import { lambdaMax, RECENT_HITS, Track } from './track-life.ts';
 import { resolveTrackerOptions, type TrackerOptions, type TrackerOptionsInput } from './tracker-options.ts';
 
 export { resolveTrackerOptions, describeInference };
 export type { TrackerOptions, TrackerOptionsInput, TrackerInference };
+
+/**
+ * On a rotating antenna one target gives one detection per revolution, so a track takes no
+ * detection less than half a revolution after its last hit: a second detection within the same
+ * sweep belongs to a neighbour, and taking it is how a track chains along a wall of reflectors.
+ * Half a revolution leaves room for a target that moves against or with the beam.
+ */
+const MIN_GAP_REVOLUTIONS = 0.5;
 
 export class Tracker implements TrackEngine {
   readonly options: TrackerOptions;
@@ -43,6 +51,8 @@ export class Tracker implements TrackEngine {
   private lastExpire = -Infinity;
   private outOfOrder = 0;
   private readonly needsWarmup: boolean;
+  /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
+  private minGapS = 0;
 
   constructor(options: TrackerOptionsInput | TrackerOptions = {}) {
     this.options = resolveTrackerOptions(options as TrackerOptionsInput);
@@ -97,7 +107,8 @@ export class Tracker implements TrackEngine {
     this.meas = { ...this.options.measurement, sigmaRangeM: this.info.sigmaRangeM, sigmaAzimuthRad: this.info.sigmaAzimuthRad };
     this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
     // A seed may wait out one missed scan, as a one-hit tentative track would under M-of-N.
-    this.seeds = new SeedPool(this.options.initiation.maxSpeedMps, 2.5 * this.info.intervalS);
+    this.minGapS = this.info.antenna === 'rotating' ? MIN_GAP_REVOLUTIONS * this.info.intervalS : 0;
+    this.seeds = new SeedPool(this.options.initiation.maxSpeedMps, 2.5 * this.info.intervalS, this.minGapS);
     const sink = out ?? { updates: [], deletions: [] };
     for (const d of buf) this.step(d, sink);
   }
@@ -124,6 +135,7 @@ export class Tracker implements TrackEngine {
       this.live,
       learn ? this.echoes : null,
       gamma,
+      this.minGapS,
     );
     const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
     const hitNow = new Set<number>();
@@ -140,7 +152,15 @@ export class Tracker implements TrackEngine {
       const nis = t.filter.update(m);
       const wasMoving = t.moved;
       const refl = learn ? this.echoes.persistent(cand[j].any, m) : null;
-      t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, refl !== null && !wasMoving, learn ? this.echoes.settleS() : 0);
+      // A track whose earlier spots still answer is hopping between reflectors, not driving away
+      // (see FixedEchoMap.leftBehindAnswers): it does not become a moving target, and one that
+      // just became one (a left spot may miss a scan or two) loses that status again.
+      const interval = this.info!.intervalS;
+      const recentWindow = RECENT_HITS * interval;
+      const judge = learn && (!wasMoving || m.timeS - t.movedS <= recentWindow);
+      const leftBehind = judge && this.echoes.leftBehindAnswers(t.recent, t.departureStart(), m, interval / 2, recentWindow);
+      if (wasMoving && leftBehind) t.demote(m);
+      t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, refl !== null && !wasMoving, learn ? this.echoes.settleS() : 0, leftBehind);
       // A moving track that lands on a reflector which had been answering scan after scan before
       // the track got there, and stays on it for four hits, has wandered onto it (a turn next to
       // a mount, a wall of reflectors): it loses its moving status, and with it access to

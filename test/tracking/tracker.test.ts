@@ -147,6 +147,25 @@ describe('tracker end to end on simulated runs', () => {
     expect(wall.filter((e) => near(e, 0.4)).length / wall.length).toBeGreaterThan(0.7);
   });
 
+  it('a wall of reflectors gives no lasting confirmed moving track, and none once the map has learned it', () => {
+    // Bay 3's back wall: reflectors every 0.6 m at y = 7.2 m, where σ_cross ≈ 0.19 m, so
+    // neighbouring points sit about 3σ apart and a track can hop from one to the next. The
+    // targets of these runs never come beyond y = 4.6 m, so a row beyond 6.5 m is a wall ghost.
+    for (const name of ['crossing-pair', 'turntable', 'rail-sweep', 'xy-eight']) {
+      for (const seed of [1, 2, 11, 13]) {
+        const { rows, tracker } = track({ ...SCENARIOS[name], seed, durationS: 40 });
+        const period = tracker.inferred()!.intervalS;
+        const ghosts = rows.filter((u) => u.y > 6.5);
+        const perId = [...byId(ghosts).values()];
+        // While the map is still learning a ghost may show for a few scans at most...
+        for (const l of perId) expect(l.length, `${name} seed ${seed} track ${l[0].id}`).toBeLessThanOrEqual(3);
+        for (const l of perId) expect(l[l.length - 1].timeS - l[0].timeS, `${name} seed ${seed}`).toBeLessThanOrEqual(3 * period + 1e-6);
+        // ...and none once it has learned the wall (fixed echoes form after 10 s, plus the 3-scan settle time).
+        expect(ghosts.filter((u) => u.timeS > 10 + 3 * period), `${name} seed ${seed}`).toEqual([]);
+      }
+    }
+  });
+
   it('reports no fixed echo among the tracks of a run with a moving target', () => {
     const { run, rows } = track(SCENARIOS['rail-sweep']);
     // While the map learns (its first ~10 s plus the settle time) a wall reflector may briefly
