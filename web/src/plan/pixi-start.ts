@@ -28,6 +28,8 @@ export function softwareWebGl(): boolean {
 export async function startPixi(width: number, height: number): Promise<Application> {
   const common = {
     width, height, failIfMajorPerformanceCaveat: false, background, antialias: !softwareWebGl(), autoStart: false,
+    // The plan's opaque backdrop texture covers the whole canvas, so clearing first is a wasted pass.
+    clearBeforeRender: false,
     resolution: window.devicePixelRatio || 1, autoDensity: true,
   };
   // `?renderer=canvas` forces the fallback, to check it or to work around a bad GPU driver.
