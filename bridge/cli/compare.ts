@@ -6,6 +6,7 @@
  */
 import { basename } from 'node:path';
 import { Command, CommanderError, Option } from 'commander';
+import { loadBenchConfig } from '../calibrate/bench-config.ts';
 import { EchotrailError } from '../errors.ts';
 import { analyse } from '../compare/analyse.ts';
 import { readCommandedCsv } from '../compare/commanded-csv.ts';
@@ -33,8 +34,9 @@ function program(): Command {
     .option('--commanded <files...>', 'commanded path CSV(s): time_s,x_m,y_m or time_s,azimuth_deg,range_m (optional segment column); the first is compared with the followed track, all enter OSPA/GOSPA')
     .option('--waypoints <file>', 'waypoints with speeds instead of --commanded: JSON {"start_s", "waypoints": [{x_m, y_m, speed_mps, dwell_s}]} or CSV x_m,y_m,speed_mps,dwell_s')
     .option('--target <id>', 'with a target_id column in --commanded: the target compared with the followed track (default: the first in the file)')
-    .option('--frame-rotation <deg>', 'commanded positions are in the positioner frame turned this much counter-clockwise from the radar frame, degrees', num('frame-rotation'), 0)
-    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default: 0,0)', pair)
+    .option('--calibration <file>', 'bench calibration file (calibration.json, written by `echotrail calibrate`): its positioner frame maps the commanded path into the radar frame')
+    .option('--frame-rotation <deg>', 'instead of --calibration: the positioner frame is turned this much counter-clockwise from the radar frame, degrees (default: 0)', num('frame-rotation'))
+    .option('--frame-translation <x,y>', 'instead of --calibration: positioner frame origin in the radar frame, metres (default: 0,0)', pair)
     .option('--session <file>', 'recorded session (.session.jsonl): its track updates, and its commanded path unless --commanded/--waypoints is given')
     .addOption(new Option('--session-path <source>', 'which session records give the commanded path').choices(['auto', 'commanded', 'positioner']).default('auto'))
     .requiredOption('--out <dir>', 'output folder (created if missing)')
@@ -64,7 +66,7 @@ function pair(v: string): [number, number] {
 }
 
 interface Parsed {
-  tracks?: string; commanded?: string[]; waypoints?: string; target?: string; frameRotation: number; frameTranslation?: [number, number]; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
+  tracks?: string; commanded?: string[]; waypoints?: string; target?: string; calibration?: string; frameRotation?: number; frameTranslation?: [number, number]; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
   followGate: number; release?: number; followStale: number; switchMargin: number; maxLag: number; lagStep: number; smootherQ: number; corner: number;
   cutoff: number; order: number; setStep: number; maxAge: number; minOverlap: number; maxRange: number; maxSpeed: number;
 }
@@ -94,6 +96,17 @@ export async function run(argv: string[]): Promise<number> {
     }
     throw err;
   }
+}
+
+/** The positioner → radar transform: from the calibration file, or the explicit options, or none. */
+async function frameOf(o: Parsed): Promise<FrameTransform> {
+  if (o.calibration) {
+    if (o.frameRotation !== undefined || o.frameTranslation) throw new EchotrailError('E_OPTION', 'give either --calibration or --frame-rotation/--frame-translation, not both');
+    const f = (await loadBenchConfig(o.calibration)).positionerFrame;
+    return { rotationRad: (f.rotationDeg * Math.PI) / 180, tx: f.translationM.x, ty: f.translationM.y };
+  }
+  const [tx, ty] = o.frameTranslation ?? [0, 0];
+  return { rotationRad: ((o.frameRotation ?? 0) * Math.PI) / 180, tx, ty };
 }
 
 async function compare(o: Parsed): Promise<number> {
@@ -134,8 +147,7 @@ async function compare(o: Parsed): Promise<number> {
     if (paths.length === 0) throw new EchotrailError('E_OPTION', 'give the commanded path: --commanded PATH.csv or --waypoints FILE');
     rows = await readTracksCsv(o.tracks!, units);
   }
-  const [tx, ty] = o.frameTranslation ?? [0, 0];
-  const frame: FrameTransform = { rotationRad: (o.frameRotation * Math.PI) / 180, tx, ty };
+  const frame = await frameOf(o);
   paths = paths.map((p) => pathToRadarFrame(p, frame));
   const analysis = analyse(paths, rows, {
     follow: { gateM: o.followGate, staleS: o.followStale, switchMarginM: o.switchMargin, releaseM: o.release },

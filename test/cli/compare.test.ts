@@ -10,6 +10,7 @@ import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
 import { simulateRun } from '../../bridge/sim/run.ts';
 import { SCENARIOS } from '../../bridge/sim/scenarios.ts';
 import { COMMANDED_CSV_HEADER, commandedCsvLine } from '../../bridge/sim/csv-sink.ts';
+import { defaultBenchConfig } from '../../bridge/calibrate/bench-config.ts';
 import { startRecording } from '../../bridge/session/recorder.ts';
 import { Tracker } from '../../bridge/tracking/tracker.ts';
 import { TRACKS_CSV_HEADER, trackCsvLine } from '../../bridge/tracking/tracks-csv.ts';
@@ -57,6 +58,16 @@ beforeAll(async () => {
   const cmd = [COMMANDED_CSV_HEADER];
   for (const c of sim.commanded) for (const p of c.points) cmd.push(commandedCsvLine(c.targetId, p));
   await writeFile(join(dir, 'sim.commanded.csv'), cmd.join('\n') + '\n');
+  // A run on a bench whose positioner frame is turned 10° and shifted: its commanded CSV is in the
+  // positioner frame, the calibration file says how to map it (format of bridge/calibrate).
+  const turned = simulateRun({ ...SCENARIOS['turntable'], durationS: 30, frameRotationDeg: 10, frameTranslation: { x: 0.3, y: -0.2 } });
+  const t3 = new Tracker({});
+  const l3 = [TRACKS_CSV_HEADER];
+  for (const d of turned.detections) for (const u of t3.push(d).updates) l3.push(trackCsvLine(u));
+  for (const u of t3.flush().updates) l3.push(trackCsvLine(u));
+  await writeFile(join(dir, 'turned.tracks.csv'), l3.join('\n') + '\n');
+  await writeFile(join(dir, 'turned.commanded.csv'), [COMMANDED_CSV_HEADER, ...turned.commanded[0].points.map((p) => commandedCsvLine(1, p))].join('\n') + '\n');
+  await writeFile(join(dir, 'calibration.json'), JSON.stringify({ ...defaultBenchConfig('test'), positionerFrame: { rotationDeg: 10, translationM: { x: 0.3, y: -0.2 } } }));
   // The same simulated run recorded as a session: positioner records and live track updates.
   const rec = startRecording({ dir, fileName: 'sim.session.jsonl', name: 'sim' });
   const tracker2 = new Tracker({});
@@ -127,6 +138,23 @@ describe('echotrail compare', () => {
     const c = JSON.parse(await readFile(join(dir, 'out-sim1', 'summary.json'), 'utf8'));
     expect(s.tracks.followed_rows).toBe(c.tracks.followed_rows);
     expect(s.lag.lag_s).toBeCloseTo(c.lag.lag_s, 2);
+  });
+
+  it('maps a positioner-frame commanded path with the calibration file, like the explicit frame options', async () => {
+    const base = ['--tracks', join(dir, 'turned.tracks.csv'), '--commanded', join(dir, 'turned.commanded.csv')];
+    const rmse = async (extra: string[], name: string) => {
+      const r = await capture([...base, ...extra, '--out', join(dir, name)]);
+      expect(r.code, r.err).toBe(0);
+      return JSON.parse(await readFile(join(dir, name, 'summary.json'), 'utf8')).whole_run.filtered.aligned.position.rmse as number;
+    };
+    const cal = await rmse(['--calibration', join(dir, 'calibration.json')], 'out-cal');
+    const explicit = await rmse(['--frame-rotation', '10', '--frame-translation', '0.3,-0.2'], 'out-frame');
+    const none = await rmse([], 'out-noframe');
+    expect(cal).toBeCloseTo(explicit, 9);
+    // Unmapped, the commanded circle sits ~0.4 m off the reflector's (10° about the origin and the
+    // shift, worked from the transform): the error is several times the mapped one.
+    expect(none).toBeGreaterThan(2.5 * cal);
+    expect((await capture([...base, '--calibration', join(dir, 'calibration.json'), '--frame-rotation', '1', '--out', join(dir, 'x')])).code).toBe(1);
   });
 
   it('accepts waypoints instead of a commanded CSV, with the same lag', async () => {
