@@ -1,9 +1,10 @@
 /**
- * Recent detections as fading dots and the fixed-echo map, in screen space. Dots are pooled
- * sprites of two cached textures (a disc for moving returns, a small square for returns the
- * fixed-echo map explains), so shape tells them apart as well as brightness.
+ * Recent detections as fading dots and the fixed-echo map, in screen space. Dots use two cached
+ * textures (a disc for moving returns, a small square for returns the fixed-echo map explains),
+ * so shape tells them apart as well as brightness. With WebGL they are particles (one buffer
+ * upload per frame for thousands of dots); the canvas renderer gets pooled sprites instead.
  */
-import { Container, Graphics, Sprite, type Renderer, type Texture } from 'pixi.js';
+import { Container, Graphics, Particle, ParticleContainer, Sprite, type Renderer, type Texture } from 'pixi.js';
 import type { DetectionDot, FixedEchoDot } from '../stream/state.ts';
 import { detectionColour, fixedEchoColour } from './palette.ts';
 import { type View, toScreen } from './view.ts';
@@ -15,17 +16,28 @@ export class DetectionDots {
   private readonly pool: Sprite[] = [];
   private readonly disc: Texture;
   private readonly square: Texture;
+  private readonly particles: { discs: ParticleContainer; squares: ParticleContainer; pool: Particle[] } | null;
   private fixedKey = '';
 
-  constructor(renderer: Renderer) {
+  constructor(renderer: Renderer, useParticles: boolean) {
     this.disc = renderer.generateTexture(new Graphics().circle(4, 4, 3.2).fill({ color: 0xffffff }));
     this.square = renderer.generateTexture(new Graphics().rect(0, 0, 5, 5).fill({ color: 0xffffff }));
     this.fixedContainer.addChild(this.fixedGraphics);
+    if (useParticles) {
+      const dynamicProperties = { position: true, color: true, vertex: true, rotation: false, uvs: false };
+      const discs = new ParticleContainer({ texture: this.disc, dynamicProperties });
+      const squares = new ParticleContainer({ texture: this.square, dynamicProperties });
+      this.container.addChild(squares, discs);
+      this.particles = { discs, squares, pool: [] };
+    } else {
+      this.particles = null;
+    }
   }
 
   update(view: View, dots: readonly DetectionDot[], nowS: number, maxAgeS: number, show: boolean): void {
     this.container.visible = show;
     if (!show) return;
+    if (this.particles) { this.updateParticles(this.particles, view, dots, nowS, maxAgeS); return; }
     let used = 0;
     for (const d of dots) {
       const age = nowS - d.timeS;
@@ -43,6 +55,34 @@ export class DetectionDots {
       sprite.visible = true;
     }
     for (let i = used; i < this.pool.length; i++) this.pool[i].visible = false;
+  }
+
+  private updateParticles(
+    pc: NonNullable<DetectionDots['particles']>, view: View, dots: readonly DetectionDot[], nowS: number, maxAgeS: number,
+  ): void {
+    const discs = pc.discs.particleChildren, squares = pc.squares.particleChildren;
+    discs.length = 0;
+    squares.length = 0;
+    let used = 0;
+    for (const d of dots) {
+      const age = nowS - d.timeS;
+      if (age > maxAgeS || age < -0.5) continue;
+      const s = toScreen(view, d.x, d.y);
+      if (s.px < -10 || s.py < -10 || s.px > view.width + 10 || s.py > view.height + 10) continue;
+      let p = pc.pool[used];
+      if (!p) p = pc.pool[used] = new Particle({ texture: this.disc, anchorX: 0.5, anchorY: 0.5 });
+      used++;
+      const f = 1 - Math.max(0, age) / maxAgeS;
+      p.texture = d.fixed ? this.square : this.disc;
+      p.x = s.px;
+      p.y = s.py;
+      p.scaleX = p.scaleY = 0.6 + 0.5 * f;
+      p.tint = d.fixed ? fixedEchoColour : detectionColour;
+      p.alpha = 0.15 + 0.75 * f;
+      (d.fixed ? squares : discs).push(p);
+    }
+    pc.discs.update();
+    pc.squares.update();
   }
 
   /** Rebuilt only when the map, the toggle or the view changes; returns whether anything changed. */
