@@ -44,6 +44,7 @@ function program(): Command {
     .option('--follow-gate <m>', 'a track further than this from the command cannot become the followed one, metres', num('follow-gate', { positive: true }), 1.0)
     .option('--follow-stale <s>', 'the followed track is lost after this long without an update, seconds', num('follow-stale', { positive: true }), 2.0)
     .option('--release <m>', 'the followed track stops counting when it strays further than this, metres (default: twice --follow-gate)', num('release', { positive: true }))
+    .option('--follow-memory <s>', 'time constant of the running distance by which tracks compete for the role, seconds (0: latest update only)', num('follow-memory', { min: 0 }), 2)
     .option('--switch-margin <m>', 'another track must be this much closer to take over, metres', num('switch-margin', { min: 0 }), 0.2)
     .option('--max-lag <s>', 'largest lag searched either way, seconds', num('max-lag', { positive: true }), 2.0)
     .option('--lag-step <s>', 'grid step of the coarse lag search before refinement, seconds', num('lag-step', { positive: true }), 0.05)
@@ -67,7 +68,7 @@ function pair(v: string): [number, number] {
 
 interface Parsed {
   tracks?: string; commanded?: string[]; waypoints?: string; target?: string; calibration?: string; frameRotation?: number; frameTranslation?: [number, number]; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
-  followGate: number; release?: number; followStale: number; switchMargin: number; maxLag: number; lagStep: number; smootherQ: number; corner: number;
+  followGate: number; release?: number; followStale: number; followMemory: number; switchMargin: number; maxLag: number; lagStep: number; smootherQ: number; corner: number;
   cutoff: number; order: number; setStep: number; maxAge: number; minOverlap: number; maxRange: number; maxSpeed: number;
 }
 
@@ -150,7 +151,7 @@ async function compare(o: Parsed): Promise<number> {
   const frame = await frameOf(o);
   paths = paths.map((p) => pathToRadarFrame(p, frame));
   const analysis = analyse(paths, rows, {
-    follow: { gateM: o.followGate, staleS: o.followStale, switchMarginM: o.switchMargin, releaseM: o.release },
+    follow: { gateM: o.followGate, staleS: o.followStale, switchMarginM: o.switchMargin, releaseM: o.release, memoryS: o.followMemory },
     lag: { maxLagS: o.maxLag, stepS: o.lagStep },
     legs: { cornerDeg: o.corner },
     smoother: { accelPsd: o.smootherQ },

@@ -20,12 +20,18 @@ export interface FollowOptions {
    * no longer follows the target, and its rows would swamp every figure (and the lag search).
    */
   releaseM: number;
+  /**
+   * Time constant of the running distance each track is judged by, seconds (0: the latest update
+   * only). A ghost that passes close to the command for one scan must not take over from the
+   * track that has been on the target all along: a take-over needs sustained closeness.
+   */
+  memoryS: number;
 }
 
 /** Defaults in one place: a metre is several times the bench's position noise (common practice). */
 export function resolveFollowOptions(o: Partial<FollowOptions> = {}): FollowOptions {
   const gateM = o.gateM ?? 1.0;
-  return { gateM, staleS: o.staleS ?? 2.0, switchMarginM: o.switchMarginM ?? 0.2, releaseM: o.releaseM ?? 2 * gateM };
+  return { gateM, staleS: o.staleS ?? 2.0, switchMarginM: o.switchMarginM ?? 0.2, releaseM: o.releaseM ?? 2 * gateM, memoryS: o.memoryS ?? 2.0 };
 }
 
 /** A change of the followed track id. */
@@ -41,7 +47,8 @@ export class TrackFollower {
   private readonly o: FollowOptions;
   private current: number | null = null;
   private lastAcceptS = -Infinity;
-  private readonly lastDist = new Map<number, number>();
+  /** Per track: exponentially weighted distance to the command and the time of its latest row. */
+  private readonly runDist = new Map<number, { d: number; t: number }>();
   /** Every change of the followed id, in time order. */
   readonly switches: FollowSwitch[] = [];
   /** Times the followed track strayed beyond releaseM and lost the role. */
@@ -60,7 +67,11 @@ export class TrackFollower {
   offer(row: TrackRow, cmdX: number, cmdY: number): boolean {
     if (row.status === 'tentative') return false;
     const d = Math.hypot(row.x - cmdX, row.y - cmdY);
-    this.lastDist.set(row.id, d);
+    const prev = this.runDist.get(row.id);
+    // First-order low-pass over irregular update times: weight 1 − exp(−Δt/τ) on the new value.
+    const w = prev === undefined || this.o.memoryS <= 0 ? 1 : 1 - Math.exp(-Math.max(0, row.timeS - prev.t) / this.o.memoryS);
+    const run = prev === undefined ? d : prev.d + w * (d - prev.d);
+    this.runDist.set(row.id, { d: run, t: row.timeS });
     if (row.id === this.current) {
       if (d > this.o.releaseM) {
         this.releases.push({ timeS: row.timeS, id: row.id, distanceM: d });
@@ -72,8 +83,9 @@ export class TrackFollower {
     }
     if (d > this.o.gateM) return false;
     const stale = this.current === null || row.timeS - this.lastAcceptS > this.o.staleS;
-    const currentDist = this.current === null ? Infinity : (this.lastDist.get(this.current) ?? Infinity);
-    if (stale || d + this.o.switchMarginM < currentDist) {
+    const currentDist = this.current === null ? Infinity : (this.runDist.get(this.current)?.d ?? Infinity);
+    // A newcomer's running distance is a single value: judge it by the worse of that and now.
+    if (stale || Math.max(run, d) + this.o.switchMarginM < currentDist) {
       this.switches.push({ timeS: row.timeS, from: this.current, to: row.id });
       this.current = row.id;
       this.lastAcceptS = row.timeS;
@@ -86,7 +98,7 @@ export class TrackFollower {
   reset(): void {
     this.current = null;
     this.lastAcceptS = -Infinity;
-    this.lastDist.clear();
+    this.runDist.clear();
     this.switches.length = 0;
     this.releases.length = 0;
   }
