@@ -4,7 +4,7 @@
 // path, not the command. The ceiling 0.8 on the smoothed/filtered RMSE ratio: the analytic run of
 // smoother.test.ts predicts about 0.65 from the covariances alone; the constant turn makes the
 // live filter lag and the smoother undo it, so the ratio here should be no higher (measured
-// 0.56–0.59 on 2026-12-02 as the tracker changed that day); 0.8 leaves room for tracker changes
+// 0.47–0.59 on 2026-12-02 as the tracker changed that day); 0.8 leaves room for tracker changes
 // while still demanding a cut of a fifth.
 import { describe, expect, it } from 'vitest';
 import { analyse } from '../../bridge/compare/analyse.ts';
