@@ -10,7 +10,7 @@ import { Command, CommanderError } from 'commander';
 import { rmSync, readdirSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { iterateRun } from '../sim/run.ts';
-import { beamAzimuth } from '../sim/antenna.ts';
+import { wireRecords, wireTime } from '../sim/wire-records.ts';
 import { resolveScenarioOptions, type ScenarioOptions } from '../sim/scenario.ts';
 import { builtinScenario } from '../sim/scenarios.ts';
 import { Tracker } from '../tracking/tracker.ts';
@@ -65,29 +65,15 @@ export function recordDemoRun(run: DemoRun, dir: string): string {
     for (const update of out.updates) rec.record({ kind: 'track', update });
     for (const deletion of out.deletions) rec.record({ kind: 'deletion', deletion });
   };
-  let nextAntenna = 0;
   let nextEchoes = FIXED_ECHO_EVERY_S;
-  const cmdLatest = new Map<number, { x: number; y: number }>();
-  for (const r of iterateRun(sc)) {
-    const t = r.kind === 'detection' ? r.detection.timeS : r.kind === 'truth' ? r.sample.timeS : r.point.timeS;
-    if (sc.antenna.mode === 'rotating') {
-      for (; nextAntenna <= t; nextAntenna += 1 / ANTENNA_RATE_HZ)
-        rec.record({ kind: 'antenna', sample: { timeS: nextAntenna, azimuthRad: beamAzimuth(sc.antenna.periodS, sc.antenna.startAzimuthRad, nextAntenna) } });
-    }
+  for (const r of wireRecords(sc, 0, ANTENNA_RATE_HZ)) {
+    const t = wireTime(r);
     if (t >= nextEchoes) {
       rec.record({ kind: 'fixed-echoes', echoes: tracker.fixedEchoes() }, t);
       nextEchoes += FIXED_ECHO_EVERY_S;
     }
-    if (r.kind === 'detection') {
-      rec.record({ kind: 'detection', detection: r.detection });
-      emit(tracker.push(r.detection));
-    } else if (r.kind === 'commanded') {
-      cmdLatest.set(r.targetId, r.point);
-    } else if (r.kind === 'truth' && r.sample.targetId === sc.targets[0].id) {
-      // The positioner reports where it was told to be and where its encoders say it is.
-      const cmd = cmdLatest.get(r.sample.targetId) ?? r.sample;
-      rec.record({ kind: 'positioner', sample: { timeS: t, cmdX: cmd.x, cmdY: cmd.y, measX: r.sample.x, measY: r.sample.y } });
-    }
+    rec.record(r);
+    if (r.kind === 'detection') emit(tracker.push(r.detection));
   }
   emit(tracker.flush());
   rec.record({ kind: 'fixed-echoes', echoes: tracker.fixedEchoes() }, sc.durationS);

@@ -8,11 +8,10 @@
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
 import { SerialPort } from 'serialport';
 import { setTimeout as sleep } from 'node:timers/promises';
-import { iterateRun, type SimRecord } from '../sim/run.ts';
-import { beamAzimuth } from '../sim/antenna.ts';
-import { resolveScenarioOptions, type ResolvedScenario } from '../sim/scenario.ts';
+import { wireRecords, wireTime } from '../sim/wire-records.ts';
+import { resolveScenarioOptions } from '../sim/scenario.ts';
 import { SCENARIOS, builtinScenario } from '../sim/scenarios.ts';
-import { encodeLine, type WireRecord } from '../ingest/line-protocol.ts';
+import { encodeLine } from '../ingest/line-protocol.ts';
 
 /** Options of one feed, after defaults. */
 export interface FeedOptions {
@@ -42,45 +41,16 @@ export function resolveFeedOptions(o: Partial<FeedOptions> = {}): FeedOptions {
   };
 }
 
-/**
- * The wire records of one pass over the scenario, shifted by `offsetS`, in time order:
- * detections, antenna heartbeats and positioner samples (commanded + encoder position of the
- * first target), as the hardware interleaves them.
- */
-export function* feedRecords(sc: ResolvedScenario, offsetS: number, antennaRateHz: number): Generator<WireRecord> {
-  let nextAntenna = 0;
-  const cmd = new Map<number, { x: number; y: number }>();
-  const first = sc.targets[0]?.id;
-  const timeOf = (r: SimRecord) => (r.kind === 'detection' ? r.detection.timeS : r.kind === 'truth' ? r.sample.timeS : r.point.timeS);
-  for (const r of iterateRun(sc)) {
-    const t = timeOf(r);
-    if (sc.antenna.mode === 'rotating' && antennaRateHz > 0) {
-      for (; nextAntenna <= t; nextAntenna += 1 / antennaRateHz)
-        yield { kind: 'antenna', sample: { timeS: nextAntenna + offsetS, azimuthRad: beamAzimuth(sc.antenna.periodS, sc.antenna.startAzimuthRad, nextAntenna) } };
-    }
-    if (r.kind === 'detection') yield { kind: 'detection', detection: { ...r.detection, timeS: t + offsetS } };
-    else if (r.kind === 'commanded') cmd.set(r.targetId, r.point);
-    else if (r.sample.targetId === first) {
-      const c = cmd.get(first) ?? r.sample;
-      yield { kind: 'positioner', sample: { timeS: t + offsetS, cmdX: c.x, cmdY: c.y, measX: r.sample.x, measY: r.sample.y } };
-    }
-  }
-}
-
-function recordTime(r: WireRecord): number {
-  return r.kind === 'detection' ? r.detection.timeS : r.sample.timeS;
-}
-
 /** Writes the feed; resolves when the run ends (never, with loop) or the port closes. */
 export async function feed(options: FeedOptions, write: (line: string) => Promise<void>, signal?: AbortSignal): Promise<number> {
   const sc = resolveScenarioOptions({ ...builtinScenario(options.scenario), seed: options.seed });
   const startMs = performance.now();
   let lines = 0;
   for (let pass = 0; pass === 0 || options.loop; pass++) {
-    for (const rec of feedRecords(sc, pass * sc.durationS, options.antennaRateHz)) {
+    for (const rec of wireRecords(sc, pass * sc.durationS, options.antennaRateHz)) {
       if (signal?.aborted) return lines;
       if (options.speed > 0) {
-        const dueMs = startMs + (recordTime(rec) / options.speed) * 1000;
+        const dueMs = startMs + (wireTime(rec) / options.speed) * 1000;
         const waitMs = dueMs - performance.now();
         if (waitMs > 1) await sleep(waitMs);
       }
