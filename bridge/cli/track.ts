@@ -73,7 +73,7 @@ function program(): Command {
     .option('--move-threshold <m>', 'displacement that makes a track a moving target, m (default 0.15)', num)
     .option('--fixed-forget <s>', 'forget a fixed echo not seen this long, s (default 60)', num)
     .option('--stationary', 'also write confirmed tracks that never moved (default: only moving or recently moving targets)')
-    .option('--batch <s>', 'assignment batch window, s (default one revolution, or half the staring interval)', num)
+    .option('--batch <s>', 'assignment batch window, s (default: rotating, per detection as the beam passes each gate; staring, half the update interval)', num)
     .option('--max-range <m>', 'input rows with a larger range are skipped as absurd, m (default 1000)', num)
     .exitOverride()
     .configureOutput({ writeErr: (s) => process.stderr.write(s), writeOut: (s) => process.stdout.write(s) });

@@ -14,6 +14,8 @@ export interface GatedPair {
   track: number;
   det: number;
   cost: number;
+  /** Outside the gate of the track's most probable model (only a manoeuvre model admits it). */
+  unlikely?: boolean;
 }
 
 const FORBIDDEN = 1e12;

@@ -27,6 +27,9 @@ export interface BatchGates {
  * @param minGapS a track takes no detection less than this after its last hit: on a rotating
  *   antenna one target answers once per revolution, so a second detection within the same sweep
  *   is a neighbour's (the way a track would chain along a wall of reflectors); 0 = no limit
+ * @param maxSpeedMps fastest expected target: a tentative track (whose filter has not learned its
+ *   velocity yet, so its gate is wide) takes no detection farther from its last hit than this
+ *   speed covers plus 3σ of both detections' noise, the reach of a seed (seeds.ts)
  */
 export function gateBatch(
   ms: readonly Measurement[],
@@ -35,6 +38,7 @@ export function gateBatch(
   echoes: FixedEchoMap | null,
   gamma: number,
   minGapS = 0,
+  maxSpeedMps = Infinity,
 ): BatchGates {
   const g: BatchGates = {
     established: [],
@@ -62,13 +66,24 @@ export function gateBatch(
       const cost = d2 + logDetS;
       if (cost > echoCost) continue;
       const tentative = t.status === 'tentative';
-      (tentative ? g.tentative : g.established).push({ track: id, det: j, cost });
+      if (tentative && !withinReach(t, m, maxSpeedMps)) continue;
+      const unlikely = !((d2Likely ?? d2) < gamma);
+      (tentative ? g.tentative : g.established).push({ track: id, det: j, cost, unlikely });
       g.missCost.set(id, Math.max(g.missCost.get(id) ?? -Infinity, gamma + logDetS));
       // Only a detection the track really expects (under its likely model) is kept from seeding:
       // the manoeuvre model's wide gate would otherwise keep a close neighbour from ever
       // getting a track of its own.
-      if (!tentative && (d2Likely ?? d2) < gamma) g.nearEstablished[j] = 1;
+      if (!tentative && !unlikely) g.nearEstablished[j] = 1;
     }
   }
   return g;
+}
+
+function withinReach(t: Track, m: Measurement, maxSpeedMps: number): boolean {
+  const h = t.recent[t.recent.length - 1];
+  const sig = Math.sqrt(Math.max(h.rxx + m.rxx, h.ryy + m.ryy));
+  const reach = maxSpeedMps * Math.max(0, m.timeS - h.timeS) + 3 * sig;
+  const dx = m.x - h.x;
+  const dy = m.y - h.y;
+  return dx * dx + dy * dy <= reach * reach;
 }

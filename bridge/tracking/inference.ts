@@ -16,7 +16,7 @@ export interface TrackerInference {
   /** Time between two detections of one target (revolution period when rotating), s. */
   intervalS: number;
   intervalFrom: Origin;
-  /** Assignment batch window, s. */
+  /** Assignment batch window, s; 0 = per detection, clusters waiting for the beam to pass their gates. */
   batchS: number;
   sigmaRangeM: number;
   sigmaAzimuthRad: number;
@@ -49,10 +49,13 @@ export function decide(dets: readonly Detection[], o: TrackerOptions): TrackerIn
       intervalFrom = 'default';
     }
   }
-  // A whole revolution per batch for a rotating antenna: every reflector then competes for the
-  // detections of one scan together. With shorter batches a track with a wide gate takes the
-  // detection of a neighbour that the beam reaches first, and wall reflectors chain along.
-  const batchS = o.batchS > 0 ? o.batchS : antenna === 'rotating' ? intervalS * 0.999 : intervalS / 2;
+  // Rotating: no fixed batch (0): each detection is assigned as it comes, except for the clusters
+  // of tracks and detections whose gates the beam has not yet swept past, which wait for it (see
+  // sweep-deferral.ts). An update then leaves a small fraction of a revolution after its
+  // detection, yet neighbours still compete for the detections of one sweep together; a track
+  // cannot take a second detection later in the same sweep (the tracker's half-revolution rule),
+  // which is what made wall reflectors chain along when batches were short before.
+  const batchS = o.batchS > 0 ? o.batchS : antenna === 'rotating' ? 0 : intervalS / 2;
   let sigmaRangeM = o.measurement.sigmaRangeM;
   let sigmaAzimuthRad = o.measurement.sigmaAzimuthRad;
   let noiseFrom: Origin = o.estimateNoise ? 'default' : 'option';
@@ -101,7 +104,7 @@ export function describeInference(i: TrackerInference): string[] {
   const what = i.antenna === 'rotating' ? 'revolution period' : 'update interval';
   const lines = [
     `antenna: ${i.antenna} (${from(i.antennaFrom)}; ${(100 * i.forwardFraction).toFixed(0)}% of azimuth steps forward over ${i.warmupDetections} detections)`,
-    `${what}: ${i.intervalS.toFixed(i.intervalS < 0.1 ? 4 : 3)} s (${from(i.intervalFrom)}); assignment batch ${(i.batchS * 1000).toFixed(1)} ms`,
+    `${what}: ${i.intervalS.toFixed(i.intervalS < 0.1 ? 4 : 3)} s (${from(i.intervalFrom)}); ${i.batchS > 0 ? `assignment batch ${(i.batchS * 1000).toFixed(1)} ms` : 'assignment per detection, as the beam passes each gate'}`,
     `noise: σ_range ${(i.sigmaRangeM * 100).toFixed(1)} cm, σ_azimuth ${((i.sigmaAzimuthRad * 180) / Math.PI).toFixed(2)}° (${from(i.noiseFrom)}${i.noiseReflectors ? `, ${i.noiseReflectors} stationary reflector(s)` : ''})`,
   ];
   if (i.outOfOrder) lines.push(`${i.outOfOrder} detection(s) ignored: time went backwards`);

@@ -30,6 +30,17 @@ export function lambdaMax(a: number, b: number, c: number): number {
   return 0.5 * (a + c) + Math.sqrt(h * h + b * b);
 }
 
+/**
+ * Two detections of one stationary reflector differ by noise of covariance R₁ + R₂: beyond its
+ * 99 % χ² bound (9.2103 for 2 dof, reference-values.md) and by more than `minM`, they are taken
+ * to be of two spots. (99 %, not 99.9 %: a target at 0.2 m/s must pass within a few scans.)
+ */
+function departed(a: Measurement, b: Measurement, minM: number): boolean {
+  const dx = b.x - a.x;
+  const dy = b.y - a.y;
+  return dx * dx + dy * dy > minM * minM && mahalanobis2(dx, dy, a.rxx + b.rxx, a.rxy + b.rxy, a.ryy + b.ryy) > 9.2103;
+}
+
 /** Earlier hits a track keeps for the left-behind test: the start of a three-hit departure. */
 export const RECENT_HITS = 5;
 
@@ -62,6 +73,10 @@ export class Track {
   private ay: number;
   private an = 1;
   private outside = 0;
+  /** The anchor was last set on a reflector away from where the track started (see onHit). */
+  private slidIn = false;
+  /** The track's first detection. */
+  private readonly birth: Measurement;
   /** First hit of the current run of hits away from the anchor. */
   private outsideFrom: Measurement | undefined;
   private ampSum: number;
@@ -76,6 +91,7 @@ export class Track {
   ) {
     this.lastHitS = m.timeS;
     this.recent.push(m);
+    this.birth = m;
     this.mofn = new MofN(mofn.m, mofn.n);
     this.ax = m.x;
     this.ay = m.y;
@@ -141,11 +157,16 @@ export class Track {
         this.an = 1;
         this.ax = m.x;
         this.ay = m.y;
+        // Slid in: the reflector is not where the track started (a parked target's own spot is).
+        this.slidIn = departed(this.birth, m, moveThresholdM);
       } else if (this.status !== 'tentative' && d2 > 13.8155 && dx * dx + dy * dy > moveThresholdM * moveThresholdM) {
         // ...and not while a spot it came from still answers (see FixedEchoMap.leftBehindAnswers;
-        // the first hit of this run away from the anchor is one of those spots).
+        // the first hit of this run away from the anchor is one of those spots). A track that
+        // came here over reflectors has a one-detection anchor and the velocity of its slide,
+        // which carries its estimate past that anchor: its run must also leave its own first
+        // spot (a track that slid along a wall to its end and sits there does not).
         if (this.outside++ === 0) this.outsideFrom = m;
-        if (this.outside >= 3 && m.timeS - this.createdS >= settleS && !leftBehind) {
+        if (this.outside >= 3 && m.timeS - this.createdS >= settleS && !leftBehind && (!this.slidIn || departed(this.outsideFrom!, m, moveThresholdM))) {
           this.moved = true;
           this.movedS = m.timeS;
         }

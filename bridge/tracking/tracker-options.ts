@@ -28,7 +28,7 @@ export interface TrackerOptions {
   deletion: DeletionOptions;
   /** Fixed-echo map. */
   fixedEchoes: FixedEchoOptions;
-  /** Assignment batch window, s; 0 = one revolution (rotating) or half the staring interval. */
+  /** Assignment batch window, s; 0 = per detection, contested clusters waiting for the beam (rotating), or half the staring interval. */
   batchS: number;
   /** Also report confirmed tracks that never moved (they still turn into fixed echoes unless those are off). */
   reportStationary: boolean;

@@ -3,7 +3,9 @@
  * map behind the TrackEngine contract (bridge/types.ts).
  *
  * Flow: detections are held for a short warm-up (antenna kind, interval, noise are inferred from
- * them), then collected into batches of `batchS`. Each batch is gated against the tracks found in
+ * them), then assigned one by one as they come (rotating antenna; a cluster of tracks and
+ * detections whose gates the beam has not yet swept past waits for it, see sweep-deferral.ts)
+ * or in batches of `batchS` (staring). Each batch is gated against the tracks found in
  * the grid cell of each detection, solved by global nearest neighbour, and leftovers become seeds
  * (or pair with an earlier seed into a tentative track) unless a fixed echo or a confirmed track
  * already claims them. Misses are
@@ -18,6 +20,7 @@ import { gateThreshold } from './gate.ts';
 import { decide, describeInference, type TrackerInference } from './inference.ts';
 import { toMeasurement, type MeasurementOptions } from './measurement.ts';
 import { SeedPool } from './seeds.ts';
+import { heldBack } from './sweep-deferral.ts';
 import { SpatialGrid } from './spatial-grid.ts';
 import { lambdaMax, RECENT_HITS, Track } from './track-life.ts';
 import { resolveTrackerOptions, type TrackerOptions, type TrackerOptionsInput } from './tracker-options.ts';
@@ -32,6 +35,13 @@ export type { TrackerOptions, TrackerOptionsInput, TrackerInference };
  * Half a revolution leaves room for a target that moves against or with the beam.
  */
 const MIN_GAP_REVOLUTIONS = 0.5;
+
+/**
+ * Longest a detection waits for the rest of its cluster, in revolutions. A coasting track's gate
+ * can span the whole room; half a revolution lets the beam reach whatever may compete for it
+ * (tracks with held detections are not counted as missing meanwhile).
+ */
+const MAX_WAIT_REVOLUTIONS = 0.5;
 
 export class Tracker implements TrackEngine {
   readonly options: TrackerOptions;
@@ -51,6 +61,8 @@ export class Tracker implements TrackEngine {
   private lastExpire = -Infinity;
   private outOfOrder = 0;
   private readonly needsWarmup: boolean;
+  /** Tracks with detections held back for the next batch (see sweep-deferral.ts). */
+  private readonly waiting = new Set<number>();
   /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
   private minGapS = 0;
 
@@ -87,7 +99,7 @@ export class Tracker implements TrackEngine {
   flush(): TrackerOutput {
     const out: TrackerOutput = { updates: [], deletions: [] };
     if (this.warm) this.start(out);
-    if (this.batch.length) this.closeBatch(out);
+    if (this.batch.length) this.closeBatch(out, true);
     return out;
   }
 
@@ -114,12 +126,22 @@ export class Tracker implements TrackEngine {
   }
 
   private step(d: Detection, out: TrackerOutput): void {
-    if (this.batch.length && d.timeS - this.batchStart > this.info!.batchS) this.closeBatch(out);
+    if (this.info!.batchS === 0) {
+      // Every detection at once; clusters the beam has not finished with wait (closeBatch).
+      this.batch.push(d);
+      this.closeBatch(out, false);
+      return;
+    }
+    if (this.batch.length && d.timeS - this.batchStart > this.info!.batchS) this.closeBatch(out, false);
     if (this.batch.length === 0) this.batchStart = d.timeS;
     this.batch.push(d);
   }
 
-  private closeBatch(out: TrackerOutput): void {
+  /**
+   * Assigns the batch. Unless `final`, on a rotating antenna the clusters whose gates still reach
+   * ahead of the beam stay in the batch for the next round (see sweep-deferral.ts).
+   */
+  private closeBatch(out: TrackerOutput, final = true): void {
     const dets = this.batch;
     this.batch = [];
     const o = this.options;
@@ -129,14 +151,30 @@ export class Tracker implements TrackEngine {
     // a wide tentative gate must never take a detection from an established track, and keeping
     // them apart keeps the clusters of the first pass small.
     const learn = o.fixedEchoes.enabled;
-    const { established, tentative, missCost, echoCost, echo: cand, nearEstablished: nearConfirmed } = gateBatch(
-      ms,
-      this.grid,
-      this.live,
-      learn ? this.echoes : null,
-      gamma,
-      this.minGapS,
-    );
+    const gates = gateBatch(ms, this.grid, this.live, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps);
+    let { established, tentative } = gates;
+    const { missCost, echo: cand, nearEstablished: nearConfirmed } = gates;
+    const now = dets[dets.length - 1].timeS;
+    const interval = this.info!.intervalS;
+    let held: Uint8Array | null = null;
+    if (!final && this.info!.antenna === 'rotating') {
+      const last = ms[ms.length - 1];
+      const times = ms.map((m) => m.timeS);
+      held = heldBack(established.concat(tentative), times, this.live, now, Math.atan2(last.x, last.y), gamma, MAX_WAIT_REVOLUTIONS * interval);
+      const h = held;
+      if (h.includes(1)) {
+        this.waiting.clear();
+        for (const p of established) if (h[p.det]) this.waiting.add(p.track);
+        for (const p of tentative) if (h[p.det]) this.waiting.add(p.track);
+        established = established.filter((p) => !h[p.det]);
+        tentative = tentative.filter((p) => !h[p.det]);
+        this.batch = dets.filter((_, j) => h[j]);
+        this.batchStart = now;
+      } else {
+        held = null;
+        this.waiting.clear();
+      }
+    }
     const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
     const hitNow = new Set<number>();
     const miss = (id: number) => missCost.get(id)!;
@@ -155,7 +193,6 @@ export class Tracker implements TrackEngine {
       // A track whose earlier spots still answer is hopping between reflectors, not driving away
       // (see FixedEchoMap.leftBehindAnswers): it does not become a moving target, and one that
       // just became one (a left spot may miss a scan or two) loses that status again.
-      const interval = this.info!.intervalS;
       const recentWindow = RECENT_HITS * interval;
       const judge = learn && (!wasMoving || m.timeS - t.movedS <= recentWindow);
       const leftBehind = judge && this.echoes.leftBehindAnswers(t.recent, t.departureStart(), m, interval / 2, recentWindow);
@@ -175,6 +212,7 @@ export class Tracker implements TrackEngine {
       if (t.status !== 'tentative' && (t.moved || o.reportStationary)) out.updates.push(t.update(true));
     }
     for (let j = 0; j < ms.length; j++) {
+      if (held && held[j]) continue;
       if (taken[j] === 2) {
         if (learn) this.echoes.observeWith(cand[j].any, ms[j]);
         continue;
@@ -194,8 +232,6 @@ export class Tracker implements TrackEngine {
       this.live.set(t.id, t);
       this.register(t);
     }
-    const now = dets[dets.length - 1].timeS;
-    const interval = this.info!.intervalS;
     if (now - this.lastMissCheck >= interval / 4) {
       this.lastMissCheck = now;
       this.countMisses(now, hitNow, out);
@@ -211,7 +247,7 @@ export class Tracker implements TrackEngine {
   private countMisses(now: number, hitNow: Set<number>, out: TrackerOutput): void {
     const interval = this.info!.intervalS;
     for (const t of this.live.values()) {
-      if (hitNow.has(t.id) || now <= t.lastHitS + (t.misses + 1.5) * interval) continue;
+      if (hitNow.has(t.id) || this.waiting.has(t.id) || now <= t.lastHitS + (t.misses + 1.5) * interval) continue;
       t.onMiss();
       if (t.failedInitiation()) {
         this.drop(t);

@@ -15,7 +15,9 @@ describe('warm-up decisions', () => {
     expect(a.antenna).toBe('rotating');
     expect(a.antennaFrom).toBe('inferred');
     expect(a.intervalS).toBeCloseTo(1.5, 6);
-    expect(a.batchS).toBeCloseTo(1.5 * 0.999, 6);
+    // Rotating: no fixed batch window; detections are assigned as the beam passes their gates.
+    expect(a.batchS).toBe(0);
+    expect(decide(rotating(1.5), resolveTrackerOptions({ batchS: 0.2 })).batchS).toBe(0.2);
     const b = decide(rotating(1.5), resolveTrackerOptions({ antenna: 'rotating', intervalS: 2, measurement: { sigmaRangeM: 0.1 } }));
     expect(b.intervalFrom).toBe('option');
     expect(b.intervalS).toBe(2);
@@ -23,7 +25,7 @@ describe('warm-up decisions', () => {
     expect(b.sigmaRangeM).toBe(0.1);
     const lines = describeInference(a);
     expect(lines[0]).toMatch(/^antenna: rotating \(inferred from the run/);
-    expect(lines[1]).toMatch(/^revolution period: 1\.500 s \(inferred from the run\)/);
+    expect(lines[1]).toMatch(/^revolution period: 1\.500 s \(inferred from the run\); assignment per detection/);
     expect(lines[2]).toMatch(/σ_range 5\.0 cm, σ_azimuth 1\.50° \(default\)/);
   });
 

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { Tracker } from '../../bridge/tracking/tracker.ts';
 import { kalataGains, trackingIndex } from '../../bridge/tracking/alpha-beta.ts';
 import { simulateRun, targetStateAt, type SimulatedRun } from '../../bridge/sim/run.ts';
-import { SCENARIOS } from '../../bridge/sim/scenarios.ts';
+import { crowdScenario, SCENARIOS } from '../../bridge/sim/scenarios.ts';
 import type { ScenarioOptions } from '../../bridge/sim/scenario.ts';
 import type { TrackUpdate } from '../../bridge/types.ts';
 
@@ -163,6 +163,53 @@ describe('tracker end to end on simulated runs', () => {
         // ...and none once it has learned the wall (fixed echoes form after 10 s, plus the 3-scan settle time).
         expect(ghosts.filter((u) => u.timeS > 10 + 3 * period), `${name} seed ${seed}`).toEqual([]);
       }
+    }
+  });
+
+  it('emits the update of a detection without waiting for the rest of the revolution', () => {
+    // Bench of the benchmark's kind (bridge/sim crowd): targets all round and false alarms, so the
+    // sweep brings detections all the time and "later" can be judged in run time. Lag of an update
+    // = run time of the detection whose push emitted it minus its own detection's time.
+    const run = simulateRun({ ...crowdScenario(30, 5), durationS: 40 });
+    const tracker = new Tracker({});
+    const lags: number[] = [];
+    for (const d of run.detections) {
+      for (const u of tracker.push(d).updates) if (u.measurement && u.timeS > 15) lags.push(d.timeS - u.measurement.timeS);
+    }
+    const period = tracker.inferred()!.intervalS;
+    expect(lags.length).toBeGreaterThan(300);
+    lags.sort((a, b) => a - b);
+    // An update leaves with its own detection, or, in a contested cluster (tracks sharing
+    // detections, a tentative or coasting track's wide gate), once the beam has passed the
+    // cluster's gates: half a revolution at most, plus the wait for the next detection (this
+    // bench gives ~40 a revolution). A whole-revolution batch lags half a revolution on average
+    // and up to one.
+    const q = (p: number) => lags[Math.floor(p * (lags.length - 1))] / period;
+    expect(lags.filter((l) => l === 0).length / lags.length).toBeGreaterThan(0.2);
+    expect(q(0.5)).toBeLessThan(0.15);
+    expect(q(0.9)).toBeLessThan(0.5);
+    expect(q(1)).toBeLessThan(0.6);
+  });
+
+  it('holds a detection no longer than until the push of the first detection half a revolution later', () => {
+    // Sparse bench (bay 3: nothing between the room's edges and the next revolution): the
+    // tracker learns that the beam moved on only from the next detection, so the bound is in
+    // detections, not run time.
+    for (const name of ['crossing-pair', 'xy-eight']) {
+      const run = simulateRun(SCENARIOS[name]);
+      const tracker = new Tracker({});
+      const dets = run.detections;
+      let late = 0;
+      for (let k = 0; k < dets.length; k++) {
+        for (const u of tracker.push(dets[k]).updates) {
+          if (!u.measurement || u.timeS < 15) continue;
+          const period = tracker.inferred()!.intervalS;
+          // Every detection pushed before this one and more than half a revolution after the
+          // update's own detection would have released it.
+          for (let i = k - 1; i >= 0 && dets[i].timeS > u.measurement.timeS; i--) if (dets[i].timeS - u.measurement.timeS > 0.5 * period) late++;
+        }
+      }
+      expect(late, name).toBe(0);
     }
   });
 
