@@ -50,10 +50,16 @@ const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const TWO_PI = 2 * Math.PI;
 const DEG = Math.PI / 180;
 
+/** `"1.5"` → `1.5`: quoting is off in the parser (see below), so a quoted cell keeps its quotes. */
+function unquote(cell: string): string {
+  return cell.length >= 2 && cell.startsWith('"') && cell.endsWith('"') ? cell.slice(1, -1).trim() : cell;
+}
+
 function num(cell: string | undefined): number {
   if (cell === undefined) return NaN;
   if (DECIMAL.test(cell)) return Number(cell);
-  const t = cell.trim(); // trimming only on the slow path: csv-parse's own trim halves throughput
+  // Trimming and unquoting only on the slow path: csv-parse's own trim halves throughput.
+  const t = unquote(cell.trim());
   return t !== cell && DECIMAL.test(t) ? Number(t) : NaN;
 }
 
@@ -61,8 +67,9 @@ function num(cell: string | undefined): number {
  * Reads a detections CSV from a path ('-' for stdin) or a stream.
  *
  * Line numbers are counted here rather than taken from csv-parse's `info`, which costs about half
- * the throughput: one line per record plus the line breaks inside quoted cells. A record that
- * csv-parse itself rejects (a broken quote) is counted as one line.
+ * the throughput. Quoting is off, so one physical line is one record: a stray quote costs its own
+ * line only, and a quoted cell spanning lines (not expected in a numeric format) costs its
+ * continuation lines, each reported with its number.
  */
 export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options?: DetectionsCsvOptions): DetectionsCsvReader {
   const opts = resolveDetectionsCsvOptions(options);
@@ -78,7 +85,10 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
     const source: NodeJS.ReadableStream = typeof input !== 'string' ? input : input === '-' ? process.stdin : createReadStream(input);
     const brokenLines: number[] = [];
     const parser = parse({
-      relax_column_count: true, relax_quotes: true, skip_empty_lines: false, bom: true, skip_records_with_error: true,
+      // Quoting off: every field of this format is a number, and with quoting on one stray `"`
+      // would swallow the good lines after it into one field. One physical line = one record.
+      quote: false,
+      relax_column_count: true, skip_empty_lines: false, bom: true, skip_records_with_error: true,
       on_skip: (err) => {
         const line = typeof err?.lines === 'number' ? err.lines : 0;
         brokenLines.push(line);
@@ -123,10 +133,9 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
       while (brokenLines.length && brokenLines[0] <= nextLine) (brokenLines.shift(), nextLine++);
       const line = nextLine;
       nextLine++;
-      for (const c of record) if (c.includes('\n')) nextLine += c.split('\n').length - 1;
       if (record.length === 1 && record[0].trim() === '') return; // blank line
       if (!col) {
-        const names = record.map((c) => c.trim().toLowerCase());
+        const names = record.map((c) => unquote(c.trim()).toLowerCase());
         const idx = (n: string) => names.indexOf(n);
         const missing = REQUIRED.filter((n) => idx(n) < 0 && !(n === 'amplitude' && opts.defaultAmplitude !== null));
         if (missing.length) throw new EchotrailError('E_INPUT_COLUMNS', `${name}: header lacks ${missing.join(', ')} (line ${line} must name the columns time_s,azimuth_deg,range_m,amplitude, in any order)`);

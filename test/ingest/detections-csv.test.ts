@@ -78,11 +78,14 @@ describe('readDetectionsCsv', () => {
     expect(report.accepted + report.skipped).toBe(report.rows);
   });
 
-  it('counts lines through blank lines and quoted line breaks in ignored columns', async () => {
+  it('counts physical lines through blank lines; a quoted line break costs only its continuation line', async () => {
+    // One physical line is one record (quoting is off, so a stray quote cannot swallow good rows):
+    // a line break inside a quoted cell leaves its continuation as a bad line of its own.
     const text = 'time_s,azimuth_deg,range_m,amplitude,note\n\n0,1,2,3,"two\nlines"\n1,1,x,3,plain\n\n2,1,2,3,\n';
     const { rows, report } = await readAll(text);
-    expect(rows.map((r) => r.line)).toEqual([3, 7]); // 1 header, 2 blank, 3–4 quoted, 5 bad, 6 blank, 7
-    expect(report.firstSkipped?.line).toBe(5);
+    expect(rows.map((r) => r.line)).toEqual([3, 7]); // 1 header, 2 blank, 3 good, 4 continuation, 5 bad, 6 blank, 7
+    expect(report.skipped).toBe(2);
+    expect(report.firstSkipped?.line).toBe(4);
   });
 
   it('batches() gives the same detections in arrays', async () => {
@@ -188,5 +191,17 @@ describe('writeDetectionsCsv', () => {
       expect(Math.abs(d.azimuthRad - dets[i].azimuthRad)).toBeLessThan((1e-4 * Math.PI) / 180);
       expect(d.amplitude).toBe(dets[i].amplitude);
     });
+  });
+});
+
+describe('readDetectionsCsv: quotes', () => {
+  it('a stray quote costs only its own line; quoted cells and header names still read', async () => {
+    const text = ['"time_s","azimuth_deg",range_m,amplitude', '1.0,10,2.0,5', '1.1,"11,2.0,5', '"1.2","12",2.0,5', '1.3,13,2.0,5', '1.4,14,2.0,5', ''].join('\n');
+    const r = readDetectionsCsv(Readable.from([text]));
+    const got: number[] = [];
+    for await (const d of r) got.push(d.timeS);
+    expect(got).toEqual([1.0, 1.2, 1.3, 1.4]);
+    expect(r.report.skipped).toBe(1);
+    expect(r.report.firstSkipped?.line).toBe(3);
   });
 });
