@@ -4,7 +4,7 @@
  * Units are SI inside the program (metres, seconds, radians). Degrees appear only at the
  * edges (files, screens) and are then named so (`azimuth_deg`). The radar sits at the origin;
  * azimuth is measured clockwise from +y, so x = r·sin(az), y = r·cos(az).
- * See ../shared/conventions.md (binding for file formats) and docs/.
+ * See docs/conventions.md (binding for file formats) and the other files in docs/.
  */
 
 /** One detection (a "plot") as it leaves the acquisition hardware or a file. */

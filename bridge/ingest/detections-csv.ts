@@ -1,5 +1,5 @@
 /**
- * The detections CSV (the `track` input, ../../../shared/conventions.md): a header row, columns
+ * The detections CSV (the `track` input, docs/conventions.md): a header row, columns
  * `time_s,azimuth_deg,range_m,amplitude` in any order, other columns ignored, rows in time order.
  *
  * `readDetectionsCsv` streams it (csv-parse) into `Detection`s. Unusable input (nothing in it, a

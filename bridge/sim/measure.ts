@@ -65,7 +65,7 @@ export function measurePolar(sc: ResolvedScenario, rng: Rng, p: Point): { rangeM
 /**
  * Pulse-to-pulse phase of an echo with radial velocity `radialMps` (positive receding):
  * Δφ = 4π·v_r·T/λ with T = 1/PRF, wrapped to [−π, π) as the hardware sees it (inverse of
- * v = λ·Δφ/(4π·T), reference-values.md), plus Gaussian phase noise.
+ * v = λ·Δφ/(4π·T); common practice for pulse-pair phase), plus Gaussian phase noise.
  */
 export function pulsePhase(sc: ResolvedScenario, rng: Rng, radialMps: number): number | undefined {
   if (!sc.phase) return undefined;

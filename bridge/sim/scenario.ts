@@ -219,7 +219,7 @@ export function resolveScenarioOptions(o: ScenarioOptions = {}): ResolvedScenari
     fluctuating: o.fluctuating ?? false,
     truthRateHz: positive('truthRateHz', o.truthRateHz ?? 10),
     positionerLagS: Math.max(0, o.positionerLagS ?? 0),
-    // λ = c/f at 9.4 GHz (c exact, SI): 0.0318928 m (reference-values.md).
+    // λ = c/f at 9.4 GHz (c exact, SI): 0.0318928 m (recomputed from the SI value of c).
     phase: o.phase ? { prfHz: positive('phase.prfHz', o.phase.prfHz), wavelengthM: positive('phase.wavelengthM', o.phase.wavelengthM ?? 299_792_458 / 9.4e9), sigmaRad: Math.max(0, o.phase.sigmaDeg ?? 5) * DEG } : null,
   };
 }

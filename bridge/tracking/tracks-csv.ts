@@ -1,5 +1,5 @@
 /**
- * The tracks CSV written by `track` (columns fixed by ../../../shared/conventions.md plus the
+ * The tracks CSV written by `track` (columns fixed by docs/conventions.md plus the
  * measurement columns the RTS smoother of bridge/compare needs). Degrees at the edge; measurement
  * columns and nis are empty on a coast.
  */

@@ -51,7 +51,7 @@ describe('calibrationApi', () => {
 
   it('gives the guide and NIS bounds', () => {
     expect(calibrationApi({ action: 'steps' })).toMatchObject({ ok: true, action: 'steps' });
-    // reference-values.md: n = 2, N = 50 → [1.4844, 2.5912] (Bar-Shalom et al. 2001 §5.4)
+    // n = 2, N = 50 → [1.4844, 2.5912]: χ²_{nN} quantiles / N (Bar-Shalom, Li & Kirubarajan 2001, §5.4; NIST/SEMATECH χ² table)
     const b = calibrationApi({ action: 'nis-bounds', count: 50 });
     if (!b.ok || b.action !== 'nis-bounds') throw new Error('no bounds');
     expect(b.lower).toBeCloseTo(1.4844, 4);

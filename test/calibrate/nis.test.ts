@@ -6,9 +6,9 @@ import { createRng } from '../../bridge/sim/prng.ts';
 import type { Detection } from '../../bridge/types.ts';
 
 describe('NIS bounds', () => {
-  it('match the χ² values of reference-values.md', () => {
+  it('match the published χ² bounds', () => {
     // Bar-Shalom, Li & Kirubarajan 2001, §5.4: 95% two-sided interval [χ²_{nN}(0.025)/N, χ²_{nN}(0.975)/N];
-    // n = 2, N = 50 → [1.4844, 2.5912]; n = 4, N = 50 → [3.2546, 4.8212] (reference-values.md).
+    // n = 2, N = 50 → [1.4844, 2.5912]; n = 4, N = 50 → [3.2546, 4.8212] (Bar-Shalom, Li & Kirubarajan 2001, §5.4: χ²_{nN}(0.025)/N, χ²_{nN}(0.975)/N).
     const b2 = nisBounds(50, 2);
     expect(b2.lower).toBeCloseTo(1.4844, 4);
     expect(b2.upper).toBeCloseTo(2.5912, 4);

@@ -1,5 +1,5 @@
 // Commanded path CSV reader and its plausibility checks. Polar conversion x = r·sin(az),
-// y = r·cos(az) with azimuth clockwise from +y (../shared/conventions.md).
+// y = r·cos(az) with azimuth clockwise from +y (docs/conventions.md).
 import { describe, expect, it } from 'vitest';
 import { parseCommandedCsv, parseCommandedTargets } from '../../bridge/compare/commanded-csv.ts';
 import { EchotrailError } from '../../bridge/errors.ts';

@@ -70,7 +70,7 @@ describe('projectOnPolyline', () => {
 });
 
 describe('angles', () => {
-  it('headings are clockwise from +y (conventions.md)', () => {
+  it('headings are clockwise from +y (docs/conventions.md)', () => {
     expect(headingOf(0, 1)).toBeCloseTo(0, 12);
     expect(headingOf(1, 0)).toBeCloseTo(Math.PI / 2, 12);
     expect(headingOf(-1, 0)).toBeCloseTo((3 * Math.PI) / 2, 12);

@@ -1,7 +1,7 @@
 // OSPA: Schuhmacher, Vo & Vo, "A consistent metric for performance evaluation of multi-object
 // filters", IEEE Trans. SP 56(8):3447–3457, 2008, eq. (3). GOSPA (α = 2): Rahmathullah,
 // García-Fernández & Svensson, "Generalized optimal sub-pattern assignment metric", FUSION 2017,
-// Proposition 1. Worked values from ../shared/reference-values.md (recomputed there, and here from
+// Proposition 1. Worked values recomputed from the definitions (and here from
 // the formulas by hand in the comments).
 import { describe, expect, it } from 'vitest';
 import { setDistance } from '../../bridge/compare/ospa.ts';

@@ -1,5 +1,5 @@
 // CV model with continuous white-noise acceleration: Bar-Shalom, Li & Kirubarajan, "Estimation
-// with Applications to Tracking and Navigation", 2001, §6.2.2 (values in ../shared/reference-values.md).
+// with Applications to Tracking and Navigation", 2001, §6.2.2.
 // Smoother: Rauch, Tung & Striebel, AIAA Journal 3(8):1445–1450, 1965.
 import { describe, expect, it } from 'vitest';
 import { cvModel, smoothTrack } from '../../bridge/compare/smoother.ts';

@@ -1,5 +1,5 @@
 // Tracks CSV reader: column layout of `echotrail track` (the project's issue 5 and
-// ../shared/conventions.md); degrees at the edge, radians inside.
+// docs/conventions.md); degrees at the edge, radians inside.
 import { describe, expect, it } from 'vitest';
 import { parseTracksCsv } from '../../bridge/compare/track-rows.ts';
 
@@ -15,7 +15,7 @@ describe('parseTracksCsv', () => {
     expect(rows[1].status).toBe('coasting');
   });
 
-  it('accepts the minimal columns of conventions.md (status defaults to confirmed)', () => {
+  it('accepts the minimal columns of docs/conventions.md (status defaults to confirmed)', () => {
     const rows = parseTracksCsv('time_s,track_id,x_m,y_m,vx_mps,vy_mps,speed_mps,heading_deg\n0,1,0,2,0,0.2,0.2,0\n');
     expect(rows[0].status).toBe('confirmed');
   });

@@ -3,7 +3,7 @@ import { meanAmplitude, positionerToRadar, toPolar, wrapPi, wrapTwoPi } from '..
 import { resolveScenarioOptions } from '../../bridge/sim/scenario.ts';
 
 describe('geometry', () => {
-  it('azimuth is clockwise from +y: x = r·sin(az), y = r·cos(az) (conventions.md)', () => {
+  it('azimuth is clockwise from +y: x = r·sin(az), y = r·cos(az) (docs/conventions.md)', () => {
     expect(toPolar(0, 2)).toEqual({ rangeM: 2, azimuthRad: 0 });
     expect(toPolar(2, 0).azimuthRad).toBeCloseTo(Math.PI / 2, 15);
     expect(toPolar(-1, 0).azimuthRad).toBeCloseTo((3 * Math.PI) / 2, 15);

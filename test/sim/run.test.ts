@@ -140,7 +140,7 @@ describe('positioner lag and pulse phase', () => {
   });
 
   it('phase step gives back the radial velocity, aliased beyond ±λ·PRF/4', () => {
-    // Radar facts (reference-values.md): λ(9.4 GHz) = 0.0318928 m; v = λ·Δφ/(4π·T);
+    // Radar facts (λ = c/f with the SI value of c; pulse-pair phase, common practice): λ(9.4 GHz) = 0.0318928 m; v = λ·Δφ/(4π·T);
     // PRF 144 Hz → unambiguous ±1.148 m/s (AMS Glossary, "maximum unambiguous velocity");
     // f_d = 2v/λ: 0.5 m/s → 31.355 Hz, i.e. Δφ = 2π·31.355/144 = 1.3681 rad per pulse.
     const lambda = 299_792_458 / 9.4e9; // c/f, c exact (SI)

@@ -6,7 +6,7 @@ const m = (timeS: number, x: number): Measurement => ({ timeS, x, y: 0, rxx: 1, 
 
 describe('alpha-beta filter', () => {
   it("Kalata's gains from the tracking index (Kalata 1984, IEEE Trans. AES 20(2), α(λ), β(λ))", () => {
-    // Worked values recomputed in reference-values.md from Kalata's formula.
+    // Worked values recomputed from Kalata's closed form (Kalata 1984, IEEE Trans. AES 20(2)).
     const cases: [number, number, number][] = [
       [0.1, 0.36, 0.08],
       [1 / 3, 5 / 9, 2 / 9],
@@ -34,7 +34,7 @@ describe('alpha-beta filter', () => {
   });
 
   it('steady-state lag under constant acceleration: a·T²/β predicted, (1 − α)·a·T²/β updated (Brookner 1998, ch. 1)', () => {
-    // α = 0.75, β = 0.5, T = 1, a = 1 → 2.0 and 0.5 (reference-values.md, recomputed by simulation).
+    // α = 0.75, β = 0.5, T = 1, a = 1 → 2.0 and 0.5 (Brookner 1998, ch. 1, steady-state lag a·T²/β; recomputed by simulation).
     const f = new AlphaBetaFilter(m(0, 0), 0.75, 0.5);
     let lagPred = NaN;
     let lagUpd = NaN;

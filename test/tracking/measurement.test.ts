@@ -13,7 +13,7 @@ import { hasCode } from '../../bridge/errors.ts';
 const DEG = Math.PI / 180;
 
 describe('polar → Cartesian conversion', () => {
-  // Check values of reference-values.md, recomputed there from the formulas:
+  // Check values recomputed from the formulas (Bar-Shalom et al. 2001 §10.4.3; Mo et al. 1998):
   // r = 5 m, θ = 30°, σr = 0.05 m, σθ = 2°.
   it('linearised conversion matches Bar-Shalom et al. 2001, §10.4.3', () => {
     const m = convertLinearised(5, 30 * DEG, 0.05, 2 * DEG);
