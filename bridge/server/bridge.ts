@@ -168,6 +168,12 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
     if (pathname.startsWith('/api/')) {
       const verdict = checkAccess(req, o);
       if (!verdict.ok) return sendError(res, verdict.status, 'E_ACCESS', verdict.reason);
+      // A request that does work (POST /api/calibrate) must come from the bridge's own page: any
+      // other web page the operator has open could otherwise post to the loopback port.
+      if (req.method !== 'GET' && req.method !== 'HEAD') {
+        const origin = checkOrigin(req, o);
+        if (!origin.ok) return sendError(res, origin.status, 'E_ACCESS', origin.reason);
+      }
       void handleApi(apiContext, req, res, pathname);
       return;
     }

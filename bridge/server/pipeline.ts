@@ -20,6 +20,7 @@ import { LiveState } from './state.ts';
 import { SourceStats } from './source-stats.ts';
 import { ScanBatch, type ScanMessage } from './scan-batch.ts';
 import { rebuildAfterSeek } from './rebuild.ts';
+import { recordTime as recordTimeOf } from '../session/record-time.ts';
 
 export type SnapshotMessage = Extract<ServerMessage, { type: 'snapshot' }>;
 
@@ -65,6 +66,8 @@ export class Pipeline extends EventEmitter {
   private fixedSignature = '';
   private sourceListeners: [string, (...a: never[]) => void][] = [];
   trackerErrors = 0;
+  /** Records whose handling threw (logged for the first few): never fatal. */
+  recordErrors = 0;
 
   constructor(private readonly options: PipelineOptions) {
     super();
@@ -158,7 +161,19 @@ export class Pipeline extends EventEmitter {
     await this.recording.close();
   }
 
+  /**
+   * Runs inside the serial port's 'data' callback and the replay timer: a throw here would take
+   * the whole bridge (and a live recording) down, so one bad record is counted and logged instead.
+   */
   private onRecord(r: SourceRecord, receivedAtMs: number): void {
+    try {
+      this.handleRecord(r, receivedAtMs);
+    } catch (err) {
+      if (this.recordErrors++ < 5) this.options.log(`record at ${recordTimeOf(r) ?? '?'} s refused: ${(err as Error).message}`);
+    }
+  }
+
+  private handleRecord(r: SourceRecord, receivedAtMs: number): void {
     if (this.seek.intercept(r, receivedAtMs)) return;
     if (this.source?.kind === 'serial') {
       if (this.clockWentBack(r)) this.newLiveRun();
@@ -297,7 +312,7 @@ export class Pipeline extends EventEmitter {
     this.state.reset();
     this.comparison?.reset();
     this.fixedSignature = '';
-    setImmediate(() => void this.finishSeek(epoch, timeS, retrack));
+    setImmediate(() => this.finishSeek(epoch, timeS, retrack).catch((err: unknown) => this.options.log(`seek to ${timeS} s: ${(err as Error).message}`)));
   }
 
   private async finishSeek(epoch: number, timeS: number, retrack: boolean): Promise<void> {

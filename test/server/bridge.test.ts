@@ -118,6 +118,9 @@ describe('startBridge', () => {
     const bad = await post('{"action": ');
     expect(bad.status).toBe(present ? 400 : 501);
     expect((await fetch(new URL('/api/calibrate', b.url))).status).toBe(405);
+    // Another site's page posting to the loopback port is refused before any work is done.
+    const foreign = await fetch(new URL('/api/calibrate', b.url), { method: 'POST', body: JSON.stringify({ action: 'steps' }), headers: { 'content-type': 'application/json', origin: 'http://elsewhere.example' } });
+    expect(foreign.status).toBe(403);
   });
 
   it('keeps the live view running when recording fails, and says why', async () => {

@@ -39,6 +39,9 @@ export class StreamClient {
     this.maxBackoffMs = options.maxBackoffMs ?? 5000;
   }
 
+  /** Pending reconnection after a drop; cleared by close() so a closed client stays closed. */
+  private reconnectTimer: ReturnType<typeof setTimeout> | null = null;
+
   connect(): void {
     this.closedByUser = false;
     this.state.connection = 'connecting';
@@ -60,12 +63,18 @@ export class StreamClient {
     ws.onclose = () => {
       this.state.connection = 'closed';
       this.requestFrame();
-      if (!this.closedByUser) setTimeout(() => this.connect(), this.nextBackoff());
+      if (this.closedByUser) return;
+      this.reconnectTimer = setTimeout(() => {
+        this.reconnectTimer = null;
+        if (!this.closedByUser) this.connect();
+      }, this.nextBackoff());
     };
   }
 
   close(): void {
     this.closedByUser = true;
+    if (this.reconnectTimer !== null) clearTimeout(this.reconnectTimer);
+    this.reconnectTimer = null;
     this.socket?.close();
   }
 
