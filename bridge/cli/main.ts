@@ -7,7 +7,7 @@
 const SUBCOMMANDS: Record<string, { summary: string; load: () => Promise<{ run(argv: string[]): Promise<number> }> }> = {
   start: { summary: 'serve the dashboard and stream a demo replay, a session or a serial port', load: () => import('./start.ts') },
   track: { summary: 'track a detections CSV into a tracks CSV (headless)', load: () => import('./track.ts') },
-  simulate: { summary: 'simulate a bench run: detections CSV and truth CSV', load: () => import('./simulate.ts') },
+  simulate: { summary: 'simulate a bench run: detections, truth and commanded-path CSVs', load: () => import('./simulate.ts') },
   compare: { summary: 'compare a tracked path with the commanded path; JSON, CSV and HTML report', load: () => import('./compare.ts') },
   calibrate: { summary: 'fit range/azimuth offsets or the positioner frame from recorded runs', load: () => import('./calibrate.ts') },
   tune: { summary: 'estimate noise and process-noise settings from a recorded run into a tracker profile', load: () => import('./tune.ts') },
