@@ -1,5 +1,5 @@
 /**
- * `echotrail track`: detections CSV in, tracks CSV out, no server (../../../shared/conventions.md).
+ * `echotrail track`: detections CSV in, tracks CSV out, no server (docs/conventions.md).
  *
  * Streams: the reader hands over detections chunk by chunk, the tracker holds only live tracks and
  * its fixed-echo map, and output lines leave in ~64 kB writes that wait for the file to drain, so
@@ -13,7 +13,7 @@ import { Command, CommanderError, InvalidArgumentError } from 'commander';
 import { EchotrailError } from '../errors.ts';
 import { formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
 import { loadTrackerProfile } from '../tracking/profile.ts';
-import { describeInference, Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
+import { describeInference, describeNoise, Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
 import { TRACKS_CSV_HEADER, trackCsvLine } from '../tracking/tracks-csv.ts';
 
 const DEG = Math.PI / 180;
@@ -172,12 +172,17 @@ async function trackFile(tracker: Tracker, input: string, output: string, maxRan
   let lastProgress = 0;
   let rows = 0;
   let buf = TRACKS_CSV_HEADER + '\n';
+  let noiseTold = false;
   const tell = () => {
     const inf = tracker.inferred();
-    if (told || !inf) return;
-    told = true;
+    if (!inf || (told && (noiseTold || inf.noisePending))) return;
     if (tty) process.stderr.write('\r\x1b[K');
-    for (const l of describeInference(inf)) process.stderr.write(`echotrail track: ${l}\n`);
+    // Tracking starts once the antenna is known; a noise estimate still running is reported
+    // again when it is done.
+    if (!told) for (const l of describeInference(inf)) process.stderr.write(`echotrail track: ${l}\n`);
+    else process.stderr.write(`echotrail track: ${describeNoise(inf)}\n`);
+    told = true;
+    noiseTold = !inf.noisePending;
   };
   const drain = async (force: boolean) => {
     if (buf.length < 65536 && !force) return;

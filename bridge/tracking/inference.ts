@@ -23,16 +23,38 @@ export interface TrackerInference {
   noiseFrom: Origin;
   /** Stationary reflectors the noise estimate used (0 when not estimated). */
   noiseReflectors: number;
+  /** True while the noise estimate is still collecting detections (the defaults apply meanwhile). */
+  noisePending: boolean;
+  /** Run time from which the noise figures apply, s. */
+  noiseFromS: number;
   /** Detections looked at before tracking started. */
   warmupDetections: number;
+  /** Run time at which tracking started, s. */
+  warmupEndS: number;
   /** Share of azimuth steps forward (rotating antennas are near 1). */
   forwardFraction: number;
   /** Detections ignored because their time went backwards. */
   outOfOrder: number;
 }
 
-/** Decides everything the warm-up decides, from the buffered detections. */
-export function decide(dets: readonly Detection[], o: TrackerOptions): TrackerInference {
+/**
+ * True once the buffered detections settle the antenna: a rotating antenna after `revolutions`
+ * whole revolutions between azimuth wraps, nearly all steps forward; a staring one (no wraps)
+ * after `stareS` of run with a repeating interval.
+ */
+export function antennaSettled(dets: readonly Detection[], revolutions: number, stareS: number): boolean {
+  if (dets.length < 3) return false;
+  const a = inferAntenna(dets);
+  if (a.kind === 'rotating') return a.wraps >= revolutions + 1 && a.forwardFraction >= 0.95 && a.periodS > 0;
+  return a.wraps === 0 && dets[dets.length - 1].timeS - dets[0].timeS >= stareS && a.intervalS > 0;
+}
+
+/**
+ * Decides everything the warm-up decides, from the buffered detections. With `noiseLater` the
+ * noise stays at its defaults for now (noisePending), to be estimated by decideNoise from a
+ * longer stretch of the run.
+ */
+export function decide(dets: readonly Detection[], o: TrackerOptions, noiseLater = false): TrackerInference {
   const a = inferAntenna(dets);
   const antenna: AntennaKind = o.antenna === 'auto' ? a.kind : o.antenna;
   const antennaFrom: Origin = o.antenna !== 'auto' ? 'option' : dets.length >= 3 ? 'inferred' : 'default';
@@ -56,36 +78,46 @@ export function decide(dets: readonly Detection[], o: TrackerOptions): TrackerIn
   // cannot take a second detection later in the same sweep (the tracker's half-revolution rule),
   // which is what made wall reflectors chain along when batches were short before.
   const batchS = o.batchS > 0 ? o.batchS : antenna === 'rotating' ? 0 : intervalS / 2;
-  let sigmaRangeM = o.measurement.sigmaRangeM;
-  let sigmaAzimuthRad = o.measurement.sigmaAzimuthRad;
-  let noiseFrom: Origin = o.estimateNoise ? 'default' : 'option';
-  let noiseReflectors = 0;
-  if (o.estimateNoise) {
-    // One slice per scan: a reflector then answers about once per slice, rotating or staring.
-    const n = estimateNoise(dets, intervalS);
-    // Accept estimates within a factor 4 of the typical bench figures; outside that, the
-    // "stationary reflector" was more likely a slow target or two reflectors in one bin.
-    if (n && n.samples >= MIN_SAMPLES && within(n.sigmaRangeM, sigmaRangeM) && within(n.sigmaAzimuthRad, sigmaAzimuthRad)) {
-      sigmaRangeM = n.sigmaRangeM;
-      sigmaAzimuthRad = n.sigmaAzimuthRad;
-      noiseFrom = 'inferred';
-      noiseReflectors = n.reflectors;
-    }
-  }
-  return {
+  const info: TrackerInference = {
     antenna,
     antennaFrom,
     intervalS,
     intervalFrom,
     batchS,
-    sigmaRangeM,
-    sigmaAzimuthRad,
-    noiseFrom,
-    noiseReflectors,
+    sigmaRangeM: o.measurement.sigmaRangeM,
+    sigmaAzimuthRad: o.measurement.sigmaAzimuthRad,
+    noiseFrom: o.estimateNoise ? 'default' : 'option',
+    noiseReflectors: 0,
+    noisePending: o.estimateNoise && noiseLater,
+    noiseFromS: dets.length ? dets[0].timeS : 0,
     warmupDetections: dets.length,
+    warmupEndS: dets.length ? dets[dets.length - 1].timeS : 0,
     forwardFraction: a.forwardFraction,
     outOfOrder: 0,
   };
+  if (o.estimateNoise && !noiseLater) decideNoise(info, dets, o);
+  return info;
+}
+
+/**
+ * Estimates the measurement noise from `dets` (the run so far) into `info`, unless it was given;
+ * `info.noiseFromS` = when the estimate takes effect (the last of these detections).
+ */
+export function decideNoise(info: TrackerInference, dets: readonly Detection[], o: TrackerOptions): void {
+  info.noisePending = false;
+  info.noiseFromS = dets.length ? dets[dets.length - 1].timeS : 0;
+  if (!o.estimateNoise) return;
+  // One slice per scan: a reflector then answers about once per slice, rotating or staring.
+  const n = estimateNoise(dets, info.intervalS);
+  // Accept estimates within a factor 4 of the typical bench figures; outside that, the
+  // "stationary reflector" was more likely a slow target or two reflectors in one bin.
+  const r = o.measurement;
+  if (n && n.samples >= MIN_SAMPLES && within(n.sigmaRangeM, r.sigmaRangeM) && within(n.sigmaAzimuthRad, r.sigmaAzimuthRad)) {
+    info.sigmaRangeM = n.sigmaRangeM;
+    info.sigmaAzimuthRad = n.sigmaAzimuthRad;
+    info.noiseFrom = 'inferred';
+    info.noiseReflectors = n.reflectors;
+  }
 }
 
 /**
@@ -98,14 +130,26 @@ function within(v: number, ref: number): boolean {
   return v > ref / 4 && v < ref * 4;
 }
 
+/** The noise line of describeInference (also printed again once a pending estimate is done). */
+export function describeNoise(i: TrackerInference): string {
+  const from = i.noisePending
+    ? 'default for now; estimating from the first part of the run'
+    : i.noiseFrom === 'inferred'
+      ? `inferred from the run, ${i.noiseReflectors} stationary reflector(s)${i.noiseFromS > i.warmupEndS ? `, applied from ${i.noiseFromS.toFixed(1)} s` : ''}`
+      : i.noiseFrom === 'option'
+        ? 'as given'
+        : 'default';
+  return `noise: σ_range ${(i.sigmaRangeM * 100).toFixed(1)} cm, σ_azimuth ${((i.sigmaAzimuthRad * 180) / Math.PI).toFixed(2)}° (${from})`;
+}
+
 /** One line per decision, for stderr. */
 export function describeInference(i: TrackerInference): string[] {
   const from = (o: Origin) => (o === 'inferred' ? 'inferred from the run' : o === 'option' ? 'as given' : 'default');
   const what = i.antenna === 'rotating' ? 'revolution period' : 'update interval';
   const lines = [
-    `antenna: ${i.antenna} (${from(i.antennaFrom)}; ${(100 * i.forwardFraction).toFixed(0)}% of azimuth steps forward over ${i.warmupDetections} detections)`,
+    `antenna: ${i.antenna} (${from(i.antennaFrom)}; ${(100 * i.forwardFraction).toFixed(0)}% of azimuth steps forward over ${i.warmupDetections} detections; tracking from ${i.warmupEndS.toFixed(1)} s)`,
     `${what}: ${i.intervalS.toFixed(i.intervalS < 0.1 ? 4 : 3)} s (${from(i.intervalFrom)}); ${i.batchS > 0 ? `assignment batch ${(i.batchS * 1000).toFixed(1)} ms` : 'assignment per detection, as the beam passes each gate'}`,
-    `noise: σ_range ${(i.sigmaRangeM * 100).toFixed(1)} cm, σ_azimuth ${((i.sigmaAzimuthRad * 180) / Math.PI).toFixed(2)}° (${from(i.noiseFrom)}${i.noiseReflectors ? `, ${i.noiseReflectors} stationary reflector(s)` : ''})`,
+    describeNoise(i),
   ];
   if (i.outOfOrder) lines.push(`${i.outOfOrder} detection(s) ignored: time went backwards`);
   return lines;

@@ -32,7 +32,9 @@ export interface TrackerOptions {
   batchS: number;
   /** Also report confirmed tracks that never moved (they still turn into fixed echoes unless those are off). */
   reportStationary: boolean;
-  /** Warm-up used for inference ends after this much run time, s. */
+  /** The warm-up ends once the antenna is settled: this many whole revolutions (rotating), or this many seconds (staring). */
+  warmupRevolutions: number;
+  /** Warm-up used for inference ends after this much run time at the latest, s; the noise estimate uses this much. */
   warmupS: number;
   /** ...or after this many detections, whichever comes first. */
   warmupDetections: number;
@@ -51,6 +53,7 @@ export interface TrackerOptionsInput {
   fixedEchoes?: Partial<FixedEchoOptions>;
   batchS?: number;
   reportStationary?: boolean;
+  warmupRevolutions?: number;
   warmupS?: number;
   warmupDetections?: number;
 }
@@ -69,13 +72,14 @@ export function resolveTrackerOptions(o: TrackerOptionsInput = {}): TrackerOptio
     fixedEchoes: resolveFixedEchoOptions(o.fixedEchoes),
     batchS: o.batchS ?? 0,
     reportStationary: o.reportStationary ?? false,
+    warmupRevolutions: o.warmupRevolutions ?? 3,
     warmupS: o.warmupS ?? 12,
     warmupDetections: o.warmupDetections ?? 20000,
   };
   if (!['auto', 'rotating', 'staring'].includes(r.antenna)) {
     throw new EchotrailError('E_OPTION', `unknown antenna '${String(r.antenna)}': use auto, rotating or staring`);
   }
-  if (!(r.intervalS >= 0) || !(r.batchS >= 0) || !(r.warmupS >= 0) || !(r.warmupDetections >= 1)) {
+  if (!(r.intervalS >= 0) || !(r.batchS >= 0) || !(r.warmupS >= 0) || !(r.warmupRevolutions >= 1) || !(r.warmupDetections >= 1)) {
     throw new EchotrailError('E_OPTION', 'interval, batch and warm-up must be ≥ 0 s (warm-up detections ≥ 1)');
   }
   return r;

@@ -17,7 +17,7 @@ import { gateBatch } from './gating.ts';
 import { createFilter } from './filter.ts';
 import { FixedEchoMap } from './fixed-echo-map.ts';
 import { gateThreshold } from './gate.ts';
-import { decide, describeInference, type TrackerInference } from './inference.ts';
+import { antennaSettled, decide, decideNoise, describeInference, describeNoise, type TrackerInference } from './inference.ts';
 import { toMeasurement, type MeasurementOptions } from './measurement.ts';
 import { SeedPool } from './seeds.ts';
 import { heldBack } from './sweep-deferral.ts';
@@ -25,7 +25,7 @@ import { SpatialGrid } from './spatial-grid.ts';
 import { lambdaMax, RECENT_HITS, Track } from './track-life.ts';
 import { resolveTrackerOptions, type TrackerOptions, type TrackerOptionsInput } from './tracker-options.ts';
 
-export { resolveTrackerOptions, describeInference };
+export { resolveTrackerOptions, describeInference, describeNoise };
 export type { TrackerOptions, TrackerOptionsInput, TrackerInference };
 
 /**
@@ -61,6 +61,12 @@ export class Tracker implements TrackEngine {
   private lastExpire = -Infinity;
   private outOfOrder = 0;
   private readonly needsWarmup: boolean;
+  /** Azimuth wraps seen during the warm-up, and at the last settling check. */
+  private wraps = 0;
+  private wrapsChecked = 0;
+  private flushing = false;
+  /** Detections still being collected after the warm-up for lateDecisions (null: none). */
+  private noiseBuf: Detection[] | null = null;
   /** Tracks with detections held back for the next batch (see sweep-deferral.ts). */
   private readonly waiting = new Set<number>();
   /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
@@ -70,7 +76,9 @@ export class Tracker implements TrackEngine {
     this.options = resolveTrackerOptions(options as TrackerOptionsInput);
     this.gamma = gateThreshold(this.options.gate.probability, 2);
     const o = this.options;
-    this.needsWarmup = o.antenna === 'auto' || !(o.intervalS > 0) || o.estimateNoise;
+    // The antenna must be inferred before tracking can start; the noise estimate need not hold
+    // tracking up: it goes on collecting and applies when done (see collectNoise).
+    this.needsWarmup = o.antenna === 'auto' || !(o.intervalS > 0);
     if (!this.needsWarmup) this.start();
   }
 
@@ -87,18 +95,71 @@ export class Tracker implements TrackEngine {
     }
     this.lastTime = d.timeS;
     if (this.warm) {
-      this.warm.push(d);
-      const o = this.options;
-      if (this.warm.length >= o.warmupDetections || d.timeS - this.warm[0].timeS >= o.warmupS) this.start(out);
+      const w = this.warm;
+      if (w.length && d.azimuthRad - w[w.length - 1].azimuthRad < -Math.PI) this.wraps++;
+      w.push(d);
+      if (this.warmupOver(d)) this.start(out);
       return out;
     }
+    if (this.noiseBuf) this.collectNoise(d);
     this.step(d, out);
     return out;
   }
 
+  /**
+   * The warm-up ends once the antenna is settled (antennaSettled: a few revolutions, or a few
+   * seconds of a staring antenna), at the latest after warmupS or warmupDetections. Settling is
+   * checked at each azimuth wrap, or every 256 detections while there is none.
+   */
+  private warmupOver(d: Detection): boolean {
+    const o = this.options;
+    const w = this.warm!;
+    if (w.length >= o.warmupDetections || d.timeS - w[0].timeS >= o.warmupS) return true;
+    const wrapped = this.wraps !== this.wrapsChecked;
+    if (!wrapped && w.length % 256 !== 0) return false;
+    this.wrapsChecked = this.wraps;
+    if (this.wraps > 0 && this.wraps < o.warmupRevolutions + 1) return false;
+    return antennaSettled(w, o.warmupRevolutions, o.warmupRevolutions);
+  }
+
+  /** Collects detections until the full warm-up horizon, then makes the late decisions. */
+  private collectNoise(d: Detection): void {
+    const buf = this.noiseBuf!;
+    buf.push(d);
+    const o = this.options;
+    if (buf.length < o.warmupDetections && d.timeS - buf[0].timeS < o.warmupS) return;
+    this.noiseBuf = null;
+    this.lateDecisions(buf);
+  }
+
+  /**
+   * The decisions that a longer stretch of the run makes better: the noise estimate (when still
+   * pending) and the inferred interval, refined from more revolutions than the warm-up needed.
+   */
+  private lateDecisions(buf: readonly Detection[]): void {
+    const o = this.options;
+    const info = this.info!;
+    if (info.noisePending) decideNoise(info, buf, o);
+    this.meas = { ...o.measurement, sigmaRangeM: info.sigmaRangeM, sigmaAzimuthRad: info.sigmaAzimuthRad };
+    if (info.intervalFrom === 'inferred') {
+      const later = decide(buf, o, true);
+      if (later.antenna === info.antenna && later.intervalFrom === 'inferred') info.intervalS = later.intervalS;
+    }
+  }
+
   flush(): TrackerOutput {
     const out: TrackerOutput = { updates: [], deletions: [] };
-    if (this.warm) this.start(out);
+    if (this.warm) {
+      this.flushing = true;
+      this.start(out);
+      this.flushing = false;
+    }
+    if (this.noiseBuf && this.noiseBuf.length) {
+      // End of the stream before the horizon: decide from what there is.
+      const buf = this.noiseBuf;
+      this.noiseBuf = null;
+      this.lateDecisions(buf);
+    }
     if (this.batch.length) this.closeBatch(out, true);
     return out;
   }
@@ -115,7 +176,11 @@ export class Tracker implements TrackEngine {
   private start(out?: TrackerOutput): void {
     const buf = this.warm ?? [];
     this.warm = null;
-    this.info = decide(buf, this.options);
+    const o = this.options;
+    // Noise from what the warm-up saw if it ran its full length; else later, from more.
+    const full = buf.length >= o.warmupDetections || (buf.length > 0 && buf[buf.length - 1].timeS - buf[0].timeS >= o.warmupS);
+    this.info = decide(buf, o, o.estimateNoise && !full && !this.flushing);
+    if (!full && !this.flushing && (this.info.noisePending || this.info.intervalFrom === 'inferred')) this.noiseBuf = [...buf];
     this.meas = { ...this.options.measurement, sigmaRangeM: this.info.sigmaRangeM, sigmaAzimuthRad: this.info.sigmaAzimuthRad };
     this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
     // A seed may wait out one missed scan, as a one-hit tentative track would under M-of-N.

@@ -244,6 +244,38 @@ describe('tracker end to end on simulated runs', () => {
     }
   });
 
+  it('starts tracking once the antenna is known (a few revolutions), and estimates the noise meanwhile', () => {
+    // Seed 5: a run whose reflectors give the noise estimate enough scan-to-scan pairs.
+    const run = simulateRun({ ...SCENARIOS.turntable, seed: 5, durationS: 30 });
+    const tracker = new Tracker({});
+    let startedAt = NaN;
+    let firstRowAt = NaN;
+    let noiseAt = NaN;
+    for (const d of run.detections) {
+      const out = tracker.push(d);
+      const inf = tracker.inferred();
+      if (inf && Number.isNaN(startedAt)) {
+        startedAt = d.timeS;
+        // Told at once what the antenna is; the noise is still being estimated.
+        expect(inf.antenna).toBe('rotating');
+        expect(inf.intervalS).toBeCloseTo(0.5, 2);
+        expect(inf.noisePending).toBe(true);
+      }
+      if (out.updates.length && Number.isNaN(firstRowAt)) firstRowAt = d.timeS;
+      if (inf && !inf.noisePending && Number.isNaN(noiseAt)) noiseAt = d.timeS;
+    }
+    // Three whole revolutions between azimuth wraps on a 0.5 s antenna: tracking from ~2 s, not 12 s.
+    expect(startedAt).toBeLessThan(2.5);
+    // The arm turns from the start; M-of-N confirmation and the moving test (no track counts as
+    // moving before the map has had its 2 s settle time) take a few scans more.
+    expect(firstRowAt).toBeLessThan(6);
+    // The noise estimate keeps the full 12 s of run, then applies.
+    expect(noiseAt).toBeGreaterThanOrEqual(12);
+    expect(noiseAt).toBeLessThan(13);
+    expect(tracker.inferred()!.noiseFrom).toBe('inferred');
+    expect(tracker.inferred()!.intervalS).toBeCloseTo(0.5, 3);
+  });
+
   it('estimates the measurement noise from a stationary reflector, and says so', () => {
     const { tracker } = track({ ...SCENARIOS['staring-approach'], durationS: 14, sigmaRangeM: 0.03, sigmaAzimuthDeg: 1 });
     const inf = tracker.inferred()!;
