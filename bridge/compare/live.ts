@@ -10,7 +10,8 @@
  *
  * Cost per update: one binary search on the path plus O(1) sums; every `lagEvery` accepted samples
  * the lag is re-estimated over a bounded window (lag.ts), so the amortised cost stays small and
- * memory stays bounded however long the run. rmseM, maxErrorM, alongTrackM and crossTrackM are
+ * memory stays bounded however long the run: positioner samples extend the path, and its head is
+ * dropped once no lookup can reach it (trimPath). rmseM, maxErrorM, alongTrackM and crossTrackM are
  * raw (track at t against command at t): what the operator sees; lagS is reported beside them.
  */
 import type { ComparisonFigures } from '../server/protocol.ts';
@@ -18,7 +19,7 @@ import type { PositionerSample, TrackUpdate } from '../types.ts';
 import { deviationAt } from './deviation.ts';
 import { TrackFollower, type FollowOptions } from './follow.ts';
 import { estimateLag, type LagOptions } from './lag.ts';
-import { makeTimedPath, sampleAt, type PathPoint, type TimedPath } from './timed-path.ts';
+import { makeTimedPath, sampleAt, segmentAt, type PathPoint, type TimedPath } from './timed-path.ts';
 import { rowFromUpdate } from './track-rows.ts';
 
 /** Options of the live comparison. */
@@ -33,6 +34,16 @@ export interface LiveComparisonOptions {
   lagEvery: number;
   /** Updates newer than the commanded path's end wait for it; at most this many are held. */
   maxPending: number;
+  /**
+   * Positioner points no longer needed (older than the lag window and the newest update, less the
+   * largest lag) are dropped once this many have gathered, so the splice cost is amortised.
+   */
+  trimChunk: number;
+  /**
+   * Hard cap on the points kept while the followed track is lost for long (the lag window then
+   * stops moving): the oldest window samples are dropped with the path under them.
+   */
+  maxPathPoints: number;
 }
 
 /** Defaults in one place: 240 samples ≈ a minute at 4 scans/s. */
@@ -43,8 +54,17 @@ export function resolveLiveComparisonOptions(o: Partial<LiveComparisonOptions> =
     lagWindow: o.lagWindow ?? 240,
     lagEvery: o.lagEvery ?? 20,
     maxPending: o.maxPending ?? 64,
+    trimChunk: o.trimChunk ?? 512,
+    // 20 minutes of a 20 Hz positioner.
+    maxPathPoints: o.maxPathPoints ?? 24_000,
   };
 }
+
+/**
+ * Extra history kept behind the horizon, seconds: an update held back by the tracker (sweep
+ * deferral, confirmation) may arrive a little after positioner samples newer than it.
+ */
+const LATE_SLACK_S = 10;
 
 export class LiveComparison {
   private readonly o: LiveComparisonOptions;
@@ -60,6 +80,8 @@ export class LiveComparison {
   private max = 0;
   private last: { timeS: number; along: number | null; cross: number | null } = { timeS: 0, along: null, cross: null };
   private lagS: number | null = null;
+  /** Time of the newest update compared, any track: later ones (time order) never look further back. */
+  private newestS: number | null = null;
 
   constructor(options: Partial<LiveComparisonOptions> = {}) {
     this.o = resolveLiveComparisonOptions(options);
@@ -95,6 +117,12 @@ export class LiveComparison {
     }
     if (!this.path && this.raw.length >= 2) this.path = makeTimedPath(this.raw, 'positioner records');
     this.flushPending();
+    this.trimPath();
+  }
+
+  /** Points of the commanded path currently kept (bounded for positioner-fed runs). */
+  get pathPoints(): number {
+    return this.raw.length;
   }
 
   /** Feed one track update (any track, any status); the figures move when it is the followed one. */
@@ -132,6 +160,33 @@ export class LiveComparison {
     this.max = 0;
     this.last = { timeS: 0, along: null, cross: null };
     this.lagS = null;
+    this.newestS = null;
+  }
+
+  /**
+   * Drop the head of a positioner-fed path that nothing can sample any more. Lookups happen at
+   * t − lag with |lag| ≤ maxLagS for the window samples (lag search) and for new updates (time
+   * order: not older than the newest one seen). Two points are kept before that horizon so the
+   * segment holding it and the backward direction search of a dwell see what they saw before;
+   * cumulativeM is sliced, not recomputed, so arc lengths stay absolute.
+   */
+  private trimPath(): void {
+    const path = this.path;
+    if (!path || this.raw.length < this.o.trimChunk + 3) return;
+    const maxLag = this.o.lag.maxLagS ?? 2;
+    const oldest = Math.min(this.window[0]?.timeS ?? Infinity, this.newestS ?? this.endS());
+    let drop = Math.max(0, segmentAt(path, oldest - maxLag - LATE_SLACK_S) - 2);
+    if (this.raw.length > this.o.maxPathPoints) {
+      const forced = this.raw.length - this.o.maxPathPoints + this.o.trimChunk;
+      if (forced > drop) {
+        drop = forced;
+        const startS = this.raw[drop].timeS;
+        this.window = this.window.filter((w) => w.timeS - maxLag >= startS);
+      }
+    }
+    if (drop < this.o.trimChunk) return;
+    this.raw.splice(0, drop);
+    path.cumulativeM.splice(0, drop);
   }
 
   private endS(): number {
@@ -145,6 +200,7 @@ export class LiveComparison {
   private consume(u: TrackUpdate): void {
     const path = this.path!;
     const row = rowFromUpdate(u);
+    this.newestS = Math.max(this.newestS ?? -Infinity, u.timeS);
     const c = sampleAt(path, u.timeS - (this.lagS ?? 0));
     if (!c.inside || !this.follower.offer(row, c.x, c.y)) return;
     const d = deviationAt(path, row);

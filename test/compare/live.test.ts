@@ -84,3 +84,48 @@ describe('LiveComparison', () => {
     expect(live.figures().samples).toBe(1);
   });
 });
+
+describe('LiveComparison on a long positioner-fed run', () => {
+  // A square of 2 m sides at 0.4 m/s, sampled at 20 Hz; the track follows 0.3 s late with a small
+  // deterministic wobble and reports at 4 Hz.
+  const commandAt = (t: number): { x: number; y: number } => {
+    const s = (t * 0.4) % 8;
+    const leg = Math.floor(s / 2);
+    const f = s - 2 * leg;
+    return [{ x: -1 + f, y: 2 }, { x: 1, y: 2 + f }, { x: 1 - f, y: 4 }, { x: -1, y: 4 - f }][leg];
+  };
+  function feed(live: LiveComparison, seconds: number, trackUntilS = Infinity): void {
+    for (let k = 0; k <= seconds * 20; k++) {
+      const t = k / 20;
+      const c = commandAt(t);
+      live.addPositioner({ timeS: t, cmdX: c.x, cmdY: c.y });
+      if (k % 5 === 0 && t > 1 && t <= trackUntilS) {
+        const p = commandAt(t - 0.3);
+        const row: TrackRow = {
+          timeS: t, id: 1, status: 'confirmed', x: p.x + 0.02 * Math.sin(k), y: p.y + 0.02 * Math.cos(1.3 * k),
+          vx: 0, vy: 0.4, speed: 0.4, headingRad: 0,
+        };
+        live.update(toUpdate(row));
+      }
+    }
+  }
+
+  it('keeps only the tail of the path, with the same figures as keeping all of it', () => {
+    const trimmed = new LiveComparison();
+    const whole = new LiveComparison({ trimChunk: Infinity, maxPathPoints: Infinity });
+    feed(trimmed, 1200);
+    feed(whole, 1200);
+    expect(whole.pathPoints).toBeGreaterThan(20_000);
+    // Lag window (240 samples at 4 Hz = 60 s) + max lag + slack, at 20 Hz, plus one trim chunk.
+    expect(trimmed.pathPoints).toBeLessThan(2_500);
+    expect(trimmed.figures()).toEqual(whole.figures());
+    expect(trimmed.figures().lagS!).toBeCloseTo(0.3, 2);
+  });
+
+  it('stays bounded when the followed track is lost for long', () => {
+    const live = new LiveComparison({ maxPathPoints: 3_000, trimChunk: 256 });
+    feed(live, 600, 60);
+    expect(live.pathPoints).toBeLessThanOrEqual(3_000);
+    expect(live.figures().samples).toBeGreaterThan(0);
+  });
+});
