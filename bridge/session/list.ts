@@ -2,7 +2,8 @@
  * The session list for the dashboard. Cheap on the common path: the header line and the `end`
  * summary a clean close writes at the tail. A session without one (killed, or still being
  * recorded) is scanned once, and later calls read on only from where the last one stopped, so
- * listing while a long run records stays cheap. Results are cached while size and mtime stay.
+ * listing while a long run records stays cheap; the scan yields to the event loop every
+ * SCAN_YIELD_LINES lines. Results are cached while size and mtime stay.
  */
 import { closeSync, openSync, readSync } from 'node:fs';
 import { readdir, stat } from 'node:fs/promises';
@@ -53,8 +54,27 @@ interface Scan {
 }
 const scans = new Map<string, Scan>();
 
-/** Reads the lines added since the last scan of `path` (all of them the first time). */
-function scanOn(path: string, head: string, headBytes: number): Scan {
+/**
+ * Lines parsed between two turns of the event loop: a 150 MB session killed before its summary
+ * is ~750k lines, and serial input and WebSocket traffic must not wait for all of them.
+ */
+export const SCAN_YIELD_LINES = 10_000;
+/** Scans in flight, so two listings of the same file wait for one scan instead of interleaving. */
+const scanning = new Map<string, Promise<Scan>>();
+
+/** Reads the lines added since the last scan of `path` (all of them the first time), yielding as it goes. */
+function scanOn(path: string, head: string, headBytes: number): Promise<Scan> {
+  const prev = scanning.get(path) ?? Promise.resolve(null);
+  const next = prev.catch(() => null).then(() => scanFrom(path, head, headBytes));
+  scanning.set(path, next);
+  const done = (): void => {
+    if (scanning.get(path) === next) scanning.delete(path);
+  };
+  next.then(done, done);
+  return next;
+}
+
+async function scanFrom(path: string, head: string, headBytes: number): Promise<Scan> {
   let sc = scans.get(path);
   if (!sc || sc.head !== head) {
     sc = { head, offset: headBytes, line: 2, durationS: 0, detections: 0, trackIds: new Set(), hasCommanded: false };
@@ -62,16 +82,21 @@ function scanOn(path: string, head: string, headBytes: number): Scan {
   }
   const fd = openSync(path, 'r');
   try {
+    let n = 0;
     for (const raw of new LineReader(fd).lines(sc.offset, sc.line)) {
       sc.offset = raw.offset + raw.bytes + 1;
       sc.line = raw.line + 1;
       const r = parseSessionLine(raw);
-      if (typeof r === 'string') continue;
-      sc.durationS = Math.max(sc.durationS, r.timeS);
-      if ('end' in r) continue;
-      if (r.record.kind === 'detection') sc.detections++;
-      else if (r.record.kind === 'track') sc.trackIds.add(r.record.update.id);
-      else if (r.record.kind === 'commanded') sc.hasCommanded = true;
+      if (typeof r !== 'string') {
+        sc.durationS = Math.max(sc.durationS, r.timeS);
+        if ('end' in r) {
+          /* counted in durationS only */
+        } else if (r.record.kind === 'detection') sc.detections++;
+        else if (r.record.kind === 'track') sc.trackIds.add(r.record.update.id);
+        else if (r.record.kind === 'commanded') sc.hasCommanded = true;
+      }
+      // The counts so far are kept in `sc`, so the scan resumes correctly whoever runs next.
+      if (++n % SCAN_YIELD_LINES === 0) await new Promise((res) => setImmediate(res));
     }
   } finally {
     closeSync(fd);
@@ -103,7 +128,7 @@ export async function sessionInfo(path: string): Promise<SessionInfo | null> {
       scans.delete(path);
     } else {
       // No summary (kill -9, or still recording): count the lines, continuing where the last call stopped.
-      const sc = scanOn(path, head, headBytes + 1);
+      const sc = await scanOn(path, head, headBytes + 1);
       info = { ...base, durationS: sc.durationS, detections: sc.detections, tracks: sc.trackIds.size, hasCommanded: sc.hasCommanded };
     }
   } catch {

@@ -2,7 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { appendFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { findSession, listSessions } from '../../bridge/session/list.ts';
+import { findSession, listSessions, SCAN_YIELD_LINES } from '../../bridge/session/list.ts';
 import { Recorder } from '../../bridge/session/recorder.ts';
 import { openSession } from '../../bridge/session/reader.ts';
 import { sessionInfo as sessionInfoSchema } from '../../bridge/server/protocol.ts';
@@ -78,5 +78,37 @@ describe('listSessions', () => {
     expect(await findSession([a], '../b/x')).toBeNull();
     expect(await findSession([a], '..')).toBeNull();
     expect(await findSession([a], 'nope')).toBeNull();
+  });
+});
+
+describe('listSessions on a long session without summary', () => {
+  it('yields to the event loop while scanning, and caches the result by size and mtime', async () => {
+    const d = join(root, 'long');
+    const n = 6 * SCAN_YIELD_LINES;
+    const r = new Recorder({ dir: d, name: 'long-killed', startUtc: new Date('2026-12-02T05:00:00Z') });
+    r.open();
+    for (let i = 0; i < n; i++) r.record({ kind: 'detection', detection: { timeS: i / 100, azimuthRad: 1, rangeM: 2, amplitude: 3 } });
+    // No closeSync: like kill -9, there is no end line.
+    let turns = 0;
+    let ticking = true;
+    const tick = (): void => {
+      turns++;
+      if (ticking) setImmediate(tick);
+    };
+    setImmediate(tick);
+    const [first, again] = await Promise.all([listSessions(d), listSessions(d)]);
+    const during = turns;
+    ticking = false;
+    expect(first[0]).toMatchObject({ name: 'long-killed', detections: n });
+    expect(again).toEqual(first);
+    // A synchronous scan lets the loop turn only around the stat/readdir calls, not once per chunk.
+    expect(during).toBeGreaterThanOrEqual(5);
+    const before = turns;
+    ticking = true;
+    setImmediate(tick);
+    expect(await listSessions(d)).toEqual(first);
+    // Unchanged size and mtime: served from the cache, no scan turns.
+    expect(turns - before).toBeLessThan(5);
+    ticking = false;
   });
 });
