@@ -376,8 +376,14 @@ export class Pipeline extends EventEmitter {
     return { type: 'hello', protocol: PROTOCOL_VERSION, server: 'echotrail-bridge' };
   }
 
+  /**
+   * The state as a client starting now needs it. Detections waiting in the scan batch are left
+   * out: the next scan brings them to every client, this one included. (Updates need no such
+   * care: clients skip an update not newer than the track's last point.)
+   */
   snapshot(): SnapshotMessage {
     const s = this.state;
+    const pending = this.batch.pendingDetections();
     return {
       type: 'snapshot',
       seq: this.batch.nextSeq,
@@ -385,7 +391,7 @@ export class Pipeline extends EventEmitter {
       source: this.stats.status(),
       tracks: s.tracks(),
       history: s.history(),
-      detections: s.recentDetections(),
+      detections: pending.size ? s.recentDetections().filter((d) => !pending.has(d)) : s.recentDetections(),
       fixedEchoes: s.fixedEchoes,
       commanded: s.commanded,
       replay: this.replayState(),

@@ -38,6 +38,14 @@ export class ScanBatch {
     return this.detections.length + this.updates.length + this.deletions.length + this.positioner.length > 0 || this.antenna !== null;
   }
 
+  /**
+   * The detections the next scan will carry. The live state already holds them, so a snapshot
+   * taken now must leave them out or a new client would get each twice (snapshot, then scan).
+   */
+  pendingDetections(): ReadonlySet<DetectionWire> {
+    return new Set(this.detections);
+  }
+
   /** Sequence number the next scan will carry. */
   get nextSeq(): number {
     return this.seq;

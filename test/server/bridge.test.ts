@@ -66,6 +66,32 @@ describe('startBridge', () => {
     expect((await c2.next('snapshot')).tracks).toEqual([]);
   });
 
+  it('a client connecting mid-stream gets every detection once: snapshot, then scans', async () => {
+    const src = new ScriptedSource();
+    // A slow scan rate keeps detections waiting in the batch whenever the snapshot is taken.
+    const b = await start(src, { scanRateHz: 4 });
+    let t = 0;
+    const det = (timeS: number) => ({ kind: 'detection' as const, detection: { timeS, azimuthRad: 0.5, rangeM: 3, amplitude: 10 } });
+    const feeder = setInterval(() => src.emitRecord(det((t += 0.01))), 2);
+    // Mid-stream: a few scans have left before the client comes.
+    await new Promise<void>((resolve) => {
+      const wait = setInterval(() => t > 0.5 && (clearInterval(wait), resolve()), 5);
+    });
+    const c = await connect(b.wsUrl);
+    const snap = await c.next('snapshot');
+    await c.next('scan', (s) => s.detections.length > 0);
+    await c.next('scan', (s) => s.detections.length > 0, c.messages.length);
+    clearInterval(feeder);
+    src.emitRecord(det(999));
+    await c.next('scan', (s) => s.detections.some((d) => d.timeS === 999));
+    const times = [...snap.detections, ...c.of('scan').flatMap((s) => s.detections)].map((d) => d.timeS);
+    expect(snap.detections.length).toBeGreaterThan(0);
+    expect(times.length - new Set(times).size).toBe(0);
+    // Nothing lost either: from the snapshot's first detection on, every one emitted arrived.
+    const first = Math.round(Math.min(...times) * 100);
+    expect(new Set(times).size).toBe(Math.round(t * 100) - first + 2);
+  });
+
   it('passes replay controls to the source and answers with the replay state', async () => {
     const src = new ScriptedSource();
     const b = await start(src);
