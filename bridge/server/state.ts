@@ -47,6 +47,17 @@ export function toDetectionWire(d: Detection): DetectionWire {
 /** Positioner-derived commanded points closer in time than this are not kept (bounded path). */
 const COMMANDED_MIN_DT_S = 0.05;
 
+/** Points at least `stepS` apart in time (a time that goes back starts again from there). */
+function thinToStep(path: PathPointWire[], stepS: number): PathPointWire[] {
+  const out: PathPointWire[] = [];
+  for (const p of path) {
+    const last = out[out.length - 1];
+    if (last && p.timeS - last.timeS < stepS && p.timeS >= last.timeS) continue;
+    out.push(p);
+  }
+  return out;
+}
+
 export class LiveState {
   readonly options: LiveStateOptions;
   timeS = 0;
@@ -58,6 +69,8 @@ export class LiveState {
   private commandedPath: PathPointWire[] = [];
   /** True once the source sent a whole commanded path: positioner samples then no longer extend it. */
   private commandedExplicit = false;
+  /** Least time between kept positioner points; doubled each time the path hits its cap. */
+  private commandedStepS = COMMANDED_MIN_DT_S;
 
   constructor(options: Partial<LiveStateOptions> = {}) {
     this.options = resolveLiveStateOptions(options);
@@ -77,6 +90,7 @@ export class LiveState {
   clearCommanded(): void {
     this.commandedPath = [];
     this.commandedExplicit = false;
+    this.commandedStepS = COMMANDED_MIN_DT_S;
   }
 
   private advance(t: number): void {
@@ -125,10 +139,15 @@ export class LiveState {
     this.advance(p.timeS);
     if (this.commandedExplicit) return;
     const last = this.commandedPath[this.commandedPath.length - 1];
-    if (last && p.timeS - last.timeS < COMMANDED_MIN_DT_S && p.timeS >= last.timeS) return;
+    if (last && p.timeS - last.timeS < this.commandedStepS && p.timeS >= last.timeS) return;
     this.commandedPath.push({ timeS: p.timeS, x: p.cmdX, y: p.cmdY });
-    // Halve the resolution rather than forget the start of the path.
-    if (this.commandedPath.length > this.options.maxCommandedPoints) this.commandedPath = this.commandedPath.filter((_, i) => i % 2 === 0);
+    if (this.commandedPath.length > this.options.maxCommandedPoints) {
+      // Coarser everywhere rather than forget the start: the step doubles and the whole path is
+      // thinned to it once, so old and new parts keep the same resolution (dropping every other
+      // point instead would thin the start again at each overflow).
+      this.commandedStepS *= 2;
+      this.commandedPath = thinToStep(this.commandedPath, this.commandedStepS);
+    }
   }
 
   setCommanded(path: PathPointWire[]): void {

@@ -63,4 +63,18 @@ describe('LiveState', () => {
     s.clearCommanded();
     expect(s.commanded).toEqual([]);
   });
+
+  it('keeps the positioner path evenly spaced over a long run, start included', () => {
+    const s = new LiveState({ maxCommandedPoints: 100 });
+    // An hour at 20 Hz: the path hits its cap many times.
+    for (let i = 0; i < 72_000; i++) s.addPositioner({ timeS: i / 20, cmdX: i, cmdY: 0 });
+    const c = s.commanded;
+    expect(c.length).toBeLessThanOrEqual(100);
+    expect(c[0].timeS).toBe(0);
+    const gaps = c.slice(1).map((p, i) => p.timeS - c[i].timeS);
+    // Even resolution: the widest gap (the start, if it was thinned repeatedly) within twice the narrowest.
+    expect(Math.max(...gaps)).toBeLessThanOrEqual(2 * Math.min(...gaps) + 1e-9);
+    const firstHalf = c.filter((p) => p.timeS < 1800).length;
+    expect(Math.abs(firstHalf - (c.length - firstHalf))).toBeLessThanOrEqual(c.length * 0.2);
+  });
 });
