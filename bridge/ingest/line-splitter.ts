@@ -52,12 +52,16 @@ export class LineSplitter {
     return out;
   }
 
-  /** Bytes of an unfinished line, then forgets them (the device went away mid-line). */
-  reset(): number {
+  /**
+   * Forgets an unfinished line (the device went away mid-line) and returns its number and byte
+   * count, or null when there was none. The cut-off line takes its number, so the next complete
+   * line does not repeat it in the refused-line reports.
+   */
+  reset(): { line: number; bytes: number } | null {
     const n = this.size;
     this.parts = [];
     this.size = 0;
     this.skipping = false;
-    return n;
+    return n > 0 ? { line: ++this.lineNo, bytes: n } : null;
   }
 }

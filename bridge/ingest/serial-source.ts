@@ -110,8 +110,11 @@ export class SerialSource extends EventEmitter implements Source {
   private onClose(port: SerialPort, err?: Error & { disconnected?: boolean }): void {
     if (this.port !== port) return;
     this.port = null;
-    const partial = this.splitter.reset();
-    if (partial > 0) this.refuse({ line: this.counters.lines + 1, reason: `line cut off after ${partial} bytes when the port closed`, text: '' });
+    const cut = this.splitter.reset();
+    if (cut) {
+      this.counters.lines = cut.line;
+      this.refuse({ line: cut.line, reason: `line cut off after ${cut.bytes} bytes when the port closed`, text: '' });
+    }
     if (this.stopped) return;
     const why = err?.disconnected ? 'device disconnected' : `port closed${err ? `: ${err.message}` : ''}`;
     this.setState('waiting', `${why}; waiting for ${this.options.path} to return`);

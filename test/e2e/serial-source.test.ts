@@ -104,6 +104,9 @@ describe.skipIf(!haveSocat)('SerialSource over a socat pty pair', () => {
   });
 
   it('reports waiting when socat dies and recovers by itself when it returns', async () => {
+    // Half a line in flight when the device goes: refused as cut off, with a number of its own.
+    send('det 9.0 half');
+    await waitFor(() => (source as unknown as { splitter: { size: number } }).splitter.size > 0, 'the half line to be read');
     await killSocat();
     await waitFor(() => source.state === 'waiting', "state 'waiting'");
     expect(existsSync(a)).toBe(false);
@@ -111,6 +114,12 @@ describe.skipIf(!haveSocat)('SerialSource over a socat pty pair', () => {
     await startSocat();
     await waitFor(() => source.state === 'live', "state 'live' again");
     expect(source.stats().opens).toBe(opensBefore + 1);
+    const nb = bad.length;
+    send('not a record\n');
+    await waitFor(() => bad.length > nb, 'a bad line after the reopen');
+    expect(bad.some((x) => /cut off after 12 bytes/.test(x.reason))).toBe(true);
+    const numbers = bad.map((x) => x.line);
+    expect(new Set(numbers).size).toBe(numbers.length);
     const n = records.length;
     send(encodeLine({ kind: 'antenna', sample: { timeS: 9, azimuthRad: 1 } }) + '\n');
     await waitFor(() => records.length > n, 'a record after the reopen');

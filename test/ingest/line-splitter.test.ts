@@ -34,11 +34,14 @@ describe('LineSplitter', () => {
     expect([...l.text].map((c) => c.charCodeAt(0))).toEqual([0x61, 0xff, 0x00]);
   });
 
-  it('reset() reports and forgets an unfinished line', () => {
+  it('reset() reports and forgets an unfinished line, which keeps its own number', () => {
     const s = new LineSplitter(64);
-    s.push(b('half a li'));
-    expect(s.reset()).toBe(9);
-    expect(s.push(b('ne\n'))).toEqual([{ line: 1, text: 'ne' }]);
+    expect(s.push(b('first\nhalf a li'))).toEqual([{ line: 1, text: 'first' }]);
+    expect(s.reset()).toEqual({ line: 2, bytes: 9 });
+    expect(s.push(b('ne\n'))).toEqual([{ line: 3, text: 'ne' }]);
+    // Nothing unfinished: no line is consumed.
+    expect(s.reset()).toBeNull();
+    expect(s.push(b('next\n'))).toEqual([{ line: 4, text: 'next' }]);
   });
 });
 
