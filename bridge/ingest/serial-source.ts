@@ -27,6 +27,9 @@ export interface SerialCounters {
   opens: number;
 }
 
+/** Distinct port errors reported per state before the rest are only counted. */
+const MAX_ERROR_NOTES = 3;
+
 export class SerialSource extends EventEmitter implements Source {
   readonly kind = 'serial' as const;
   readonly carriesTracks = false;
@@ -39,6 +42,8 @@ export class SerialSource extends EventEmitter implements Source {
   private retryTimer: NodeJS.Timeout | null = null;
   private backoffMs: number;
   private readonly counters: SerialCounters = { lines: 0, badLines: 0, lastBad: null, opens: 0 };
+  /** Port errors reported in the current state, and those held back (repeats, or over the cap). */
+  private errors = { reported: new Set<string>(), held: 0 };
 
   constructor(options: Partial<SerialSourceOptions> & { path: string }) {
     super();
@@ -77,14 +82,32 @@ export class SerialSource extends EventEmitter implements Source {
   private setState(s: SourceState, detail?: string): void {
     if (s === this.current) return;
     this.current = s;
-    this.emit('state', s, detail);
+    const held = this.errors.held;
+    this.errors = { reported: new Set(), held: 0 };
+    const note = held ? `${held} more serial error(s) not shown` : '';
+    this.emit('state', s, detail && note ? `${detail}; ${note}` : detail || note || undefined);
+  }
+
+  /**
+   * A flapping adapter can raise the same error many times a second without the state changing:
+   * each distinct message is reported once per state (at most MAX_ERROR_NOTES of them), the rest
+   * are counted and mentioned with the next state change.
+   */
+  private onPortError(err: Error): void {
+    const e = this.errors;
+    if (e.reported.has(err.message) || e.reported.size >= MAX_ERROR_NOTES) {
+      e.held++;
+      return;
+    }
+    e.reported.add(err.message);
+    this.emit('state', this.current, `serial error: ${err.message}`);
   }
 
   private tryOpen(): Promise<void> {
     const o = this.options;
     const port = new SerialPort({ path: o.path, baudRate: o.baudRate, dataBits: o.dataBits, parity: o.parity, stopBits: o.stopBits, autoOpen: false });
     // Listen before opening: an 'error' without a listener would crash the bridge.
-    port.on('error', (err: Error) => this.emit('state', this.current, `serial error: ${err.message}`));
+    port.on('error', (err: Error) => this.onPortError(err));
     return new Promise((resolve) => {
       port.open((err) => {
         if (this.stopped) {
