@@ -68,7 +68,10 @@ const measurement = z.object({ timeS: finite, x: finite, y: finite, rxx: finite,
 
 export const sessionLine = z.discriminatedUnion('k', [
   z.object({
-    k: z.literal('det'), timeS: finite, azimuthRad: finite, rangeM: finite, amplitude: finite,
+    // Same bounds as the line protocol and the detections CSV: a range is never negative and an
+    // echo has a positive amplitude.
+    k: z.literal('det'), timeS: finite, azimuthRad: finite,
+    rangeM: finite.min(0, 'range must not be negative'), amplitude: finite.positive('amplitude must be positive'),
     phaseRad: finite.optional(), line: z.number().int().optional(),
   }),
   z.object({ k: z.literal('ant'), timeS: finite, azimuthRad: finite }),

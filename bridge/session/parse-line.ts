@@ -14,11 +14,12 @@ type Parsed = TimedRecord | { end: SessionSummary; timeS: number } | string;
 
 const DET_KEYS = new Set(['k', 'timeS', 'azimuthRad', 'rangeM', 'amplitude', 'phaseRad', 'line']);
 
-/** A `det` line by hand: required finite numbers, optional phase and integer line number. */
+/** A `det` line by hand: required finite numbers (range ≥ 0, amplitude > 0), optional phase and integer line number. */
 function detection(o: Record<string, unknown>, raw: RawLine): Parsed | null {
   for (const key of ['timeS', 'azimuthRad', 'rangeM', 'amplitude'] as const) {
     if (typeof o[key] !== 'number' || !Number.isFinite(o[key])) return null; // let zod word the reason
   }
+  if ((o.rangeM as number) < 0 || (o.amplitude as number) <= 0) return null; // out of bounds: zod words it
   if (o.phaseRad !== undefined && (typeof o.phaseRad !== 'number' || !Number.isFinite(o.phaseRad))) return null;
   if (o.line !== undefined && !Number.isInteger(o.line)) return null;
   for (const key in o) if (!DET_KEYS.has(key)) return null; // unknown keys: zod strips them, take its path

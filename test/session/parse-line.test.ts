@@ -17,6 +17,11 @@ const cases: unknown[] = [
   { ...base, phaseRad: 'x' },
   { ...base, extra: 1 },
   { k: 'det' },
+  // Bounds of the line protocol and the detections CSV.
+  { ...base, rangeM: -0.5 },
+  { ...base, rangeM: 0 },
+  { ...base, amplitude: 0 },
+  { ...base, amplitude: -3 },
   { ...base, k: 'ant' },
 ];
 
@@ -33,6 +38,11 @@ describe('parseSessionLine', () => {
       }
     });
   }
+
+  it('refuses a negative range or a non-positive amplitude', () => {
+    expect(parseSessionLine(raw({ ...base, rangeM: -0.5 }))).toBe('rangeM: range must not be negative');
+    expect(parseSessionLine(raw({ ...base, amplitude: 0 }))).toBe('amplitude: amplitude must be positive');
+  });
 
   it('refuses broken JSON and oversized lines with a reason', () => {
     expect(parseSessionLine({ text: '{"k":', offset: 0, line: 3, bytes: 5 })).toBe('not valid JSON');

@@ -64,6 +64,17 @@ describe('openSession', () => {
     s.close();
   });
 
+  it('counts detections out of bounds (negative range, zero amplitude) as bad lines, never fatal', async () => {
+    const det = (t: number, rangeM: number, amplitude: number): SourceRecord => ({ kind: 'detection', detection: { timeS: t, azimuthRad: 0.2, rangeM, amplitude } });
+    const path = record('det-bounds', [det(0.1, 3, 9), det(0.2, -1, 9), det(0.3, 3, 0), det(0.4, 0, 1)]);
+    const s = await openSession(path);
+    expect(s.badLines.map((b) => b.line)).toEqual([3, 4]);
+    expect(s.badLines[0].reason).toMatch(/range/);
+    expect(s.badLines[1].reason).toMatch(/amplitude/);
+    expect(s.detections).toBe(2);
+    s.close();
+  });
+
   it('ignores and reports a truncated last line (writer killed mid-line)', async () => {
     const path = record('cut', sample, false);
     appendFileSync(path, '{"k":"det","timeS":0.4,"azim');
