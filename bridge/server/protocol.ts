@@ -138,8 +138,12 @@ export const serverMessage = z.discriminatedUnion('type', [
     timeS: finite,
     source: sourceStatus,
     tracks: z.array(trackWire),
-    /** Recent history per track: flat [t0, x0, y0, t1, x1, y1, ...] for compactness. */
-    history: z.array(z.object({ id: z.number().int(), points: z.array(finite) })),
+    /**
+     * Recent history per track: flat [t0, x0, y0, t1, x1, y1, ...] for compactness. `kinematics`
+     * (optional, added within protocol 1) runs parallel: [speed0, heading0, speed1, heading1, ...],
+     * the filter's speed (m/s) and heading (rad) at each point.
+     */
+    history: z.array(z.object({ id: z.number().int(), points: z.array(finite), kinematics: z.array(finite).optional() })),
     detections: z.array(detectionWire),
     fixedEchoes: z.array(fixedEchoWire),
     commanded: z.array(pathPointWire),

@@ -64,7 +64,8 @@ export class LiveState {
   antennaAzimuthRad: number | null = null;
   fixedEchoes: FixedEcho[] = [];
   private readonly trackMap = new Map<number, TrackWire>();
-  private readonly historyMap = new Map<number, Ring<[number, number, number]>>();
+  /** Per track: [t, x, y, speed, heading] of each update, the filter's own speed and heading included. */
+  private readonly historyMap = new Map<number, Ring<[number, number, number, number, number]>>();
   private readonly detections: Ring<DetectionWire>;
   private commandedPath: PathPointWire[] = [];
   /** True once the source sent a whole commanded path: positioner samples then no longer extend it. */
@@ -117,7 +118,7 @@ export class LiveState {
       ring = new Ring(this.options.historyPoints);
       this.historyMap.set(u.id, ring);
     }
-    ring.push([u.timeS, u.x, u.y]);
+    ring.push([u.timeS, u.x, u.y, u.speed, u.headingRad]);
     while (this.trackMap.size > this.options.maxTracks) {
       const oldest = this.trackMap.keys().next().value as number;
       this.removeTrack(oldest);
@@ -164,9 +165,26 @@ export class LiveState {
     return [...this.trackMap.values()];
   }
 
-  history(): { id: number; points: number[] }[] {
-    const out: { id: number; points: number[] }[] = [];
-    for (const [id, ring] of this.historyMap) out.push({ id, points: ring.toArray().flat() });
+  /**
+   * Flat history per track: `points` [t, x, y, ...] and, parallel to it, `kinematics`
+   * [speed, heading, ...] as the filter gave them, so a client restarting from a snapshot shows
+   * the same speed and heading as live updates instead of differencing positions.
+   */
+  history(): { id: number; points: number[]; kinematics: number[] }[] {
+    const out: { id: number; points: number[]; kinematics: number[] }[] = [];
+    for (const [id, ring] of this.historyMap) {
+      const rows = ring.toArray();
+      const points = new Array<number>(rows.length * 3);
+      const kinematics = new Array<number>(rows.length * 2);
+      rows.forEach(([t, x, y, speed, heading], i) => {
+        points[3 * i] = t;
+        points[3 * i + 1] = x;
+        points[3 * i + 2] = y;
+        kinematics[2 * i] = speed;
+        kinematics[2 * i + 1] = heading;
+      });
+      out.push({ id, points, kinematics });
+    }
     return out;
   }
 

@@ -38,7 +38,7 @@ describe('startBridge', () => {
     const snap = await c.next('snapshot');
     expect(c.messages[0]).toMatchObject({ type: 'hello', protocol: 1 });
     expect(snap.tracks.map((t) => t.id)).toEqual([7]);
-    expect(snap.history).toEqual([{ id: 7, points: [1.0, 1, 2] }]);
+    expect(snap.history).toEqual([{ id: 7, points: [1.0, 1, 2], kinematics: [0.5, Math.PI / 2] }]);
     expect(snap.commanded).toHaveLength(2);
     expect(snap.replay).toMatchObject({ sessionId: 'scripted' });
     expect(c.invalid).toEqual([]);

@@ -62,6 +62,11 @@ describe('replay of a recorded session', () => {
     const pts = snap.history[0].points;
     expect(pts.length % 3).toBe(0);
     expect(pts[pts.length - 3]).toBeCloseTo(5, 6);
+    // The filter's speed and heading ride along, one pair per point, as live updates carry them.
+    const kin = snap.history[0].kinematics!;
+    expect(kin.length).toBe((pts.length / 3) * 2);
+    expect(kin[kin.length - 2]).toBeCloseTo(snap.tracks[0].speed, 9);
+    expect(kin[kin.length - 1]).toBeCloseTo(snap.tracks[0].headingRad, 9);
     // The re-sent state is in the snapshot, not streamed again as increments.
     expect(c.of('scan').flatMap((s) => s.updates)).toEqual([]);
   });

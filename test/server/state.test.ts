@@ -20,13 +20,24 @@ describe('LiveState', () => {
     const s = new LiveState({ historyPoints: 3 });
     for (let i = 0; i < 10; i++) s.addUpdate(trackAt(1, i, i, 0));
     s.addUpdate(trackAt(2, 10, 5, 5));
+    const k = [0.5, Math.PI / 2];
     expect(s.history()).toEqual([
-      { id: 1, points: [7, 7, 0, 8, 8, 0, 9, 9, 0] },
-      { id: 2, points: [10, 5, 5] },
+      { id: 1, points: [7, 7, 0, 8, 8, 0, 9, 9, 0], kinematics: [...k, ...k, ...k] },
+      { id: 2, points: [10, 5, 5], kinematics: k },
     ]);
     s.addDeletion({ timeS: 11, id: 1, reason: 'misses' });
     expect(s.tracks().map((t) => t.id)).toEqual([2]);
     expect(s.history().map((h) => h.id)).toEqual([2]);
+  });
+
+  it("carries the filter's speed and heading beside each history point", () => {
+    const s = new LiveState();
+    s.addUpdate({ ...trackAt(4, 1, 0, 1), speed: 0.3, headingRad: 1.1 });
+    s.addUpdate({ ...trackAt(4, 2, 0.3, 1), speed: 0.35, headingRad: 1.2 });
+    const [h] = s.history();
+    expect(h.points).toEqual([1, 0, 1, 2, 0.3, 1]);
+    expect(h.kinematics).toEqual([0.3, 1.1, 0.35, 1.2]);
+    expect(h.kinematics.length / 2).toBe(h.points.length / 3);
   });
 
   it('evicts the least recently updated track beyond maxTracks', () => {
