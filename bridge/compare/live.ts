@@ -80,6 +80,8 @@ export class LiveComparison {
   private max = 0;
   private last: { timeS: number; along: number | null; cross: number | null } = { timeS: 0, along: null, cross: null };
   private lagS: number | null = null;
+  /** True when the path is made of positioner samples (no whole path given): a reset then forgets it. */
+  private fromPositioner = false;
   /** Time of the newest update compared, any track: later ones (time order) never look further back. */
   private newestS: number | null = null;
 
@@ -98,6 +100,7 @@ export class LiveComparison {
     // Own copies: positioner samples appended later extend this path in place.
     this.path = makeTimedPath(pts.map((p) => ({ ...p })), 'commanded path');
     this.raw = this.path.points;
+    this.fromPositioner = false;
     this.flushPending();
   }
 
@@ -115,7 +118,10 @@ export class LiveComparison {
         this.path.cumulativeM.push(this.path.cumulativeM[k - 1] + Math.hypot(s.cmdX - this.raw[k - 1].x, s.cmdY - this.raw[k - 1].y));
       }
     }
-    if (!this.path && this.raw.length >= 2) this.path = makeTimedPath(this.raw, 'positioner records');
+    if (!this.path && this.raw.length >= 2) {
+      this.path = makeTimedPath(this.raw, 'positioner records');
+      this.fromPositioner = true;
+    }
     this.flushPending();
     this.trimPath();
   }
@@ -149,8 +155,18 @@ export class LiveComparison {
     };
   }
 
-  /** Forget the figures, the followed track and pending updates; keep the commanded path. */
+  /**
+   * Forget the figures, the followed track and pending updates; keep a commanded path given whole.
+   * A path built from positioner samples is forgotten too: only its recent tail is kept
+   * (trimPath), so after a seek back it would not cover the new position; the samples that
+   * follow the seek build it again.
+   */
   reset(): void {
+    if (this.fromPositioner || !this.path) {
+      this.path = null;
+      this.raw = [];
+      this.fromPositioner = false;
+    }
     this.follower = new TrackFollower(this.o.follow);
     this.pending = [];
     this.window = [];

@@ -122,6 +122,17 @@ describe('LiveComparison on a long positioner-fed run', () => {
     expect(trimmed.figures().lagS!).toBeCloseTo(0.3, 2);
   });
 
+  it('after a reset (seek back in a replay) compares again as a fresh run would', () => {
+    const seeked = new LiveComparison();
+    feed(seeked, 300);
+    seeked.reset();
+    feed(seeked, 120);
+    const fresh = new LiveComparison();
+    feed(fresh, 120);
+    expect(seeked.figures().samples).toBeGreaterThan(0);
+    expect(seeked.figures()).toEqual(fresh.figures());
+  });
+
   it('stays bounded when the followed track is lost for long', () => {
     const live = new LiveComparison({ maxPathPoints: 3_000, trimChunk: 256 });
     feed(live, 600, 60);
