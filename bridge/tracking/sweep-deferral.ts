@@ -6,9 +6,9 @@
  * sweep not yet seen (two targets crossing: the beam reaches one just before the other). So every
  * cluster of gated pairs (tracks and detections linked by gates) that holds a track whose gate
  * still lies ahead of the beam waits, whole, for the next batch; global nearest neighbour then
- * sees the cluster complete, as it did when a batch was a whole revolution. Only established
- * tracks (confirmed, coasting) count, and clusters of one track do not wait (see heldBack):
- * tentative tracks take what the established ones leave, whenever that is settled.
+ * sees the cluster complete, as it did when a batch was a whole revolution. Only contested
+ * clusters wait (see heldBack): a lone established track takes a detection its likely model
+ * expects at once, so most updates leave with their own detection.
  */
 import type { GatedPair } from './assignment.ts';
 import type { Track } from './track-life.ts';
@@ -25,40 +25,50 @@ function wrap(a: number): number {
 }
 
 /**
- * True when the gate of `t` (radius √(γ·(λmax(P) + λmax(R)))) reaches azimuths clockwise of
- * `beamAz`, the azimuth the beam has reached at `nowS`.
+ * Run time at which the beam will have swept past the gate of `t` (radius
+ * √(γ·(λmax(P) + λmax(R)))), given that it points at `beamAz` at `nowS` and turns once per
+ * `periodS`; `nowS` when it already has, Infinity when the antenna is inside the gate.
  */
-export function gateAhead(t: Track, nowS: number, beamAz: number, gamma: number): boolean {
+export function gateSweptS(t: Track, nowS: number, beamAz: number, gamma: number, periodS: number): number {
   const p = t.filter.peek(Math.max(nowS, t.filter.timeS));
   const radius = Math.sqrt(gamma * (lambdaMax(p.pxx, p.pxy, p.pyy) + t.lastRMax));
   const r = Math.hypot(p.x, p.y);
-  if (r <= radius) return true;
-  return wrap(Math.atan2(p.x, p.y) + Math.asin(radius / r) - beamAz) > 0;
+  if (r <= radius) return Infinity;
+  const ahead = wrap(Math.atan2(p.x, p.y) + Math.asin(radius / r) - beamAz);
+  return ahead > 0 ? nowS + (ahead / TWO_PI) * periodS : nowS;
 }
 
 /**
- * Marks (1) the detections to hold back: those in a cluster of `pairs` (of established tracks)
- * with two tracks or more, one of whose gates is
- * ahead of the beam. Detections older than `maxWaitS` at `nowS` are never held back (a gate
- * wider than the sweep it waits for, close to the antenna, must not hold its cluster for ever),
- * and neither is the rest of their cluster.
+ * Release time of each detection to hold back (NaN: decide now): the detections of a contested
+ * cluster of `pairs` (two tracks or more, a tentative track, or a pair only a manoeuvre model
+ * admits; see the module comment) with a gate the beam has not swept past yet, or with a track
+ * already waiting (`waiting`: track → its cluster's release time). A cluster is released when
+ * the beam has passed all its gates, but no later than `maxWaitS` after its oldest detection.
  */
 export function heldBack(
   pairs: readonly GatedPair[],
   detTimes: ArrayLike<number>,
   live: ReadonlyMap<number, Track>,
+  waiting: ReadonlyMap<number, number>,
   nowS: number,
   beamAz: number,
   gamma: number,
+  periodS: number,
   maxWaitS: number,
-): Uint8Array {
-  const held = new Uint8Array(detTimes.length);
-  if (pairs.length === 0) return held;
+): Float64Array {
+  const release = new Float64Array(detTimes.length).fill(NaN);
+  if (pairs.length === 0) return release;
   // Union-find over nodes: tracks as 2·id, detections as 2·j + 1.
   const parent = new Map<number, number>();
   const find = (a: number): number => {
     let r = a;
     for (let p = parent.get(r); p !== undefined && p !== r; p = parent.get(r)) r = p;
+    // Path compression: later look-ups of the same nodes are one step.
+    for (let c = a; c !== r; ) {
+      const n = parent.get(c)!;
+      parent.set(c, r);
+      c = n;
+    }
     return r;
   };
   for (const p of pairs) {
@@ -70,41 +80,36 @@ export function heldBack(
     const rb = find(b);
     if (ra !== rb) parent.set(ra, rb);
   }
-  // A cluster waits when one of its tracks looks ahead, unless one of its detections is too old.
-  const ahead = new Map<number, boolean>();
-  const aheadRoot = new Set<number>();
-  const oldRoot = new Set<number>();
-  for (const p of pairs) {
-    const root = find(2 * p.track);
-    if (nowS - detTimes[p.det] > maxWaitS) oldRoot.add(root);
-    if (aheadRoot.has(root)) continue;
-    let a = ahead.get(p.track);
-    if (a === undefined) {
-      a = gateAhead(live.get(p.track)!, nowS, beamAz, gamma);
-      ahead.set(p.track, a);
-    }
-    if (a) aheadRoot.add(root);
-  }
-  // Only clusters of two tracks or more: a track alone takes the best detection it has seen so
-  // far at once (waiting for the beam would hold the last target before an empty sector of the
-  // room until the next detection arrives, up to a revolution later).
   const firstTrack = new Map<number, number>();
-  const shared = new Set<number>();
+  const contested = new Set<number>();
+  const swept = new Map<number, number>();
+  const oldest = new Map<number, number>();
+  const sweptOf = new Map<number, number>();
   for (const p of pairs) {
     const root = find(2 * p.track);
+    const t = live.get(p.track)!;
     const f = firstTrack.get(root);
     if (f === undefined) firstTrack.set(root, p.track);
-    else if (f !== p.track) shared.add(root);
+    else if (f !== p.track) contested.add(root);
     // A tentative track has not learned its velocity: its wide gate may yet reach the detection
-    // that continues it, later in the sweep.
-    if (live.get(p.track)!.status === 'tentative') shared.add(root);
-    // Nor is a detection that only the manoeuvre model admits convincing: the detection the
-    // track expects may come a few degrees later.
-    if (p.unlikely) shared.add(root);
+    // that continues it, later in the sweep. Nor is a detection that only the manoeuvre model
+    // admits convincing: the detection the track expects may come a few degrees later.
+    if (t.status === 'tentative' || p.unlikely) contested.add(root);
+    const w = waiting.get(p.track);
+    if (w !== undefined) contested.add(root);
+    let s = sweptOf.get(p.track);
+    if (s === undefined) {
+      s = w ?? gateSweptS(t, nowS, beamAz, gamma, periodS);
+      sweptOf.set(p.track, s);
+    }
+    swept.set(root, Math.max(swept.get(root) ?? -Infinity, s));
+    oldest.set(root, Math.min(oldest.get(root) ?? Infinity, detTimes[p.det]));
   }
   for (const p of pairs) {
     const root = find(2 * p.track);
-    if (shared.has(root) && aheadRoot.has(root) && !oldRoot.has(root)) held[p.det] = 1;
+    if (!contested.has(root)) continue;
+    const r = Math.min(swept.get(root)!, oldest.get(root)! + maxWaitS);
+    if (r > nowS) release[p.det] = r;
   }
-  return held;
+  return release;
 }

@@ -43,6 +43,12 @@ const MIN_GAP_REVOLUTIONS = 0.5;
  */
 const MAX_WAIT_REVOLUTIONS = 0.5;
 
+/** A detection held back until the beam has swept past its cluster's gates. */
+interface PoolEntry {
+  d: Detection;
+  releaseS: number;
+}
+
 export class Tracker implements TrackEngine {
   readonly options: TrackerOptions;
   private readonly gamma: number;
@@ -67,8 +73,10 @@ export class Tracker implements TrackEngine {
   private flushing = false;
   /** Detections still being collected after the warm-up for lateDecisions (null: none). */
   private noiseBuf: Detection[] | null = null;
-  /** Tracks with detections held back for the next batch (see sweep-deferral.ts). */
-  private readonly waiting = new Set<number>();
+  /** Tracks with detections held back (see sweep-deferral.ts) → when their cluster is released, s. */
+  private readonly waiting = new Map<number, number>();
+  /** Detections held back, with their release times. */
+  private pool: PoolEntry[] = [];
   /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
   private minGapS = 0;
 
@@ -160,7 +168,11 @@ export class Tracker implements TrackEngine {
       this.noiseBuf = null;
       this.lateDecisions(buf);
     }
-    if (this.batch.length) this.closeBatch(out, true);
+    const rest = [...this.pool.map((e) => e.d), ...this.batch].sort((a, b) => a.timeS - b.timeS);
+    this.pool = [];
+    this.batch = [];
+    this.waiting.clear();
+    if (rest.length) this.closeBatch(out, rest, true);
     return out;
   }
 
@@ -192,23 +204,36 @@ export class Tracker implements TrackEngine {
 
   private step(d: Detection, out: TrackerOutput): void {
     if (this.info!.batchS === 0) {
-      // Every detection at once; clusters the beam has not finished with wait (closeBatch).
-      this.batch.push(d);
-      this.closeBatch(out, false);
+      // Every detection at once, with the held ones whose time has come (see closeBatch).
+      const now = d.timeS;
+      const due: Detection[] = [];
+      if (this.pool.length) {
+        const keep: PoolEntry[] = [];
+        for (const e of this.pool) {
+          if (e.releaseS <= now) due.push(e.d);
+          else keep.push(e);
+        }
+        this.pool = keep;
+        for (const [id, r] of this.waiting) if (r <= now) this.waiting.delete(id);
+      }
+      due.push(d);
+      this.closeBatch(out, due, false);
       return;
     }
-    if (this.batch.length && d.timeS - this.batchStart > this.info!.batchS) this.closeBatch(out, false);
+    if (this.batch.length && d.timeS - this.batchStart > this.info!.batchS) {
+      const dets = this.batch;
+      this.batch = [];
+      this.closeBatch(out, dets, false);
+    }
     if (this.batch.length === 0) this.batchStart = d.timeS;
     this.batch.push(d);
   }
 
   /**
-   * Assigns the batch. Unless `final`, on a rotating antenna the clusters whose gates still reach
-   * ahead of the beam stay in the batch for the next round (see sweep-deferral.ts).
+   * Assigns a batch. Unless `final`, on a rotating antenna the contested clusters whose gates the
+   * beam has not swept past yet are held in the pool until it has (see sweep-deferral.ts).
    */
-  private closeBatch(out: TrackerOutput, final = true): void {
-    const dets = this.batch;
-    this.batch = [];
+  private closeBatch(out: TrackerOutput, dets: Detection[], final = true): void {
     const o = this.options;
     const gamma = this.gamma;
     const ms: Measurement[] = dets.map((d) => toMeasurement(d, this.meas));
@@ -221,23 +246,23 @@ export class Tracker implements TrackEngine {
     const { missCost, echo: cand, nearEstablished: nearConfirmed } = gates;
     const now = dets[dets.length - 1].timeS;
     const interval = this.info!.intervalS;
-    let held: Uint8Array | null = null;
-    if (!final && this.info!.antenna === 'rotating') {
+    let held: Float64Array | null = null;
+    if (!final && this.info!.antenna === 'rotating' && (established.length || tentative.length)) {
       const last = ms[ms.length - 1];
       const times = ms.map((m) => m.timeS);
-      held = heldBack(established.concat(tentative), times, this.live, now, Math.atan2(last.x, last.y), gamma, MAX_WAIT_REVOLUTIONS * interval);
-      const h = held;
-      if (h.includes(1)) {
-        this.waiting.clear();
-        for (const p of established) if (h[p.det]) this.waiting.add(p.track);
-        for (const p of tentative) if (h[p.det]) this.waiting.add(p.track);
-        established = established.filter((p) => !h[p.det]);
-        tentative = tentative.filter((p) => !h[p.det]);
-        this.batch = dets.filter((_, j) => h[j]);
-        this.batchStart = now;
-      } else {
-        held = null;
-        this.waiting.clear();
+      const all = established.length && tentative.length ? established.concat(tentative) : established.length ? established : tentative;
+      const h = heldBack(all, times, this.live, this.waiting, now, Math.atan2(last.x, last.y), gamma, interval, MAX_WAIT_REVOLUTIONS * interval);
+      let any = false;
+      for (let j = 0; j < h.length; j++) {
+        if (Number.isNaN(h[j])) continue;
+        any = true;
+        this.pool.push({ d: dets[j], releaseS: h[j] });
+      }
+      if (any) {
+        held = h;
+        for (const p of all) if (!Number.isNaN(h[p.det])) this.waiting.set(p.track, Math.max(this.waiting.get(p.track) ?? -Infinity, h[p.det]));
+        established = established.filter((p) => Number.isNaN(h[p.det]));
+        tentative = tentative.filter((p) => Number.isNaN(h[p.det]));
       }
     }
     const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
@@ -277,7 +302,7 @@ export class Tracker implements TrackEngine {
       if (t.status !== 'tentative' && (t.moved || o.reportStationary)) out.updates.push(t.update(true));
     }
     for (let j = 0; j < ms.length; j++) {
-      if (held && held[j]) continue;
+      if (held && !Number.isNaN(held[j])) continue;
       if (taken[j] === 2) {
         if (learn) this.echoes.observeWith(cand[j].any, ms[j]);
         continue;
