@@ -58,6 +58,20 @@ export function heldBack(
 ): Float64Array {
   const release = new Float64Array(detTimes.length).fill(NaN);
   if (pairs.length === 0) return release;
+  if (detTimes.length === 1) {
+    // One detection (the usual batch): its pairs are one cluster, no union-find needed.
+    const first = pairs[0].track;
+    let contested = false;
+    for (const p of pairs) {
+      if (p.track !== first || p.unlikely || waiting.has(p.track) || live.get(p.track)!.status === 'tentative') contested = true;
+    }
+    if (!contested) return release;
+    let swept = -Infinity;
+    for (const p of pairs) swept = Math.max(swept, waiting.get(p.track) ?? gateSweptS(live.get(p.track)!, nowS, beamAz, gamma, periodS));
+    const r = Math.min(swept, detTimes[0] + maxWaitS);
+    if (r > nowS) release[0] = r;
+    return release;
+  }
   // Union-find over nodes: tracks as 2·id, detections as 2·j + 1.
   const parent = new Map<number, number>();
   const find = (a: number): number => {

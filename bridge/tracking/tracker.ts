@@ -75,8 +75,9 @@ export class Tracker implements TrackEngine {
   private noiseBuf: Detection[] | null = null;
   /** Tracks with detections held back (see sweep-deferral.ts) → when their cluster is released, s. */
   private readonly waiting = new Map<number, number>();
-  /** Detections held back, with their release times. */
+  /** Detections held back, with their release times, and the earliest of those. */
   private pool: PoolEntry[] = [];
+  private nextRelease = Infinity;
   /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
   private minGapS = 0;
 
@@ -170,6 +171,7 @@ export class Tracker implements TrackEngine {
     }
     const rest = [...this.pool.map((e) => e.d), ...this.batch].sort((a, b) => a.timeS - b.timeS);
     this.pool = [];
+    this.nextRelease = Infinity;
     this.batch = [];
     this.waiting.clear();
     if (rest.length) this.closeBatch(out, rest, true);
@@ -207,13 +209,15 @@ export class Tracker implements TrackEngine {
       // Every detection at once, with the held ones whose time has come (see closeBatch).
       const now = d.timeS;
       const due: Detection[] = [];
-      if (this.pool.length) {
+      if (this.pool.length && now >= this.nextRelease) {
         const keep: PoolEntry[] = [];
         for (const e of this.pool) {
           if (e.releaseS <= now) due.push(e.d);
           else keep.push(e);
         }
         this.pool = keep;
+        this.nextRelease = Infinity;
+        for (const e of keep) if (e.releaseS < this.nextRelease) this.nextRelease = e.releaseS;
         for (const [id, r] of this.waiting) if (r <= now) this.waiting.delete(id);
       }
       due.push(d);
@@ -257,6 +261,7 @@ export class Tracker implements TrackEngine {
         if (Number.isNaN(h[j])) continue;
         any = true;
         this.pool.push({ d: dets[j], releaseS: h[j] });
+        if (h[j] < this.nextRelease) this.nextRelease = h[j];
       }
       if (any) {
         held = h;
