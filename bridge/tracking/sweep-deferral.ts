@@ -63,11 +63,11 @@ export function heldBack(
     const first = pairs[0].track;
     let contested = false;
     for (const p of pairs) {
-      if (p.track !== first || p.unlikely || waiting.has(p.track) || live.get(p.track)!.status === 'tentative') contested = true;
+      if (p.track !== first || p.unlikely || (waiting.get(p.track) ?? -Infinity) > nowS || live.get(p.track)!.status === 'tentative') contested = true;
     }
     if (!contested) return release;
     let swept = -Infinity;
-    for (const p of pairs) swept = Math.max(swept, waiting.get(p.track) ?? gateSweptS(live.get(p.track)!, nowS, beamAz, gamma, periodS));
+    for (const p of pairs) swept = Math.max(swept, waitingUntil(waiting, p.track, nowS) ?? gateSweptS(live.get(p.track)!, nowS, beamAz, gamma, periodS));
     const r = Math.min(swept, detTimes[0] + maxWaitS);
     if (r > nowS) release[0] = r;
     return release;
@@ -109,7 +109,7 @@ export function heldBack(
     // that continues it, later in the sweep. Nor is a detection that only the manoeuvre model
     // admits convincing: the detection the track expects may come a few degrees later.
     if (t.status === 'tentative' || p.unlikely) contested.add(root);
-    const w = waiting.get(p.track);
+    const w = waitingUntil(waiting, p.track, nowS);
     if (w !== undefined) contested.add(root);
     let s = sweptOf.get(p.track);
     if (s === undefined) {
@@ -126,4 +126,10 @@ export function heldBack(
     if (r > nowS) release[p.det] = r;
   }
   return release;
+}
+
+/** The release time a track waits for, if still ahead of `nowS` (entries expire lazily). */
+function waitingUntil(waiting: ReadonlyMap<number, number>, id: number, nowS: number): number | undefined {
+  const w = waiting.get(id);
+  return w !== undefined && w > nowS ? w : undefined;
 }

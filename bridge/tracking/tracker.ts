@@ -20,6 +20,7 @@ import { gateThreshold } from './gate.ts';
 import { antennaSettled, decide, decideNoise, describeInference, describeNoise, type TrackerInference } from './inference.ts';
 import { toMeasurement, type MeasurementOptions } from './measurement.ts';
 import { SeedPool } from './seeds.ts';
+import { ReleaseQueue } from './release-queue.ts';
 import { heldBack } from './sweep-deferral.ts';
 import { SpatialGrid } from './spatial-grid.ts';
 import { lambdaMax, RECENT_HITS, Track } from './track-life.ts';
@@ -42,12 +43,6 @@ const MIN_GAP_REVOLUTIONS = 0.5;
  * (tracks with held detections are not counted as missing meanwhile).
  */
 const MAX_WAIT_REVOLUTIONS = 0.5;
-
-/** A detection held back until the beam has swept past its cluster's gates. */
-interface PoolEntry {
-  d: Detection;
-  releaseS: number;
-}
 
 export class Tracker implements TrackEngine {
   readonly options: TrackerOptions;
@@ -75,9 +70,8 @@ export class Tracker implements TrackEngine {
   private noiseBuf: Detection[] | null = null;
   /** Tracks with detections held back (see sweep-deferral.ts) → when their cluster is released, s. */
   private readonly waiting = new Map<number, number>();
-  /** Detections held back, with their release times, and the earliest of those. */
-  private pool: PoolEntry[] = [];
-  private nextRelease = Infinity;
+  /** Detections held back until their release times. */
+  private readonly pool = new ReleaseQueue();
   /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
   private minGapS = 0;
 
@@ -169,9 +163,7 @@ export class Tracker implements TrackEngine {
       this.noiseBuf = null;
       this.lateDecisions(buf);
     }
-    const rest = [...this.pool.map((e) => e.d), ...this.batch].sort((a, b) => a.timeS - b.timeS);
-    this.pool = [];
-    this.nextRelease = Infinity;
+    const rest = [...this.pool.drain(), ...this.batch].sort((a, b) => a.timeS - b.timeS);
     this.batch = [];
     this.waiting.clear();
     if (rest.length) this.closeBatch(out, rest, true);
@@ -209,17 +201,7 @@ export class Tracker implements TrackEngine {
       // Every detection at once, with the held ones whose time has come (see closeBatch).
       const now = d.timeS;
       const due: Detection[] = [];
-      if (this.pool.length && now >= this.nextRelease) {
-        const keep: PoolEntry[] = [];
-        for (const e of this.pool) {
-          if (e.releaseS <= now) due.push(e.d);
-          else keep.push(e);
-        }
-        this.pool = keep;
-        this.nextRelease = Infinity;
-        for (const e of keep) if (e.releaseS < this.nextRelease) this.nextRelease = e.releaseS;
-        for (const [id, r] of this.waiting) if (r <= now) this.waiting.delete(id);
-      }
+      if (now >= this.pool.next) this.pool.takeDue(now, due);
       due.push(d);
       this.closeBatch(out, due, false);
       return;
@@ -260,8 +242,7 @@ export class Tracker implements TrackEngine {
       for (let j = 0; j < h.length; j++) {
         if (Number.isNaN(h[j])) continue;
         any = true;
-        this.pool.push({ d: dets[j], releaseS: h[j] });
-        if (h[j] < this.nextRelease) this.nextRelease = h[j];
+        this.pool.push(dets[j], h[j]);
       }
       if (any) {
         held = h;
@@ -334,6 +315,7 @@ export class Tracker implements TrackEngine {
     if (now - this.lastExpire >= 1) {
       this.lastExpire = now;
       this.echoes.expire(now, o.fixedEchoes.forgetS);
+      for (const [id, r] of this.waiting) if (r <= now) this.waiting.delete(id);
     }
     out.updates.sort((a, b) => a.timeS - b.timeS);
   }
@@ -342,7 +324,7 @@ export class Tracker implements TrackEngine {
   private countMisses(now: number, hitNow: Set<number>, out: TrackerOutput): void {
     const interval = this.info!.intervalS;
     for (const t of this.live.values()) {
-      if (hitNow.has(t.id) || this.waiting.has(t.id) || now <= t.lastHitS + (t.misses + 1.5) * interval) continue;
+      if (hitNow.has(t.id) || (this.waiting.get(t.id) ?? -Infinity) > now || now <= t.lastHitS + (t.misses + 1.5) * interval) continue;
       t.onMiss();
       if (t.failedInitiation()) {
         this.drop(t);
@@ -384,6 +366,7 @@ export class Tracker implements TrackEngine {
 
   private drop(t: Track): void {
     this.live.delete(t.id);
+    this.waiting.delete(t.id);
     this.grid.remove(t.id);
   }
 
