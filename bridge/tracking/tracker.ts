@@ -207,7 +207,10 @@ export class Tracker implements TrackEngine {
       return;
     }
     if (this.batch.length && d.timeS - this.batchStart > this.info!.batchS) {
-      const dets = this.batch;
+      // Held detections whose time has come go first (they are older than the window's).
+      const dets: Detection[] = [];
+      if (d.timeS >= this.pool.next) this.pool.takeDue(d.timeS, dets);
+      for (const x of this.batch) dets.push(x);
       this.batch = [];
       this.closeBatch(out, dets, false);
     }
