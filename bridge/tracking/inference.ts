@@ -77,7 +77,9 @@ export function decide(dets: readonly Detection[], o: TrackerOptions, noiseLater
   // detection, yet neighbours still compete for the detections of one sweep together; a track
   // cannot take a second detection later in the same sweep (the tracker's half-revolution rule),
   // which is what made wall reflectors chain along when batches were short before.
-  const batchS = o.batchS > 0 ? o.batchS : antenna === 'rotating' ? 0 : intervalS / 2;
+  // With `revolutionBatches` (files, where delay does not matter) a rotating antenna is batched
+  // a whole revolution, a hair short of it so that one target's two detections never share one.
+  const batchS = o.batchS > 0 ? o.batchS : antenna !== 'rotating' ? intervalS / 2 : o.revolutionBatches ? intervalS * 0.999 : 0;
   const info: TrackerInference = {
     antenna,
     antennaFrom,

@@ -30,6 +30,12 @@ export interface TrackerOptions {
   fixedEchoes: FixedEchoOptions;
   /** Assignment batch window, s; 0 = per detection, contested clusters waiting for the beam (rotating), or half the staring interval. */
   batchS: number;
+  /**
+   * Rotating antenna, when `batchS` is 0: gather one whole revolution before assigning. Several
+   * times the throughput and one revolution of delay: right for files (`track`), wrong for the
+   * live view, which assigns each detection as the beam passes its gate.
+   */
+  revolutionBatches: boolean;
   /** Also report confirmed tracks that never moved (they still turn into fixed echoes unless those are off). */
   reportStationary: boolean;
   /** The warm-up ends once the antenna is settled: this many whole revolutions (rotating), or this many seconds (staring). */
@@ -52,6 +58,7 @@ export interface TrackerOptionsInput {
   deletion?: Partial<DeletionOptions>;
   fixedEchoes?: Partial<FixedEchoOptions>;
   batchS?: number;
+  revolutionBatches?: boolean;
   reportStationary?: boolean;
   warmupRevolutions?: number;
   warmupS?: number;
@@ -71,6 +78,7 @@ export function resolveTrackerOptions(o: TrackerOptionsInput = {}): TrackerOptio
     deletion: resolveDeletionOptions(o.deletion),
     fixedEchoes: resolveFixedEchoOptions(o.fixedEchoes),
     batchS: o.batchS ?? 0,
+    revolutionBatches: o.revolutionBatches ?? false,
     reportStationary: o.reportStationary ?? false,
     warmupRevolutions: o.warmupRevolutions ?? 3,
     warmupS: o.warmupS ?? 12,
