@@ -118,4 +118,14 @@ describe('loadFlatHistory', () => {
     expect(r.at(1).headingRad).toBeCloseTo(Math.atan2(3, 4));
     expect(r.at(2).speed).toBe(0);
   });
+
+  it("takes the filter's speed and heading when the bridge sends them, one pair per point", () => {
+    const r = new HistoryRing(10);
+    loadFlatHistory(r, [0, 0, 0, 1, 3, 4], [0.2, 1.0, 0.3, 1.5]);
+    expect(r.at(0).speed).toBe(0.2);
+    expect(r.at(1).headingRad).toBe(1.5);
+    // A mismatched array is ignored: differences again.
+    loadFlatHistory(r, [0, 0, 0, 1, 3, 4], [0.2]);
+    expect(r.at(1).speed).toBeCloseTo(5);
+  });
 });

@@ -24,7 +24,7 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       for (const h of msg.history) {
         const entry = state.tracks.get(h.id);
         if (!entry) continue;
-        loadFlatHistory(entry.history, h.points);
+        loadFlatHistory(entry.history, h.points, h.kinematics);
         if (entry.history.length > 0) entry.firstSeenS = entry.history.timeS[entry.history.slot(entry.history.firstSeq)];
       }
       // Tracks without sent history still get their current point, so a trail can start.

@@ -101,13 +101,22 @@ export function polarOf(x: number, y: number): { rangeM: number; azimuthRad: num
   return { rangeM: Math.hypot(x, y), azimuthRad: az < 0 ? az + 2 * Math.PI : az };
 }
 
-/** Fill a ring from the bridge's flat [t, x, y, ...] history; speed and heading by differences. */
-export function loadFlatHistory(ring: HistoryRing, flat: readonly number[]): void {
+/**
+ * Fill a ring from the bridge's flat [t, x, y, ...] history. Speed and heading come from the
+ * filter (`kinematics`: [speed, heading, ...], one pair per point) when the bridge sends them, so
+ * the charts look the same after a seek or reconnect as when live; older bridges send none, and
+ * then they are worked out from position differences.
+ */
+export function loadFlatHistory(ring: HistoryRing, flat: readonly number[], kinematics?: readonly number[]): void {
   ring.clear();
-  for (let i = 0; i + 2 < flat.length; i += 3) {
+  const fromFilter = kinematics !== undefined && kinematics.length * 3 === flat.length * 2;
+  for (let i = 0, k = 0; i + 2 < flat.length; i += 3, k += 2) {
     const t = flat[i], x = flat[i + 1], y = flat[i + 2];
     let speed = NaN, heading = NaN;
-    if (i >= 3) {
+    if (fromFilter) {
+      speed = kinematics[k];
+      heading = kinematics[k + 1];
+    } else if (i >= 3) {
       const dt = t - flat[i - 3];
       if (dt > 0) {
         const dx = x - flat[i - 2], dy = y - flat[i - 1];
