@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { appendFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { appendFileSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { findSession, listSessions, SCAN_YIELD_LINES } from '../../bridge/session/list.ts';
@@ -88,7 +88,10 @@ describe('listSessions on a long session without summary', () => {
     const r = new Recorder({ dir: d, name: 'long-killed', startUtc: new Date('2026-12-02T05:00:00Z') });
     r.open();
     for (let i = 0; i < n; i++) r.record({ kind: 'detection', detection: { timeS: i / 100, azimuthRad: 1, rangeM: 2, amplitude: 3 } });
-    // No closeSync: like kill -9, there is no end line.
+    // No closeSync: like kill -9, there is no end line. A whole-second mtime, so that it can be put back exactly below.
+    const file = join(d, readdirSync(d)[0]);
+    const mtime = new Date('2026-12-02T05:10:00Z');
+    utimesSync(file, mtime, mtime);
     let turns = 0;
     let ticking = true;
     const tick = (): void => {
@@ -103,12 +106,11 @@ describe('listSessions on a long session without summary', () => {
     expect(again).toEqual(first);
     // A synchronous scan lets the loop turn only around the stat/readdir calls, not once per chunk.
     expect(during).toBeGreaterThanOrEqual(5);
-    const before = turns;
-    ticking = true;
-    setImmediate(tick);
+    // Unchanged size and mtime: served from the cache, the file is not read again. Proved by
+    // overwriting it with same-sized junk and putting its mtime back: a re-scan would see no records.
+    writeFileSync(file, 'x'.repeat(statSync(file).size));
+    utimesSync(file, mtime, mtime);
     expect(await listSessions(d)).toEqual(first);
-    // Unchanged size and mtime: served from the cache, no scan turns.
-    expect(turns - before).toBeLessThan(5);
     ticking = false;
   });
 });
