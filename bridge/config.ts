@@ -19,7 +19,7 @@ import { dirname, resolve } from 'node:path';
 import { z } from 'zod';
 import { EchotrailError } from './errors.ts';
 import type { BridgeOptions } from './server/options.ts';
-import { importOptional } from './server/deps.ts';
+import { parseBenchConfig as parseCalibration, trackerCorrections, type BenchConfig as Calibration } from './calibrate/bench-config.ts';
 
 const serialSchema = z.strictObject({
   path: z.string().min(1),
@@ -86,26 +86,17 @@ export async function loadBenchConfig(path: string): Promise<BenchConfig> {
   return cfg;
 }
 
-interface CalibrationModule {
-  parseBenchConfig(json: unknown, name?: string): unknown;
-  trackerCorrections(config: unknown): { rangeOffsetM: number; azimuthOffsetRad: number };
-}
-
-/** The calibration file's content (validated by its own module), or undefined when none is configured. */
-export async function loadCalibration(cfg: BenchConfig): Promise<unknown> {
+/** The calibration file's content (validated by bridge/calibrate/bench-config.ts), or undefined when none is configured. */
+export async function loadCalibration(cfg: BenchConfig): Promise<Calibration | undefined> {
   if (cfg.calibration === undefined) return undefined;
-  const mod = (await importOptional('../calibrate/bench-config.ts')) as unknown as CalibrationModule | null;
-  if (!mod || typeof mod.parseBenchConfig !== 'function') throw new EchotrailError('E_CALIBRATION', 'calibration files need bridge/calibrate/bench-config.ts, which is missing');
   const json = typeof cfg.calibration === 'string' ? await readJson(cfg.calibration, 'calibration file') : cfg.calibration;
-  return mod.parseBenchConfig(json, typeof cfg.calibration === 'string' ? `calibration file ${cfg.calibration}` : 'calibration (inline)');
+  return parseCalibration(json, typeof cfg.calibration === 'string' ? `calibration file ${cfg.calibration}` : 'calibration (inline)');
 }
 
 /** The tracker's range/azimuth corrections from the calibration, or null without one. */
 async function calibrationCorrections(cfg: BenchConfig): Promise<{ rangeOffsetM: number; azimuthOffsetRad: number } | null> {
   const calibration = await loadCalibration(cfg);
-  if (calibration === undefined) return null;
-  const mod = (await importOptional('../calibrate/bench-config.ts')) as unknown as CalibrationModule;
-  return mod.trackerCorrections(calibration);
+  return calibration === undefined ? null : trackerCorrections(calibration);
 }
 
 /** Tracker options from the profile file, the config's `tracker` entries and the calibration's corrections. */

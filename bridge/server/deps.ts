@@ -9,6 +9,8 @@ import type { ComparisonFigures, PathPointWire } from './protocol.ts';
 import { EchotrailError } from '../errors.ts';
 import { Recorder } from '../session/recorder.ts';
 import { LiveComparison } from '../compare/live.ts';
+import { Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
+import { calibrationApi } from '../calibrate/api.ts';
 
 /** What the pipeline needs from a session recorder. */
 export interface RecorderLike {
@@ -60,48 +62,14 @@ export function isReplayControl(s: Source): s is ReplaySourceLike {
   return typeof r.play === 'function' && typeof r.seek === 'function' && typeof r.state === 'function';
 }
 
-type Module = Record<string, unknown>;
-
-/**
- * Imports a sibling module by path. The specifier is built at run time on purpose: the type checker
- * must not require modules that another part of the project has not delivered yet.
- */
-export async function importOptional(rel: string): Promise<Module | null> {
-  const url = new URL(rel, import.meta.url).href;
-  try {
-    return (await import(url)) as Module;
-  } catch (err) {
-    const code = (err as { code?: string }).code;
-    const msg = String((err as Error).message ?? '');
-    if ((code === 'ERR_MODULE_NOT_FOUND' || msg.includes('Cannot find module')) && msg.includes(rel.split('/').pop() as string)) return null;
-    throw err;
-  }
-}
-
-function pick<T>(mod: Module | null, names: string[]): T | null {
-  if (!mod) return null;
-  for (const n of names) if (typeof mod[n] === 'function') return mod[n] as T;
-  return null;
-}
-
-function missing(what: string, file: string): EchotrailError {
-  return new EchotrailError('E_OPTION', `${what} is not available: ${file} is missing or exports nothing usable`);
-}
-
-/** The project's tracking engine, configured with `trackerOptions`. */
+/** The project's tracking engine, configured with `trackerOptions` (checked by the tracker). */
 export async function loadTrackerFactory(): Promise<(options: unknown) => TrackEngine> {
-  const mod = await importOptional('../tracking/tracker.ts');
-  const factory = pick<(o: unknown) => TrackEngine>(mod, ['createTracker', 'createTrackEngine']);
-  if (factory) return factory;
-  const Cls = pick<new (o: unknown) => TrackEngine>(mod, ['Tracker', 'TrackerEngine']);
-  if (Cls) return (o) => new Cls(o);
-  throw missing('the tracker', 'bridge/tracking/tracker.ts');
+  return (options) => new Tracker((options ?? {}) as TrackerOptionsInput);
 }
 
-/** The calibration HTTP handler, or null until bridge/calibrate/api.ts exists. */
-export async function loadCalibrationApi(): Promise<((request: unknown) => Promise<unknown> | unknown) | null> {
-  const mod = await importOptional('../calibrate/api.ts');
-  return pick(mod, ['calibrationApi']);
+/** The calibration HTTP handler (bridge/calibrate/api.ts). */
+export async function loadCalibrationApi(): Promise<(request: unknown) => unknown> {
+  return calibrationApi;
 }
 
 /** Opens a recording through bridge/session/recorder.ts; throws E_RECORDING when the file cannot be created. */
