@@ -8,19 +8,20 @@ import type { PathPointWire } from '../../../bridge/server/protocol.ts';
 import type { DashboardState } from '../stream/state.ts';
 import { antennaColour, commandedColour, trackColour } from './palette.ts';
 import { type View, toScreen } from './view.ts';
-import { PATH_AHEAD_S, pathWindow } from './path-window.ts';
+import { PATH_AHEAD_S, errorBandHalfWidthM, pathWindow } from './path-window.ts';
 
 const DASH_PX = 8;
 const GAP_PX = 6;
 
 export class PathLayer {
   readonly container = new Container();
+  private readonly band = new Graphics();
   private readonly path = new Graphics();
   private readonly live = new Graphics();
   private pathKey = '';
 
   constructor() {
-    this.container.addChild(this.path, this.live);
+    this.container.addChild(this.band, this.path, this.live);
   }
 
   update(view: View, state: DashboardState, coverageM: number, selectedId: number | null, trailFromS: number): void {
@@ -29,10 +30,13 @@ export class PathLayer {
     // seconds so the path is rebuilt about once a second, not every frame.
     const from = Number.isFinite(trailFromS) ? Math.floor(trailFromS) : -Infinity;
     const to = Number.isFinite(trailFromS) ? Math.ceil(state.timeS) + PATH_AHEAD_S : Infinity;
-    const key = `${state.commandedVersion},${from},${to},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height}`;
+    const bandM = errorBandHalfWidthM(state.comparison?.rmseM ?? null);
+    const key = `${state.commandedVersion},${from},${to},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height},${bandM}`;
     if (key !== this.pathKey) {
       this.pathKey = key;
-      drawDashed(this.path.clear(), view, pathWindow(state.commanded, from, to));
+      const window = pathWindow(state.commanded, from, to);
+      drawBand(this.band.clear(), view, window, bandM);
+      drawDashed(this.path.clear(), view, window);
     }
     const g = this.live.clear();
     const sel = selectedId === null ? undefined : state.tracks.get(selectedId);
@@ -66,6 +70,17 @@ export class PathLayer {
         .stroke({ width: 1.5, color: antennaColour, alpha: 0.8 });
     }
   }
+}
+
+function drawBand(g: Graphics, view: View, path: readonly PathPointWire[], halfWidthM: number): void {
+  if (path.length < 2 || halfWidthM <= 0) return;
+  const first = toScreen(view, path[0].x, path[0].y);
+  g.moveTo(first.px, first.py);
+  for (let i = 1; i < path.length; i++) {
+    const p = toScreen(view, path[i].x, path[i].y);
+    g.lineTo(p.px, p.py);
+  }
+  g.stroke({ width: 2 * halfWidthM * view.scale, color: commandedColour, alpha: 0.08, cap: 'round', join: 'round' });
 }
 
 function drawDashed(g: Graphics, view: View, path: readonly PathPointWire[]): void {
