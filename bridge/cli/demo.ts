@@ -6,7 +6,8 @@
  * be: detections, antenna pointing, positioner samples, the tracker's output and fixed-echo map
  * snapshots, plus the commanded path. Seeds are fixed, so rebuilding gives the same files.
  */
-import { Command, CommanderError } from 'commander';
+import { Command } from 'commander';
+import { parseOrExit } from './parse.ts';
 import { rmSync, readdirSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { iterateRun } from '../sim/run.ts';
@@ -85,15 +86,9 @@ export async function run(argv: string[]): Promise<number> {
   const cmd = new Command('echotrail demo')
     .description('Rebuild the demo sessions (simulated runs of the invented bay 3 bench) that npm start replays.')
     .option('--out <dir>', 'folder to write the session files into', 'replays')
-    .option('--only <name>', 'rebuild one run only (' + DEMO_RUNS.map((r) => r.name).join(', ') + ')')
-    .exitOverride()
-    .configureOutput({ writeErr: (s) => process.stderr.write(s) });
-  try {
-    cmd.parse(argv, { from: 'user' });
-  } catch (err) {
-    if (err instanceof CommanderError) return err.exitCode;
-    throw err;
-  }
+    .option('--only <name>', 'rebuild one run only (' + DEMO_RUNS.map((r) => r.name).join(', ') + ')');
+  const stop = parseOrExit(cmd, argv);
+  if (stop !== null) return stop;
   const opts = cmd.opts<{ out: string; only?: string }>();
   const runs = DEMO_RUNS.filter((r) => !opts.only || r.name === opts.only);
   if (runs.length === 0) {

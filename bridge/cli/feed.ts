@@ -5,7 +5,8 @@
  * without a radar: pair two pseudo-terminals with socat, start the bridge on one end and feed
  * the other.
  */
-import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { Command, InvalidArgumentError } from 'commander';
+import { parseOrExit } from './parse.ts';
 import { SerialPort } from 'serialport';
 import { setTimeout as sleep } from 'node:timers/promises';
 import { wireRecords, wireTime } from '../sim/wire-records.ts';
@@ -75,15 +76,9 @@ export async function run(argv: string[]): Promise<number> {
     .option('--port <path>', 'serial device to write to, e.g. one end of a socat pty pair (default: stdout)')
     .option('--baud <n>', 'serial line speed, bit/s', positive, 115200)
     .option('--speed <x>', 'run seconds per wall-clock second; 0 = as fast as possible', positive, 1)
-    .option('--loop', 'start the run again when it ends', false)
-    .exitOverride()
-    .configureOutput({ writeErr: (s) => process.stderr.write(s) });
-  try {
-    cmd.parse(argv, { from: 'user' });
-  } catch (err) {
-    if (err instanceof CommanderError) return err.exitCode;
-    throw err;
-  }
+    .option('--loop', 'start the run again when it ends', false);
+  const stop = parseOrExit(cmd, argv);
+  if (stop !== null) return stop;
   const f = cmd.opts<{ scenario: string; seed: number; port?: string; baud: number; speed: number; loop: boolean }>();
   const options = resolveFeedOptions({ scenario: f.scenario, seed: f.seed, port: f.port ?? null, baudRate: f.baud, speed: f.speed, loop: f.loop });
   const abort = new AbortController();

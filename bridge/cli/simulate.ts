@@ -3,7 +3,8 @@
  * format), and optionally a truth CSV (radar frame) and a commanded-path CSV (positioner frame).
  * Streams through `iterateRun`, so long runs need no memory.
  */
-import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { Command, InvalidArgumentError } from 'commander';
+import { parseOrExit } from './parse.ts';
 import { CsvSink, COMMANDED_CSV_HEADER, TRUTH_CSV_HEADER, commandedCsvLine, truthCsvLine } from '../sim/csv-sink.ts';
 import { DETECTIONS_CSV_HEADER, detectionCsvLine } from '../ingest/detections-csv.ts';
 import { iterateRun } from '../sim/run.ts';
@@ -87,12 +88,8 @@ async function scenarioFrom(opts: Opts): Promise<ScenarioOptions> {
 
 export async function run(argv: string[]): Promise<number> {
   const cmd = program();
-  try {
-    cmd.parse(argv, { from: 'user' });
-  } catch (err) {
-    if (err instanceof CommanderError) return err.exitCode === 0 ? 0 : 2;
-    throw err;
-  }
+  const stop = parseOrExit(cmd, argv);
+  if (stop !== null) return stop;
   const opts = cmd.opts() as Opts;
   if (opts.list) {
     for (const [name, s] of Object.entries(SCENARIOS)) process.stdout.write(`${name.padEnd(18)} ${s.description ?? ''}\n`);

@@ -9,7 +9,8 @@
 import { createWriteStream } from 'node:fs';
 import { once } from 'node:events';
 import type { Writable } from 'node:stream';
-import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { Command, InvalidArgumentError } from 'commander';
+import { parseOrExit } from './parse.ts';
 import { EchotrailError } from '../errors.ts';
 import { formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
 import { loadTrackerProfile } from '../tracking/profile.ts';
@@ -140,12 +141,8 @@ function merge(a: TrackerOptionsInput, b: TrackerOptionsInput): TrackerOptionsIn
 
 export async function run(argv: string[]): Promise<number> {
   const cmd = program();
-  try {
-    cmd.parse(argv, { from: 'user' });
-  } catch (err) {
-    if (err instanceof CommanderError) return err.exitCode === 0 ? 0 : 2;
-    throw err;
-  }
+  const stop = parseOrExit(cmd, argv);
+  if (stop !== null) return stop;
   const o = cmd.opts();
   try {
     const given = (k: string) => cmd.getOptionValueSource(k) === 'cli';

@@ -8,6 +8,7 @@
  * detections than tracks stays feasible.
  */
 import munkres from 'munkres';
+import { UnionFind, detectionKey, trackKey } from './union-find.ts';
 
 /** One gated (track, detection) pair and its cost (lower is better). */
 export interface GatedPair {
@@ -62,30 +63,12 @@ export function assign(pairs: readonly GatedPair[] | GatedPair[], missCost: (tra
   }
   if (rest.length === 0) return result;
   pairs = rest;
-  // Union-find over nodes: tracks as 2k, detections as 2k+1 (ids are sparse, so use a map).
-  const parent = new Map<number, number>();
-  const find = (a: number): number => {
-    let r = a;
-    for (let p = parent.get(r); p !== undefined && p !== r; p = parent.get(r)) r = p;
-    for (let c = a; c !== r; ) {
-      const n = parent.get(c)!;
-      parent.set(c, r);
-      c = n;
-    }
-    return r;
-  };
-  for (const p of pairs) {
-    const a = 2 * p.track;
-    const b = 2 * p.det + 1;
-    if (!parent.has(a)) parent.set(a, a);
-    if (!parent.has(b)) parent.set(b, b);
-    const ra = find(a);
-    const rb = find(b);
-    if (ra !== rb) parent.set(ra, rb);
-  }
+  const sets = new UnionFind();
+  for (const p of pairs) sets.union(trackKey(p.track), detectionKey(p.det));
+  const find = (a: number): number => sets.find(a);
   const clusters = new Map<number, GatedPair[]>();
   for (const p of pairs) {
-    const root = find(2 * p.track);
+    const root = find(trackKey(p.track));
     const c = clusters.get(root);
     if (c) c.push(p);
     else clusters.set(root, [p]);

@@ -13,6 +13,7 @@
 import type { GatedPair } from './assignment.ts';
 import type { Track } from './track-life.ts';
 import { lambdaMax } from './track-life.ts';
+import { UnionFind, detectionKey, trackKey } from './union-find.ts';
 
 const TWO_PI = 2 * Math.PI;
 
@@ -72,35 +73,16 @@ export function heldBack(
     if (r > nowS) release[0] = r;
     return release;
   }
-  // Union-find over nodes: tracks as 2·id, detections as 2·j + 1.
-  const parent = new Map<number, number>();
-  const find = (a: number): number => {
-    let r = a;
-    for (let p = parent.get(r); p !== undefined && p !== r; p = parent.get(r)) r = p;
-    // Path compression: later look-ups of the same nodes are one step.
-    for (let c = a; c !== r; ) {
-      const n = parent.get(c)!;
-      parent.set(c, r);
-      c = n;
-    }
-    return r;
-  };
-  for (const p of pairs) {
-    const a = 2 * p.track;
-    const b = 2 * p.det + 1;
-    if (!parent.has(a)) parent.set(a, a);
-    if (!parent.has(b)) parent.set(b, b);
-    const ra = find(a);
-    const rb = find(b);
-    if (ra !== rb) parent.set(ra, rb);
-  }
+  const sets = new UnionFind();
+  for (const p of pairs) sets.union(trackKey(p.track), detectionKey(p.det));
+  const find = (a: number): number => sets.find(a);
   const firstTrack = new Map<number, number>();
   const contested = new Set<number>();
   const swept = new Map<number, number>();
   const oldest = new Map<number, number>();
   const sweptOf = new Map<number, number>();
   for (const p of pairs) {
-    const root = find(2 * p.track);
+    const root = find(trackKey(p.track));
     const t = live.get(p.track)!;
     const f = firstTrack.get(root);
     if (f === undefined) firstTrack.set(root, p.track);
@@ -120,7 +102,7 @@ export function heldBack(
     oldest.set(root, Math.min(oldest.get(root) ?? Infinity, detTimes[p.det]));
   }
   for (const p of pairs) {
-    const root = find(2 * p.track);
+    const root = find(trackKey(p.track));
     if (!contested.has(root)) continue;
     const r = Math.min(swept.get(root)!, oldest.get(root)! + maxWaitS);
     if (r > nowS) release[p.det] = r;

@@ -8,20 +8,12 @@
 import { col, zeros } from '../../bridge/compare/matrix.ts';
 import { filterAndSmooth, type FilterStep } from '../../bridge/compare/rts.ts';
 import { cvModel } from '../../bridge/compare/smoother.ts';
+import { mulberry32 } from '../../bridge/sim/prng.ts';
 import { sampleAt, type TimedPath } from '../../bridge/compare/timed-path.ts';
 import type { TrackRow } from '../../bridge/compare/track-rows.ts';
 
-/** Mulberry32: small seeded PRNG (public-domain algorithm, attributed to Tommy Ettinger from memory; common practice in tests). */
-export function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** The project's seeded PRNG (mulberry32, bridge/sim/prng.ts). */
+export const prng = mulberry32;
 
 /** Standard normal deviate by Box–Muller. */
 export function gauss(rand: () => number): number {
