@@ -183,7 +183,8 @@ export class Pipeline extends EventEmitter {
     if (!this.seek.resending) this.recording.write(r);
     switch (r.kind) {
       case 'detection': {
-        this.stats.detection(receivedAtMs);
+        // A seek's re-sent state is not new data: it must not show as a burst of detections per second.
+        if (!this.seek.resending) this.stats.detection(receivedAtMs);
         this.batch.detection(this.state.addDetection(r.detection), receivedAtMs);
         if (this.tracker) this.applyOutput(this.runTracker((t) => t.push(r.detection)), receivedAtMs);
         break;
