@@ -49,6 +49,15 @@ async function connect(b: RunningBridge): Promise<TestClient> {
 }
 
 describe('replay of a recorded session', () => {
+  it("a seek while paused re-sends state without counting it as detections per second", async () => {
+    bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 5 });
+    const snap = await c.next('snapshot', (s) => s.detections.length > 0);
+    expect(snap.replay?.playing).toBe(false);
+    expect(bridge.pipeline.status().detectionsPerSecond).toBe(0);
+  });
+
   it('seeks: a fresh snapshot holds the tracks, history and commanded path at the new time', async () => {
     bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
     const c = await connect(bridge);
