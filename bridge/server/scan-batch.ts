@@ -133,12 +133,7 @@ export class ScanBatch {
       positioner: this.positioner,
     };
     const arrivals = this.arrivals;
-    this.detections = [];
-    this.updates = [];
-    this.deletions = [];
-    this.positioner = [];
-    this.antenna = null;
-    this.arrivals = [];
+    this.clearPending();
     this.lastSentMs = performance.now();
     this.options.emit(scan, arrivals);
   }
@@ -147,6 +142,11 @@ export class ScanBatch {
   discard(): void {
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
+    this.clearPending();
+  }
+
+  /** Empties the increments gathered for the next scan (the arrays were handed on, or are dropped). */
+  private clearPending(): void {
     this.detections = [];
     this.updates = [];
     this.deletions = [];

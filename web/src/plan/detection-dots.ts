@@ -40,18 +40,14 @@ export class DetectionDots {
     if (this.particles) { this.updateParticles(this.particles, view, dots, nowS, maxAgeS); return; }
     let used = 0;
     for (const d of dots) {
-      const age = nowS - d.timeS;
-      if (age > maxAgeS || age < -0.5) continue;
-      const s = toScreen(view, d.x, d.y);
-      if (s.px < -10 || s.py < -10 || s.px > view.width + 10 || s.py > view.height + 10) continue;
+      const look = dotLook(view, d, nowS, maxAgeS);
+      if (!look) continue;
       const sprite = this.sprite(used++);
       sprite.texture = d.fixed ? this.square : this.disc;
       sprite.tint = d.fixed ? fixedEchoColour : detectionColour;
-      sprite.position.set(s.px, s.py);
-      // Newest dots are bright, old ones fade towards 15 %: age reads from brightness and size.
-      const f = 1 - Math.max(0, age) / maxAgeS;
-      sprite.alpha = 0.15 + 0.75 * f;
-      sprite.scale.set(0.6 + 0.5 * f);
+      sprite.position.set(look.px, look.py);
+      sprite.alpha = look.alpha;
+      sprite.scale.set(look.scale);
       sprite.visible = true;
     }
     for (let i = used; i < this.pool.length; i++) this.pool[i].visible = false;
@@ -65,20 +61,17 @@ export class DetectionDots {
     squares.length = 0;
     let used = 0;
     for (const d of dots) {
-      const age = nowS - d.timeS;
-      if (age > maxAgeS || age < -0.5) continue;
-      const s = toScreen(view, d.x, d.y);
-      if (s.px < -10 || s.py < -10 || s.px > view.width + 10 || s.py > view.height + 10) continue;
+      const look = dotLook(view, d, nowS, maxAgeS);
+      if (!look) continue;
       let p = pc.pool[used];
       if (!p) p = pc.pool[used] = new Particle({ texture: this.disc, anchorX: 0.5, anchorY: 0.5 });
       used++;
-      const f = 1 - Math.max(0, age) / maxAgeS;
       p.texture = d.fixed ? this.square : this.disc;
-      p.x = s.px;
-      p.y = s.py;
-      p.scaleX = p.scaleY = 0.6 + 0.5 * f;
+      p.x = look.px;
+      p.y = look.py;
+      p.scaleX = p.scaleY = look.scale;
       p.tint = d.fixed ? fixedEchoColour : detectionColour;
-      p.alpha = 0.15 + 0.75 * f;
+      p.alpha = look.alpha;
       (d.fixed ? squares : discs).push(p);
     }
     pc.discs.update();
@@ -111,4 +104,18 @@ export class DetectionDots {
     }
     return s;
   }
+}
+
+/**
+ * Where and how a detection dot is drawn, or null when it is too old, from the future, or off
+ * screen. Newest dots are bright, old ones fade towards 15 %: age reads from brightness and size.
+ * Shared by the sprite (canvas) and particle (WebGL) paths so both look the same.
+ */
+function dotLook(view: View, d: DetectionDot, nowS: number, maxAgeS: number): { px: number; py: number; alpha: number; scale: number } | null {
+  const age = nowS - d.timeS;
+  if (age > maxAgeS || age < -0.5) return null;
+  const s = toScreen(view, d.x, d.y);
+  if (s.px < -10 || s.py < -10 || s.px > view.width + 10 || s.py > view.height + 10) return null;
+  const f = 1 - Math.max(0, age) / maxAgeS;
+  return { px: s.px, py: s.py, alpha: 0.15 + 0.75 * f, scale: 0.6 + 0.5 * f };
 }
