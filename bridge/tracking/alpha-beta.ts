@@ -4,7 +4,7 @@
  * that the same gains imply: predicted position variance P⁻ = R·α/(1 − α) (from K = P⁻/(P⁻ + R)).
  */
 import type { Measurement } from '../types.ts';
-import { gateAgainst, mahalanobis2, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { discOf, gateAgainst, mahalanobis2, type FilterEstimate, type GateDisc, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { EchotrailError } from '../errors.ts';
 
 /** Kalata's tracking index λ = σ_w·T²/σ_v (σ_w process acceleration std, σ_v measurement std). */
@@ -85,6 +85,10 @@ export class AlphaBetaFilter implements TrackFilter {
     this.r = 0.5 * (m.rxx + m.ryy);
     this.n++;
     return nis;
+  }
+
+  gateDisc(t: number, gamma: number, rMax: number): GateDisc {
+    return discOf(this.peek(t), gamma, rMax);
   }
 
   gate(m: Measurement): GateResult {

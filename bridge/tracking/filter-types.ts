@@ -28,10 +28,45 @@ export interface TrackFilter {
   /** Current estimate. */
   estimate(): FilterEstimate;
   /**
+   * A disc holding every measurement the gate admits at `t` (d² < gamma) when the measurement's
+   * covariance has largest eigenvalue at most `rMax` m²: for the spatial index. An IMM must cover
+   * its manoeuvre model's gate, which reaches far beyond its combined covariance.
+   */
+  gateDisc(t: number, gamma: number, rMax: number): GateDisc;
+  /**
    * Gate statistic d² = νᵀS⁻¹ν of a measurement against the prediction at its time, and ln|S|;
    * the tracker gates on d2 and prices the pair at d2 + logDetS. Does not change the filter.
    */
   gate(m: Measurement): GateResult;
+}
+
+/** Centre and radius of a disc, metres. */
+export interface GateDisc {
+  x: number;
+  y: number;
+  r: number;
+}
+
+/** Largest eigenvalue of a symmetric 2×2 matrix. */
+export function lambdaMax(a: number, b: number, c: number): number {
+  const h = 0.5 * (a - c);
+  return 0.5 * (a + c) + Math.sqrt(h * h + b * b);
+}
+
+/** The disc of a single Gaussian gate: the prediction ± √(γ·(λmax(P) + rMax)). */
+export function discOf(p: PositionPrediction, gamma: number, rMax: number): GateDisc {
+  return { x: p.x, y: p.y, r: Math.sqrt(gamma * (lambdaMax(p.pxx, p.pxy, p.pyy) + rMax)) };
+}
+
+/** The smallest disc holding two discs. */
+export function enclosingDisc(a: GateDisc, b: GateDisc): GateDisc {
+  const d = Math.hypot(b.x - a.x, b.y - a.y);
+  if (d + b.r <= a.r) return a;
+  if (d + a.r <= b.r) return b;
+  const r = 0.5 * (d + a.r + b.r);
+  // The centre lies on the line between the two, r − a.r from a's centre.
+  const k = (r - a.r) / d;
+  return { x: a.x + k * (b.x - a.x), y: a.y + k * (b.y - a.y), r };
 }
 
 export interface GateResult {

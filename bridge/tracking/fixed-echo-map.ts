@@ -109,7 +109,7 @@ export class FixedEchoMap {
     // Cheap Euclidean pre-check: no gate here is wider than 4 times the larger measurement σ.
     const r2 = 16 * (m.rxx + m.ryy);
     const vacate = this.vacateS();
-    for (const id of this.grid.query(m.x, m.y)) {
+    for (const id of this.grid.queryBlock(m.x, m.y)) {
       const c = this.cands.get(id)!;
       const ex = m.x - c.x;
       const ey = m.y - c.y;
@@ -245,7 +245,7 @@ export class FixedEchoMap {
     if (!c) {
       c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, rateAll: 0, lastScanAll: scan - 1, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, recentS: [NaN, NaN, NaN, NaN], recentAt: 0, scansSeen: 0, fixed: false };
       this.cands.set(c.id, c);
-      this.grid.set(c.id, m.x, m.y, 0.5);
+      this.grid.set(c.id, m.x, m.y, 0);
     }
     c.n++;
     c.x += (m.x - c.x) / c.n;

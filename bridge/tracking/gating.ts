@@ -1,11 +1,11 @@
 /**
- * Gating of one batch: every detection against the tracks the grid finds near it and against the
+ * Gating of one batch: every detection against the tracks the gate index finds near it and against the
  * fixed-echo map, producing the candidate pairs for the two assignment passes.
  */
 import type { Measurement } from '../types.ts';
 import type { GatedPair } from './assignment.ts';
 import type { EchoLookup, FixedEchoMap } from './fixed-echo-map.ts';
-import type { SpatialGrid } from './spatial-grid.ts';
+import type { GateIndex } from './gate-index.ts';
 import type { Track } from './track-life.ts';
 
 export interface BatchGates {
@@ -27,13 +27,15 @@ export interface BatchGates {
  * @param minGapS a track takes no detection less than this after its last hit: on a rotating
  *   antenna one target answers once per revolution, so a second detection within the same sweep
  *   is a neighbour's (the way a track would chain along a wall of reflectors); 0 = no limit
- * @param maxSpeedMps fastest expected target: a tentative track (whose filter has not learned its
- *   velocity yet, so its gate is wide) takes no detection farther from its last hit than this
- *   speed covers plus 3σ of both detections' noise, the reach of a seed (seeds.ts)
+ * @param maxSpeedMps fastest expected target: no track takes a detection farther from its last hit
+ *   than this speed covers plus 3σ of both detections' noise (the reach of a seed, seeds.ts). It
+ *   matters where the χ² gate is wide: a tentative track has not learned its velocity yet, and the
+ *   gate of a coasting IMM's manoeuvre model grows as the fourth power of the time since its last
+ *   hit, to tens of metres after a few missed scans, which no positioner covers.
  */
 export function gateBatch(
   ms: readonly Measurement[],
-  grid: SpatialGrid,
+  index: Pick<GateIndex, 'query'>,
   live: Map<number, Track>,
   echoes: FixedEchoMap | null,
   gamma: number,
@@ -55,18 +57,22 @@ export function gateBatch(
       g.echoCost[j] = echoes.costOf(g.echo[j], m);
     }
     const echoCost = g.echoCost[j];
-    for (const id of grid.query(m.x, m.y)) {
+    for (const id of index.query(m.x, m.y)) {
       const t = live.get(id)!;
+      // The grid returns whole cells: skip the tracks whose gate disc does not hold the detection.
+      const rx = m.x - t.reach.x;
+      const ry = m.y - t.reach.y;
+      if (rx * rx + ry * ry > t.reach.r * t.reach.r) continue;
       // Inside a fixed echo's gate only a moving track may take a detection, and only one that
       // it explains better than the echo does.
       if (echoCost < Infinity && !t.moved) continue;
       if (m.timeS - t.lastHitS < minGapS) continue;
+      if (!withinReach(t, m, maxSpeedMps)) continue;
       const { d2, logDetS, d2Likely } = t.filter.gate(m);
       if (!(d2 < gamma)) continue;
       const cost = d2 + logDetS;
       if (cost > echoCost) continue;
       const tentative = t.status === 'tentative';
-      if (tentative && !withinReach(t, m, maxSpeedMps)) continue;
       const unlikely = !((d2Likely ?? d2) < gamma);
       (tentative ? g.tentative : g.established).push({ track: id, det: j, cost, unlikely });
       g.missCost.set(id, Math.max(g.missCost.get(id) ?? -Infinity, gamma + logDetS));
@@ -79,6 +85,7 @@ export function gateBatch(
   return g;
 }
 
+/** The detection lies within what the fastest target covers since the track's last hit, plus 3σ of noise. */
 function withinReach(t: Track, m: Measurement, maxSpeedMps: number): boolean {
   const h = t.recent[t.recent.length - 1];
   const sig = Math.sqrt(Math.max(h.rxx + m.rxx, h.ryy + m.ryy));

@@ -13,7 +13,7 @@
  * is 1 − exp(−dt/τ_i), so the filter behaves the same at 2 s revolutions and at 200 Hz staring.
  */
 import type { Measurement } from '../types.ts';
-import { type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { enclosingDisc, type FilterEstimate, type GateDisc, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { KalmanCv } from './kalman-cv.ts';
 import type { ProcessNoiseModel } from './process-noise.ts';
 
@@ -77,6 +77,11 @@ export class ImmCv2 implements TrackFilter {
     const a = this.models[0].peek(t);
     const b = this.models[1].peek(t);
     return combine(a, b, c[0], c[1]);
+  }
+
+  /** Both models' gate discs: the gate is their union (see gate()). */
+  gateDisc(t: number, gamma: number, rMax: number): GateDisc {
+    return enclosingDisc(this.models[0].gateDisc(t, gamma, rMax), this.models[1].gateDisc(t, gamma, rMax));
   }
 
   /**

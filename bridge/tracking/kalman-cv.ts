@@ -7,7 +7,7 @@
  * allocate on every call.
  */
 import type { Measurement } from '../types.ts';
-import { mahalanobis2, type FilterEstimate, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { discOf, mahalanobis2, type FilterEstimate, type GateDisc, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { cvProcessNoise, cvProcessNoise00, type ProcessNoiseModel } from './process-noise.ts';
 
 export interface KalmanCvOptions {
@@ -136,6 +136,10 @@ export class KalmanCv implements TrackFilter {
     this.lastNis = nis;
     this.lastDetS = det;
     return nis;
+  }
+
+  gateDisc(t: number, gamma: number, rMax: number): GateDisc {
+    return discOf(this.peek(t), gamma, rMax);
   }
 
   gate(m: Measurement): GateResult {

@@ -1,22 +1,41 @@
 /**
- * Two-level uniform grid over the plane for gating. Each entry sits in exactly one cell — of the
- * fine level when its reach (gate radius) is at most one fine cell, else of the coarse level
- * (4 fine cells wide; reaches beyond that are capped) — and a query looks at the 3×3 block of
- * cells around the point on both levels. Moving an entry is O(1), and the cost of a query depends
- * on how crowded the neighbourhood is, not on how many entries exist.
+ * Uniform grid over the plane for gating, in two levels. Each entry is written into every cell
+ * that its reach square (centre ± reach, Chebyshev) overlaps — on the fine level when its reach is
+ * at most FINE_SPAN fine cells, else on the coarse level (COARSE fine cells wide) — and a query
+ * reads the one cell under the point on each level. An entry reaching farther than the coarse
+ * level's span (a track coasting for long) goes on a list that every query returns.
+ *
+ * Why write many cells and read one: an entry moves once per scan while every detection queries,
+ * several per track and scan, and a query that reads a 3×3 block returns every entry within three
+ * cells, most of them far outside their gates. Reading one cell returns only entries whose reach
+ * square overlaps that cell, so the gate test that follows runs on few candidates. An entry whose
+ * covered block of cells is unchanged (a slow target, the usual case) is not rewritten at all.
  */
 
+/** Reach, in fine cells, up to which an entry stays on the fine level (at most 7×7 cells). */
+const FINE_SPAN = 3;
+/** Coarse cell edge, in fine cells. */
 const COARSE = 4;
 
+/** Where an entry is written: its level and the block of cells it covers (inclusive). */
+interface Placement {
+  /** 0 fine, 1 coarse, 2 the everywhere list. */
+  level: 0 | 1 | 2;
+  x0: number;
+  y0: number;
+  x1: number;
+  y1: number;
+}
+
 export class SpatialGrid {
-  private readonly fine = new Map<number, Set<number>>();
-  private readonly coarse = new Map<number, Set<number>>();
-  /** id → level·2³⁰ + cell key, to find and move entries. */
-  private readonly where = new Map<number, number>();
+  private readonly fine = new Map<number, number[]>();
+  private readonly coarse = new Map<number, number[]>();
+  private readonly everywhere: number[] = [];
+  private readonly where = new Map<number, Placement>();
   private readonly inv: number;
   private readonly out: number[] = [];
 
-  /** @param cellM fine cell edge, metres; entries reach at most 4·cellM */
+  /** @param cellM fine cell edge, metres */
   constructor(readonly cellM: number) {
     this.inv = 1 / cellM;
   }
@@ -26,67 +45,121 @@ export class SpatialGrid {
     return (((ix + 16384) & 0x7fff) << 15) | ((iy + 16384) & 0x7fff);
   }
 
-  /** Largest reach an entry can have, metres. */
+  /** Largest reach kept in cells, metres; an entry reaching farther is returned by every query. */
   get maxReachM(): number {
-    return COARSE * this.cellM;
+    return COARSE * FINE_SPAN * this.cellM;
   }
 
   /** Places `id` so that queries within `reachM` (Chebyshev distance) of (x, y) find it. */
   set(id: number, x: number, y: number, reachM: number): void {
-    const coarse = reachM > this.cellM;
-    const s = coarse ? this.inv / COARSE : this.inv;
-    const k = SpatialGrid.key(Math.floor(x * s), Math.floor(y * s));
-    const code = coarse ? k + 0x40000000 : k;
+    const r = Math.max(reachM, 0);
+    const level = r <= FINE_SPAN * this.cellM ? 0 : r <= this.maxReachM ? 1 : 2;
+    const s = level === 0 ? this.inv : this.inv / COARSE;
+    const x0 = level === 2 ? 0 : Math.floor((x - r) * s);
+    const y0 = level === 2 ? 0 : Math.floor((y - r) * s);
+    const x1 = level === 2 ? 0 : Math.floor((x + r) * s);
+    const y1 = level === 2 ? 0 : Math.floor((y + r) * s);
     const old = this.where.get(id);
-    if (old === code) return;
-    if (old !== undefined) this.detach(id, old);
-    const map = coarse ? this.coarse : this.fine;
-    const cell = map.get(k);
-    if (cell) cell.add(id);
-    else map.set(k, new Set([id]));
-    this.where.set(id, code);
+    if (old) {
+      if (old.level === level && old.x0 === x0 && old.y0 === y0 && old.x1 === x1 && old.y1 === y1) return;
+      this.detach(id, old);
+      old.level = level;
+      old.x0 = x0;
+      old.y0 = y0;
+      old.x1 = x1;
+      old.y1 = y1;
+      this.attach(id, old);
+      return;
+    }
+    const p: Placement = { level, x0, y0, x1, y1 };
+    this.where.set(id, p);
+    this.attach(id, p);
   }
 
-  private detach(id: number, code: number): void {
-    const coarse = code >= 0x40000000;
-    const k = coarse ? code - 0x40000000 : code;
-    const map = coarse ? this.coarse : this.fine;
-    const cell = map.get(k)!;
-    cell.delete(id);
-    if (cell.size === 0) map.delete(k);
+  private attach(id: number, p: Placement): void {
+    if (p.level === 2) {
+      this.everywhere.push(id);
+      return;
+    }
+    const map = p.level === 1 ? this.coarse : this.fine;
+    for (let ix = p.x0; ix <= p.x1; ix++) {
+      for (let iy = p.y0; iy <= p.y1; iy++) {
+        const k = SpatialGrid.key(ix, iy);
+        const cell = map.get(k);
+        if (cell) cell.push(id);
+        else map.set(k, [id]);
+      }
+    }
+  }
+
+  private detach(id: number, p: Placement): void {
+    if (p.level === 2) {
+      removeFrom(this.everywhere, id);
+      return;
+    }
+    const map = p.level === 1 ? this.coarse : this.fine;
+    for (let ix = p.x0; ix <= p.x1; ix++) {
+      for (let iy = p.y0; iy <= p.y1; iy++) {
+        const k = SpatialGrid.key(ix, iy);
+        const cell = map.get(k)!;
+        if (cell.length === 1) map.delete(k);
+        else removeFrom(cell, id);
+      }
+    }
   }
 
   remove(id: number): void {
-    const code = this.where.get(id);
-    if (code === undefined) return;
-    this.detach(id, code);
+    const p = this.where.get(id);
+    if (!p) return;
+    this.detach(id, p);
     this.where.delete(id);
   }
 
   /**
-   * Ids that may reach (x, y): a superset of those within their reach. The array is reused by the
-   * next call: consume it before querying again.
+   * Ids that may reach (x, y): a superset of those within their reach (whole cells). The array
+   * is reused by the next call: consume it before querying again.
    */
   query(x: number, y: number): readonly number[] {
     const out = this.out;
     out.length = 0;
-    this.collect(this.fine, x * this.inv, y * this.inv);
-    if (this.coarse.size) this.collect(this.coarse, (x * this.inv) / COARSE, (y * this.inv) / COARSE);
+    const f = this.fine.get(SpatialGrid.key(Math.floor(x * this.inv), Math.floor(y * this.inv)));
+    if (f) for (let i = 0; i < f.length; i++) out.push(f[i]);
+    if (this.coarse.size) {
+      const s = this.inv / COARSE;
+      const c = this.coarse.get(SpatialGrid.key(Math.floor(x * s), Math.floor(y * s)));
+      if (c) for (let i = 0; i < c.length; i++) out.push(c[i]);
+    }
+    for (let i = 0; i < this.everywhere.length; i++) out.push(this.everywhere[i]);
     return out;
   }
 
-  private collect(map: Map<number, Set<number>>, fx: number, fy: number): void {
-    const ix = Math.floor(fx);
-    const iy = Math.floor(fy);
+  /**
+   * Ids whose reach square overlaps the 3×3 block of fine cells around (x, y): every entry within
+   * one fine cell plus its reach. For point-like entries queried with a reach the query sets (the
+   * fixed-echo map: the gate there depends on the detection's noise, not on the entry).
+   */
+  queryBlock(x: number, y: number): readonly number[] {
+    const out = this.out;
+    out.length = 0;
+    const ix = Math.floor(x * this.inv);
+    const iy = Math.floor(y * this.inv);
     for (let a = -1; a <= 1; a++) {
       for (let b = -1; b <= 1; b++) {
-        const cell = map.get(SpatialGrid.key(ix + a, iy + b));
-        if (cell) for (const id of cell) this.out.push(id);
+        const f = this.fine.get(SpatialGrid.key(ix + a, iy + b));
+        if (f) for (let i = 0; i < f.length; i++) out.push(f[i]);
       }
     }
+    return out;
   }
 
   get size(): number {
     return this.where.size;
   }
+}
+
+/** Removes one occurrence of `id`; order within a cell carries no meaning, so the last fills the hole. */
+function removeFrom(cell: number[], id: number): void {
+  const i = cell.indexOf(id);
+  cell[i] = cell[cell.length - 1];
+  cell.pop();
 }

@@ -4,7 +4,9 @@
  */
 import type { Detection, Measurement, TrackStatus, TrackUpdate } from '../types.ts';
 import { EchotrailError } from '../errors.ts';
-import { mahalanobis2, type TrackFilter } from './filter-types.ts';
+import { lambdaMax, mahalanobis2, type GateDisc, type TrackFilter } from './filter-types.ts';
+
+export { lambdaMax };
 import { MofN } from './m-of-n.ts';
 
 export interface DeletionOptions {
@@ -24,11 +26,6 @@ export function resolveDeletionOptions(o: Partial<DeletionOptions> = {}): Deleti
   return r;
 }
 
-/** Largest eigenvalue of a symmetric 2×2 matrix. */
-export function lambdaMax(a: number, b: number, c: number): number {
-  const h = 0.5 * (a - c);
-  return 0.5 * (a + c) + Math.sqrt(h * h + b * b);
-}
 
 /**
  * Two detections of one stationary reflector differ by noise of covariance R₁ + R₂: beyond its
@@ -68,6 +65,10 @@ export class Track {
   lastMeasurement: Measurement | undefined;
   /** The latest hits, oldest first (at most RECENT_HITS), kept through coasts, for the left-behind test. */
   readonly recent: Measurement[] = [];
+  /** Disc the gate reaches until the next expected detection (the tracker's spatial index keeps it). */
+  readonly reach: GateDisc = { x: 0, y: 0, r: Infinity };
+  /** Until when `reach` holds the gate, s (see gate-index.ts). */
+  reachUntilS = -Infinity;
   private readonly mofn: MofN;
   private ax: number;
   private ay: number;

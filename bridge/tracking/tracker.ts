@@ -22,8 +22,8 @@ import { toMeasurement, type MeasurementOptions } from './measurement.ts';
 import { SeedPool } from './seeds.ts';
 import { ReleaseQueue } from './release-queue.ts';
 import { heldBack } from './sweep-deferral.ts';
-import { SpatialGrid } from './spatial-grid.ts';
-import { lambdaMax, RECENT_HITS, Track } from './track-life.ts';
+import { GateIndex } from './gate-index.ts';
+import { RECENT_HITS, Track } from './track-life.ts';
 import { resolveTrackerOptions, type TrackerOptions, type TrackerOptionsInput } from './tracker-options.ts';
 
 export { resolveTrackerOptions, describeInference, describeNoise };
@@ -52,7 +52,8 @@ export class Tracker implements TrackEngine {
   private meas!: MeasurementOptions;
   private echoes!: FixedEchoMap;
   private seeds!: SeedPool;
-  private readonly grid = new SpatialGrid(1);
+  /** Tracks by where their gates reach (set up once the interval is known). */
+  private index!: GateIndex;
   private readonly live = new Map<number, Track>();
   private nextId = 1;
   private batch: Detection[] = [];
@@ -188,6 +189,9 @@ export class Tracker implements TrackEngine {
     this.info = decide(buf, o, o.estimateNoise && !full && !this.flushing);
     if (!full && !this.flushing && (this.info.noisePending || this.info.intervalFrom === 'inferred')) this.noiseBuf = [...buf];
     this.meas = { ...this.options.measurement, sigmaRangeM: this.info.sigmaRangeM, sigmaAzimuthRad: this.info.sigmaAzimuthRad };
+    // 2 m cells: the default IMM's manoeuvre model gives gates of 1.5–3 m radius at a 1 s
+    // revolution, so a track covers a few cells and a cell holds few tracks.
+    this.index = new GateIndex(2, this.gamma, this.info.intervalS, o.initiation.maxSpeedMps);
     this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
     // A seed may wait out one missed scan, as a one-hit tentative track would under M-of-N.
     this.minGapS = this.info.antenna === 'rotating' ? MIN_GAP_REVOLUTIONS * this.info.intervalS : 0;
@@ -230,7 +234,10 @@ export class Tracker implements TrackEngine {
     // a wide tentative gate must never take a detection from an established track, and keeping
     // them apart keeps the clusters of the first pass small.
     const learn = o.fixedEchoes.enabled;
-    const gates = gateBatch(ms, this.grid, this.live, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps);
+    let latest = -Infinity;
+    for (const m of ms) if (m.timeS > latest) latest = m.timeS;
+    this.index.refresh(latest, this.live);
+    const gates = gateBatch(ms, this.index, this.live, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps);
     let { established, tentative } = gates;
     const { missCost, echo: cand, nearEstablished: nearConfirmed } = gates;
     const now = dets[dets.length - 1].timeS;
@@ -370,24 +377,11 @@ export class Tracker implements TrackEngine {
   private drop(t: Track): void {
     this.live.delete(t.id);
     this.waiting.delete(t.id);
-    this.grid.remove(t.id);
+    this.index.remove(t.id);
   }
 
-  /**
-   * Registers the track in the grid cells its gate can reach at its next expected detection:
-   * predicted position one interval ahead, gate radius √(γ·λmax(P + R)) plus the distance covered
-   * in a quarter interval of timing slack.
-   */
+  /** Writes the track's gate disc, until its next expected detection, into the gate index. */
   private register(t: Track): void {
-    const interval = this.info!.intervalS;
-    const p = t.filter.peek(t.filter.timeS + interval);
-    const m = t.lastMeasurement;
-    const rxx = m ? m.rxx : 0.01;
-    const ryy = m ? m.ryy : 0.01;
-    const rxy = m ? m.rxy : 0;
-    const e = t.filter.estimate();
-    const reach =
-      Math.sqrt(this.gamma * lambdaMax(p.pxx + rxx, p.pxy + rxy, p.pyy + ryy)) + 0.25 * interval * Math.hypot(e.vx, e.vy);
-    this.grid.set(t.id, 0.5 * (p.x + e.x), 0.5 * (p.y + e.y), reach + 0.5 * Math.hypot(p.x - e.x, p.y - e.y));
+    this.index.place(t);
   }
 }

@@ -35,15 +35,30 @@ describe('SpatialGrid', () => {
     }
   });
 
-  it('caps a reach at four fine cells and moves an entry without duplicates', () => {
+  it('returns an entry that reaches beyond the coarse level everywhere, and moves entries without duplicates', () => {
     const g = new SpatialGrid(1);
-    expect(g.maxReachM).toBe(4);
+    expect(g.maxReachM).toBe(12);
     g.set(1, 0.5, 0.5, 100);
     expect(g.query(4.4, 0.5)).toContain(1);
+    expect(g.query(90, -90)).toContain(1);
+    g.set(1, 0.5, 0.5, 10);
+    expect(g.query(-9, 10)).toContain(1);
     expect(g.query(20, 0.5)).not.toContain(1);
     g.set(1, 10.5, 0.5, 0.2);
     expect(g.query(0.5, 0.5)).not.toContain(1);
     expect(g.query(10.5, 0.5).filter((i) => i === 1)).toHaveLength(1);
+    expect(g.size).toBe(1);
+  });
+
+  it('reads one cell per level: an entry is not returned far outside its reach square', () => {
+    const g = new SpatialGrid(1);
+    g.set(1, 0.5, 0.5, 0.4); // covers the fine cell [0, 1)² only
+    g.set(2, 0.5, 0.5, 2.5); // fine cells -2..3 on both axes
+    expect(g.query(1.5, 0.5)).toEqual([2]);
+    expect(g.query(0.5, 0.5).slice().sort()).toEqual([1, 2]);
+    expect(g.query(4.5, 0.5)).toEqual([]);
+    g.remove(2);
+    expect(g.query(1.5, 0.5)).toEqual([]);
     expect(g.size).toBe(1);
   });
 });

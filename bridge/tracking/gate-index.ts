@@ -1,0 +1,110 @@
+/**
+ * Where each track's gate can reach: the spatial index the tracker gates against.
+ *
+ * A track is written into the grid with a disc that holds its gate over a time span, from its
+ * filter's time to a horizon (`reachUntilS`). A gate grows as the prediction ages (an IMM's
+ * manoeuvre model fastest), so a disc drawn for the next expected detection no longer holds the
+ * gate of a track that missed a scan: before gating detections up to time T, `refresh(T)` redraws
+ * the disc of every track whose horizon has passed, oldest horizon first from a min-heap, so a
+ * batch costs the number of stale tracks, not of all tracks. The grid then returns every track
+ * whose gate may admit a detection (a superset), and the gate test decides.
+ *
+ * The disc is the smaller of two that must both hold a detection the track may take (gating.ts):
+ * the χ² gate's, and the speed bound's (the fastest target's travel since the last hit, plus 3σ
+ * of noise). The χ² gate also grows with the detection's own noise, which the index cannot know
+ * in advance: it allows for a detection twice as noisy (in σ) as the track's last one, which
+ * covers the change of cross-range noise with range across any gate on a bench.
+ */
+import type { Measurement } from '../types.ts';
+import { enclosingDisc, type GateDisc, type TrackFilter } from './filter-types.ts';
+import { MinHeap } from './min-heap.ts';
+import { SpatialGrid } from './spatial-grid.ts';
+
+/** What the index needs of a track. */
+export interface IndexedTrack {
+  readonly id: number;
+  readonly filter: TrackFilter;
+  /** Largest eigenvalue of its detections' noise covariance, m². */
+  readonly lastRMax: number;
+  /** Its latest hits, the last one last (the speed bound starts there). */
+  readonly recent: readonly Measurement[];
+  /** The disc written into the grid (kept here so that gating can test it cheaply). */
+  readonly reach: GateDisc;
+  /** Time up to which `reach` holds the gate, s. */
+  reachUntilS: number;
+}
+
+/** Allowance for the noise of the detections to come: variance 4× the last one's (σ 2×). */
+const NOISE_ALLOWANCE = 4;
+
+/**
+ * Safety factor on the radius: between the three times a disc is computed at, the gate radius
+ * may grow slightly faster than linearly (a sum of terms in dt, dt², dt⁴ under a square root).
+ */
+const MARGIN = 1.05;
+
+export class GateIndex {
+  private readonly grid: SpatialGrid;
+  /** Tracks on the end of their discs; an entry is stale once the track was placed again. */
+  private readonly due = new MinHeap<IndexedTrack>();
+
+  /**
+   * @param cellM grid cell, m: about a typical gate radius
+   * @param gamma gate threshold (χ², 2 dof)
+   * @param spanS how far ahead of its filter time a track's disc is drawn, s (one interval: the
+   *   next expected detection; refresh() extends it for overdue tracks)
+   * @param maxSpeedMps fastest expected target, m/s (the speed bound of gating.ts)
+   */
+  constructor(
+    cellM: number,
+    private readonly gamma: number,
+    private readonly spanS: number,
+    private readonly maxSpeedMps: number,
+  ) {
+    this.grid = new SpatialGrid(cellM);
+  }
+
+  /** Writes (or rewrites) the track's disc from its filter's time to `untilS` (default: one span ahead). */
+  place(t: IndexedTrack, untilS = t.filter.timeS + this.spanS): void {
+    const f = t.filter;
+    const t0 = f.timeS;
+    const t1 = Math.max(untilS, t0);
+    const g = this.gamma;
+    const r = NOISE_ALLOWANCE * t.lastRMax;
+    const chi = enclosingDisc(enclosingDisc(f.gateDisc(t0, g, r), f.gateDisc(0.5 * (t0 + t1), g, r)), f.gateDisc(t1, g, r));
+    const h = t.recent[t.recent.length - 1];
+    const hMax = Math.max(h.rxx, h.ryy);
+    const speedR = this.maxSpeedMps * Math.max(0, t1 - h.timeS) + 3 * Math.sqrt(hMax + NOISE_ALLOWANCE * hMax);
+    const useChi = chi.r * MARGIN < speedR;
+    t.reach.x = useChi ? chi.x : h.x;
+    t.reach.y = useChi ? chi.y : h.y;
+    t.reach.r = useChi ? chi.r * MARGIN : speedR;
+    t.reachUntilS = t1;
+    this.grid.set(t.id, t.reach.x, t.reach.y, t.reach.r);
+    this.due.push(t1, t);
+  }
+
+  /** Redraws every track whose disc ends before `nowS` so that it holds until `nowS` plus one span. */
+  refresh(nowS: number, live: ReadonlyMap<number, IndexedTrack>): void {
+    while (this.due.minKey < nowS) {
+      const at = this.due.minKey;
+      const t = this.due.pop()!;
+      // Stale heap entries (the track was placed again, or is gone) are skipped.
+      if (t.reachUntilS !== at || live.get(t.id) !== t) continue;
+      this.place(t, nowS + this.spanS);
+    }
+  }
+
+  remove(id: number): void {
+    this.grid.remove(id);
+  }
+
+  /** Ids of tracks whose disc may hold (x, y); reused by the next call. */
+  query(x: number, y: number): readonly number[] {
+    return this.grid.query(x, y);
+  }
+
+  get size(): number {
+    return this.grid.size;
+  }
+}
