@@ -8,7 +8,7 @@
  * detections than tracks stays feasible.
  */
 import munkres from 'munkres';
-import { UnionFind, detectionKey, trackKey } from './union-find.ts';
+import { clusterPairs, pairsByCluster } from './union-find.ts';
 
 /** One gated (track, detection) pair and its cost (lower is better). */
 export interface GatedPair {
@@ -47,49 +47,30 @@ export function solveDense(cost: number[][], missCost: number[]): number[] {
 export function assign(pairs: readonly GatedPair[] | GatedPair[], missCost: (track: number) => number, maxCluster = Infinity): Array<[number, number]> {
   if (pairs.length === 0) return [];
   const result: Array<[number, number]> = [];
-  // Fast path: a pair whose track and detection appear in no other pair is a cluster of its
-  // own, the usual case; only the rest goes through union-find.
-  const tCount = new Map<number, number>();
-  const dCount = new Map<number, number>();
-  for (const p of pairs) {
-    tCount.set(p.track, (tCount.get(p.track) ?? 0) + 1);
-    dCount.set(p.det, (dCount.get(p.det) ?? 0) + 1);
+  let nDet = 0;
+  for (const p of pairs) if (p.det >= nDet) nDet = p.det + 1;
+  const clusters = clusterPairs(pairs, nDet);
+  // A pair whose track and detection appear in no other pair is a cluster of its own, the usual
+  // case: decided at once, in pair order; then the larger clusters in order of appearance.
+  for (let i = 0; i < pairs.length; i++) {
+    const p = pairs[i];
+    if (clusters.size[clusters.label[i]] === 1 && p.cost <= missCost(p.track)) result.push([p.track, p.det]);
   }
-  const rest: GatedPair[] = [];
-  for (const p of pairs) {
-    if (tCount.get(p.track) === 1 && dCount.get(p.det) === 1) {
-      if (p.cost <= missCost(p.track)) result.push([p.track, p.det]);
-    } else rest.push(p);
-  }
-  if (rest.length === 0) return result;
-  pairs = rest;
-  const sets = new UnionFind();
-  for (const p of pairs) sets.union(trackKey(p.track), detectionKey(p.det));
-  const find = (a: number): number => sets.find(a);
-  const clusters = new Map<number, GatedPair[]>();
-  for (const p of pairs) {
-    const root = find(trackKey(p.track));
-    const c = clusters.get(root);
-    if (c) c.push(p);
-    else clusters.set(root, [p]);
-  }
-  for (const c of clusters.values()) {
-    if (c.length === 1) {
-      if (c[0].cost <= missCost(c[0].track)) result.push([c[0].track, c[0].det]);
-      continue;
-    }
+  for (const members of pairsByCluster(clusters)) {
+    if (members.length === 1) continue;
+    const c = Array.from(members, (i) => pairs[i]);
     const tIdx = new Map<number, number>();
     const dIdx = new Map<number, number>();
     for (const p of c) {
       if (!tIdx.has(p.track)) tIdx.set(p.track, tIdx.size);
       if (!dIdx.has(p.det)) dIdx.set(p.det, dIdx.size);
     }
-    const cost = Array.from({ length: tIdx.size }, () => new Array<number>(dIdx.size).fill(FORBIDDEN));
-    for (const p of c) cost[tIdx.get(p.track)!][dIdx.get(p.det)!] = p.cost;
     if (tIdx.size > maxCluster) {
       greedy(c, missCost, result);
       continue;
     }
+    const cost = Array.from({ length: tIdx.size }, () => new Array<number>(dIdx.size).fill(FORBIDDEN));
+    for (const p of c) cost[tIdx.get(p.track)!][dIdx.get(p.det)!] = p.cost;
     const tracks = [...tIdx.keys()];
     const dets = [...dIdx.keys()];
     const sol = solveDense(cost, tracks.map(missCost));

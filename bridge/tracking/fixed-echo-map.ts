@@ -69,7 +69,7 @@ const A = 0.125;
 
 export class FixedEchoMap {
   private readonly cands = new Map<number, EchoCandidate>();
-  private readonly grid = new SpatialGrid(0.5);
+  private readonly grid = new SpatialGrid<EchoCandidate>(0.5);
   private nextId = 1;
   private fixedCount = 0;
 
@@ -109,8 +109,7 @@ export class FixedEchoMap {
     // Cheap Euclidean pre-check: no gate here is wider than 4 times the larger measurement σ.
     const r2 = 16 * (m.rxx + m.ryy);
     const vacate = this.vacateS();
-    for (const id of this.grid.queryBlock(m.x, m.y)) {
-      const c = this.cands.get(id)!;
+    for (const c of this.grid.queryBlock(m.x, m.y)) {
       const ex = m.x - c.x;
       const ey = m.y - c.y;
       if (ex * ex + ey * ey > r2) continue;
@@ -245,7 +244,7 @@ export class FixedEchoMap {
     if (!c) {
       c = { id: this.nextId++, x: m.x, y: m.y, n: 0, ampSum: 0, rate: 0, rateAll: 0, lastScanAll: scan - 1, lastScan: scan - 1, firstS: m.timeS, sinceS: m.timeS, lastSeenS: m.timeS, recentS: [NaN, NaN, NaN, NaN], recentAt: 0, scansSeen: 0, fixed: false };
       this.cands.set(c.id, c);
-      this.grid.set(c.id, m.x, m.y, 0);
+      this.grid.set(c, m.x, m.y, 0);
     }
     c.n++;
     c.x += (m.x - c.x) / c.n;
@@ -276,7 +275,7 @@ export class FixedEchoMap {
       const rate = c.rateAll * (1 - A) ** (scan - c.lastScanAll);
       if ((c.fixed && nowS - c.lastSeenS > forgetS) || (!c.fixed && rate < 0.05)) {
         this.cands.delete(c.id);
-        this.grid.remove(c.id);
+        this.grid.remove(c);
         if (c.fixed) this.fixedCount--;
       }
     }

@@ -43,10 +43,10 @@ const NOISE_ALLOWANCE = 4;
  */
 const MARGIN = 1.05;
 
-export class GateIndex {
-  private readonly grid: SpatialGrid;
+export class GateIndex<T extends IndexedTrack = IndexedTrack> {
+  private readonly grid: SpatialGrid<T>;
   /** Tracks on the end of their discs; an entry is stale once the track was placed again. */
-  private readonly due = new MinHeap<IndexedTrack>();
+  private readonly due = new MinHeap<T>();
 
   /**
    * @param cellM grid cell, m: about a typical gate radius
@@ -61,11 +61,11 @@ export class GateIndex {
     private readonly spanS: number,
     private readonly maxSpeedMps: number,
   ) {
-    this.grid = new SpatialGrid(cellM);
+    this.grid = new SpatialGrid<T>(cellM);
   }
 
   /** Writes (or rewrites) the track's disc from its filter's time to `untilS` (default: one span ahead). */
-  place(t: IndexedTrack, untilS = t.filter.timeS + this.spanS): void {
+  place(t: T, untilS = t.filter.timeS + this.spanS): void {
     const f = t.filter;
     const t0 = f.timeS;
     const t1 = Math.max(untilS, t0);
@@ -80,27 +80,27 @@ export class GateIndex {
     t.reach.y = useChi ? chi.y : h.y;
     t.reach.r = useChi ? chi.r * MARGIN : speedR;
     t.reachUntilS = t1;
-    this.grid.set(t.id, t.reach.x, t.reach.y, t.reach.r);
+    this.grid.set(t, t.reach.x, t.reach.y, t.reach.r);
     this.due.push(t1, t);
   }
 
   /** Redraws every track whose disc ends before `nowS` so that it holds until `nowS` plus one span. */
-  refresh(nowS: number, live: ReadonlyMap<number, IndexedTrack>): void {
+  refresh(nowS: number, live: ReadonlyMap<number, T>): void {
     while (this.due.minKey < nowS) {
       const at = this.due.minKey;
       const t = this.due.pop()!;
       // Stale heap entries (the track was placed again, or is gone) are skipped.
       if (t.reachUntilS !== at || live.get(t.id) !== t) continue;
-      this.place(t, nowS + this.spanS);
+      this.place(t, nowS + 0.25 * this.spanS);
     }
   }
 
-  remove(id: number): void {
-    this.grid.remove(id);
+  remove(t: T): void {
+    this.grid.remove(t);
   }
 
-  /** Ids of tracks whose disc may hold (x, y); reused by the next call. */
-  query(x: number, y: number): readonly number[] {
+  /** Tracks whose disc may hold (x, y) (test each against its `reach`); reused by the next call. */
+  query(x: number, y: number): readonly T[] {
     return this.grid.query(x, y);
   }
 

@@ -35,8 +35,7 @@ export interface BatchGates {
  */
 export function gateBatch(
   ms: readonly Measurement[],
-  index: Pick<GateIndex, 'query'>,
-  live: Map<number, Track>,
+  index: Pick<GateIndex<Track>, 'query'>,
   echoes: FixedEchoMap | null,
   gamma: number,
   minGapS = 0,
@@ -57,8 +56,8 @@ export function gateBatch(
       g.echoCost[j] = echoes.costOf(g.echo[j], m);
     }
     const echoCost = g.echoCost[j];
-    for (const id of index.query(m.x, m.y)) {
-      const t = live.get(id)!;
+    for (const t of index.query(m.x, m.y)) {
+      const id = t.id;
       // The grid returns whole cells: skip the tracks whose gate disc does not hold the detection.
       const rx = m.x - t.reach.x;
       const ry = m.y - t.reach.y;

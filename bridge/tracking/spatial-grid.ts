@@ -27,13 +27,13 @@ interface Placement {
   y1: number;
 }
 
-export class SpatialGrid {
-  private readonly fine = new Map<number, number[]>();
-  private readonly coarse = new Map<number, number[]>();
-  private readonly everywhere: number[] = [];
-  private readonly where = new Map<number, Placement>();
+export class SpatialGrid<T = number> {
+  private readonly fine = new Map<number, T[]>();
+  private readonly coarse = new Map<number, T[]>();
+  private readonly everywhere: T[] = [];
+  private readonly where = new Map<T, Placement>();
   private readonly inv: number;
-  private readonly out: number[] = [];
+  private readonly out: T[] = [];
 
   /** @param cellM fine cell edge, metres */
   constructor(readonly cellM: number) {
@@ -50,33 +50,37 @@ export class SpatialGrid {
     return COARSE * FINE_SPAN * this.cellM;
   }
 
-  /** Places `id` so that queries within `reachM` (Chebyshev distance) of (x, y) find it. */
-  set(id: number, x: number, y: number, reachM: number): void {
+  /**
+   * Places `id` so that queries within `reachM` (Chebyshev distance) of (x, y) find it. A block
+   * that must be rewritten is written a quarter cell wider than needed, so that the small moves
+   * of the next updates stay inside it.
+   */
+  set(id: T, x: number, y: number, reachM: number): void {
     const r = Math.max(reachM, 0);
     const level = r <= FINE_SPAN * this.cellM ? 0 : r <= this.maxReachM ? 1 : 2;
     const s = level === 0 ? this.inv : this.inv / COARSE;
-    const x0 = level === 2 ? 0 : Math.floor((x - r) * s);
-    const y0 = level === 2 ? 0 : Math.floor((y - r) * s);
-    const x1 = level === 2 ? 0 : Math.floor((x + r) * s);
-    const y1 = level === 2 ? 0 : Math.floor((y + r) * s);
+    const flat = level === 2;
+    const x0 = flat ? 0 : Math.floor((x - r) * s);
+    const y0 = flat ? 0 : Math.floor((y - r) * s);
+    const x1 = flat ? 0 : Math.floor((x + r) * s);
+    const y1 = flat ? 0 : Math.floor((y + r) * s);
     const old = this.where.get(id);
-    if (old) {
-      if (old.level === level && old.x0 === x0 && old.y0 === y0 && old.x1 === x1 && old.y1 === y1) return;
-      this.detach(id, old);
-      old.level = level;
-      old.x0 = x0;
-      old.y0 = y0;
-      old.x1 = x1;
-      old.y1 = y1;
-      this.attach(id, old);
-      return;
-    }
-    const p: Placement = { level, x0, y0, x1, y1 };
-    this.where.set(id, p);
+    // Still covered by the block written before, and that block not much wider: nothing to
+    // rewrite. Entries move a little at every update; this keeps most updates free.
+    if (old && old.level === level && old.x0 <= x0 && old.y0 <= y0 && old.x1 >= x1 && old.y1 >= y1 && old.x1 - old.x0 <= x1 - x0 + 2 && old.y1 - old.y0 <= y1 - y0 + 2) return;
+    const pad = flat ? 0 : r + 0.25 / s;
+    const p: Placement = old ?? { level, x0, y0, x1, y1 };
+    if (old) this.detach(id, old);
+    else this.where.set(id, p);
+    p.level = level;
+    p.x0 = flat ? 0 : Math.floor((x - pad) * s);
+    p.y0 = flat ? 0 : Math.floor((y - pad) * s);
+    p.x1 = flat ? 0 : Math.floor((x + pad) * s);
+    p.y1 = flat ? 0 : Math.floor((y + pad) * s);
     this.attach(id, p);
   }
 
-  private attach(id: number, p: Placement): void {
+  private attach(id: T, p: Placement): void {
     if (p.level === 2) {
       this.everywhere.push(id);
       return;
@@ -92,7 +96,7 @@ export class SpatialGrid {
     }
   }
 
-  private detach(id: number, p: Placement): void {
+  private detach(id: T, p: Placement): void {
     if (p.level === 2) {
       removeFrom(this.everywhere, id);
       return;
@@ -108,7 +112,7 @@ export class SpatialGrid {
     }
   }
 
-  remove(id: number): void {
+  remove(id: T): void {
     const p = this.where.get(id);
     if (!p) return;
     this.detach(id, p);
@@ -119,7 +123,7 @@ export class SpatialGrid {
    * Ids that may reach (x, y): a superset of those within their reach (whole cells). The array
    * is reused by the next call: consume it before querying again.
    */
-  query(x: number, y: number): readonly number[] {
+  query(x: number, y: number): readonly T[] {
     const out = this.out;
     out.length = 0;
     const f = this.fine.get(SpatialGrid.key(Math.floor(x * this.inv), Math.floor(y * this.inv)));
@@ -138,7 +142,7 @@ export class SpatialGrid {
    * one fine cell plus its reach. For point-like entries queried with a reach the query sets (the
    * fixed-echo map: the gate there depends on the detection's noise, not on the entry).
    */
-  queryBlock(x: number, y: number): readonly number[] {
+  queryBlock(x: number, y: number): readonly T[] {
     const out = this.out;
     out.length = 0;
     const ix = Math.floor(x * this.inv);
@@ -158,7 +162,7 @@ export class SpatialGrid {
 }
 
 /** Removes one occurrence of `id`; order within a cell carries no meaning, so the last fills the hole. */
-function removeFrom(cell: number[], id: number): void {
+function removeFrom<T>(cell: T[], id: T): void {
   const i = cell.indexOf(id);
   cell[i] = cell[cell.length - 1];
   cell.pop();

@@ -13,7 +13,7 @@
 import type { GatedPair } from './assignment.ts';
 import type { Track } from './track-life.ts';
 import { lambdaMax } from './track-life.ts';
-import { UnionFind, detectionKey, trackKey } from './union-find.ts';
+import { clusterPairs } from './union-find.ts';
 
 const TWO_PI = 2 * Math.PI;
 
@@ -73,39 +73,39 @@ export function heldBack(
     if (r > nowS) release[0] = r;
     return release;
   }
-  const sets = new UnionFind();
-  for (const p of pairs) sets.union(trackKey(p.track), detectionKey(p.det));
-  const find = (a: number): number => sets.find(a);
-  const firstTrack = new Map<number, number>();
-  const contested = new Set<number>();
-  const swept = new Map<number, number>();
-  const oldest = new Map<number, number>();
-  const sweptOf = new Map<number, number>();
-  for (const p of pairs) {
-    const root = find(trackKey(p.track));
+  const c = clusterPairs(pairs, detTimes.length);
+  const n = c.count;
+  const firstTrack = new Int32Array(n).fill(-1);
+  const contested = new Uint8Array(n);
+  const swept = new Float64Array(n).fill(-Infinity);
+  const oldest = new Float64Array(n).fill(Infinity);
+  const sweptOf = new Float64Array(c.tracks.length).fill(NaN);
+  for (let i = 0; i < pairs.length; i++) {
+    const p = pairs[i];
+    const k = c.label[i];
+    const ti = c.trackIndex[i];
     const t = live.get(p.track)!;
-    const f = firstTrack.get(root);
-    if (f === undefined) firstTrack.set(root, p.track);
-    else if (f !== p.track) contested.add(root);
+    if (firstTrack[k] < 0) firstTrack[k] = ti;
+    else if (firstTrack[k] !== ti) contested[k] = 1;
     // A tentative track has not learned its velocity: its wide gate may yet reach the detection
     // that continues it, later in the sweep. Nor is a detection that only the manoeuvre model
     // admits convincing: the detection the track expects may come a few degrees later.
-    if (t.status === 'tentative' || p.unlikely) contested.add(root);
+    if (t.status === 'tentative' || p.unlikely) contested[k] = 1;
     const w = waitingUntil(waiting, p.track, nowS);
-    if (w !== undefined) contested.add(root);
-    let s = sweptOf.get(p.track);
-    if (s === undefined) {
+    if (w !== undefined) contested[k] = 1;
+    let s = sweptOf[ti];
+    if (Number.isNaN(s)) {
       s = w ?? gateSweptS(t, nowS, beamAz, gamma, periodS);
-      sweptOf.set(p.track, s);
+      sweptOf[ti] = s;
     }
-    swept.set(root, Math.max(swept.get(root) ?? -Infinity, s));
-    oldest.set(root, Math.min(oldest.get(root) ?? Infinity, detTimes[p.det]));
+    if (s > swept[k]) swept[k] = s;
+    if (detTimes[p.det] < oldest[k]) oldest[k] = detTimes[p.det];
   }
-  for (const p of pairs) {
-    const root = find(trackKey(p.track));
-    if (!contested.has(root)) continue;
-    const r = Math.min(swept.get(root)!, oldest.get(root)! + maxWaitS);
-    if (r > nowS) release[p.det] = r;
+  for (let i = 0; i < pairs.length; i++) {
+    const k = c.label[i];
+    if (!contested[k]) continue;
+    const r = Math.min(swept[k], oldest[k] + maxWaitS);
+    if (r > nowS) release[pairs[i].det] = r;
   }
   return release;
 }

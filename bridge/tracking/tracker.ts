@@ -53,7 +53,7 @@ export class Tracker implements TrackEngine {
   private echoes!: FixedEchoMap;
   private seeds!: SeedPool;
   /** Tracks by where their gates reach (set up once the interval is known). */
-  private index!: GateIndex;
+  private index!: GateIndex<Track>;
   private readonly live = new Map<number, Track>();
   private nextId = 1;
   private batch: Detection[] = [];
@@ -191,7 +191,7 @@ export class Tracker implements TrackEngine {
     this.meas = { ...this.options.measurement, sigmaRangeM: this.info.sigmaRangeM, sigmaAzimuthRad: this.info.sigmaAzimuthRad };
     // 2 m cells: the default IMM's manoeuvre model gives gates of 1.5–3 m radius at a 1 s
     // revolution, so a track covers a few cells and a cell holds few tracks.
-    this.index = new GateIndex(2, this.gamma, this.info.intervalS, o.initiation.maxSpeedMps);
+    this.index = new GateIndex(4, this.gamma, this.info.intervalS, o.initiation.maxSpeedMps);
     this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
     // A seed may wait out one missed scan, as a one-hit tentative track would under M-of-N.
     this.minGapS = this.info.antenna === 'rotating' ? MIN_GAP_REVOLUTIONS * this.info.intervalS : 0;
@@ -237,7 +237,7 @@ export class Tracker implements TrackEngine {
     let latest = -Infinity;
     for (const m of ms) if (m.timeS > latest) latest = m.timeS;
     this.index.refresh(latest, this.live);
-    const gates = gateBatch(ms, this.index, this.live, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps);
+    const gates = gateBatch(ms, this.index, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps);
     let { established, tentative } = gates;
     const { missCost, echo: cand, nearEstablished: nearConfirmed } = gates;
     const now = dets[dets.length - 1].timeS;
@@ -377,7 +377,7 @@ export class Tracker implements TrackEngine {
   private drop(t: Track): void {
     this.live.delete(t.id);
     this.waiting.delete(t.id);
-    this.index.remove(t.id);
+    this.index.remove(t);
   }
 
   /** Writes the track's gate disc, until its next expected detection, into the gate index. */

@@ -1,34 +1,92 @@
 /**
- * Disjoint sets over sparse integer keys, with path compression: groups the gated
- * track–detection pairs of a batch into independent clusters, so that each cluster's assignment
- * is solved on its own (small) cost matrix. Tracks are keyed 2·id and detections 2·j + 1, so
- * that both share one key space (see `trackKey`, `detectionKey`).
+ * Clusters of gated pairs: tracks and detections linked by gates, found with a disjoint-set
+ * forest (union by size, path halving) over dense indices in typed arrays. Each cluster's
+ * assignment is solved on its own small cost matrix (assignment.ts), and a contested cluster waits
+ * for the beam as a whole (sweep-deferral.ts).
+ *
+ * Why dense indices: a batch has a few thousand pairs and this runs once or twice per batch, so
+ * the keyed maps of a general union-find were a tenth of the tracker's time.
  */
-export const trackKey = (id: number): number => 2 * id;
-export const detectionKey = (j: number): number => 2 * j + 1;
 
-export class UnionFind {
-  private readonly parent = new Map<number, number>();
+/** One gated (track, detection) pair, as far as clustering is concerned. */
+export interface PairLink {
+  track: number;
+  det: number;
+}
 
-  /** The representative of `a`'s set (a itself when never joined). */
-  find(a: number): number {
-    let r = a;
-    for (let p = this.parent.get(r); p !== undefined && p !== r; p = this.parent.get(r)) r = p;
-    // Path compression: later look-ups of the same keys take one step.
-    for (let c = a; c !== r; ) {
-      const n = this.parent.get(c)!;
-      this.parent.set(c, r);
-      c = n;
+export interface PairClusters {
+  /** Cluster of each pair, 0..count−1, numbered in order of first appearance. */
+  label: Int32Array;
+  count: number;
+  /** Pairs in each cluster. */
+  size: Int32Array;
+  /** Local index of each pair's track, 0..tracks.length−1. */
+  trackIndex: Int32Array;
+  /** Track id of each local index, in order of first appearance. */
+  tracks: number[];
+}
+
+/** Groups `pairs` (detections numbered 0..nDet−1) into clusters linked by a shared track or detection. */
+export function clusterPairs(pairs: readonly PairLink[], nDet: number): PairClusters {
+  const n = pairs.length;
+  const local = new Map<number, number>();
+  const tracks: number[] = [];
+  const trackIndex = new Int32Array(n);
+  for (let i = 0; i < n; i++) {
+    const id = pairs[i].track;
+    let k = local.get(id);
+    if (k === undefined) {
+      k = tracks.length;
+      local.set(id, k);
+      tracks.push(id);
     }
-    return r;
+    trackIndex[i] = k;
   }
+  // Nodes: detections 0..nDet−1, then tracks.
+  const nodes = nDet + tracks.length;
+  const parent = new Int32Array(nodes);
+  const weight = new Int32Array(nodes).fill(1);
+  for (let v = 0; v < nodes; v++) parent[v] = v;
+  const find = (v: number): number => {
+    while (parent[v] !== v) {
+      parent[v] = parent[parent[v]];
+      v = parent[v];
+    }
+    return v;
+  };
+  for (let i = 0; i < n; i++) {
+    let a = find(pairs[i].det);
+    let b = find(nDet + trackIndex[i]);
+    if (a === b) continue;
+    if (weight[a] < weight[b]) {
+      const s = a;
+      a = b;
+      b = s;
+    }
+    parent[b] = a;
+    weight[a] += weight[b];
+  }
+  const labelOf = new Int32Array(nodes).fill(-1);
+  const label = new Int32Array(n);
+  let count = 0;
+  for (let i = 0; i < n; i++) {
+    const r = find(pairs[i].det);
+    if (labelOf[r] < 0) labelOf[r] = count++;
+    label[i] = labelOf[r];
+  }
+  const size = new Int32Array(count);
+  for (let i = 0; i < n; i++) size[label[i]]++;
+  return { label, count, size, trackIndex, tracks };
+}
 
-  /** Joins the sets of `a` and `b`. */
-  union(a: number, b: number): void {
-    if (!this.parent.has(a)) this.parent.set(a, a);
-    if (!this.parent.has(b)) this.parent.set(b, b);
-    const ra = this.find(a);
-    const rb = this.find(b);
-    if (ra !== rb) this.parent.set(ra, rb);
+/** The pairs of each cluster, as index lists into `pairs` in their original order. */
+export function pairsByCluster(c: PairClusters): Int32Array[] {
+  const out: Int32Array[] = [];
+  for (let k = 0; k < c.count; k++) out.push(new Int32Array(c.size[k]));
+  const fill = new Int32Array(c.count);
+  for (let i = 0; i < c.label.length; i++) {
+    const k = c.label[i];
+    out[k][fill[k]++] = i;
   }
+  return out;
 }

@@ -64,7 +64,7 @@ describe('GateIndex', () => {
           if (!admits(t, m)) continue;
           admitted++;
           const inDisc = Math.hypot(m.x - t.reach.x, m.y - t.reach.y) <= t.reach.r;
-          if (!found.has(t.id) || !inDisc) missed.push(`track ${t.id} at ${now} s: (${m.x.toFixed(2)}, ${m.y.toFixed(2)})`);
+          if (!found.has(t) || !inDisc) missed.push(`track ${t.id} at ${now} s: (${m.x.toFixed(2)}, ${m.y.toFixed(2)})`);
         }
       }
     }
@@ -90,12 +90,12 @@ describe('GateIndex', () => {
     const index = new GateIndex(2, GAMMA, 1, MAX_SPEED);
     const live = new Map([[1, t]]);
     index.place(t);
-    expect(index.query(m0.x, m0.y)).toContain(1);
+    expect(index.query(m0.x, m0.y)).toContain(t);
     live.delete(1);
-    index.remove(1);
+    index.remove(t);
     index.refresh(5, live);
     expect(index.size).toBe(0);
-    expect(index.query(m0.x, m0.y)).not.toContain(1);
+    expect(index.query(m0.x, m0.y)).not.toContain(t);
   });
 });
 

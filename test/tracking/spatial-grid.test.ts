@@ -52,8 +52,8 @@ describe('SpatialGrid', () => {
 
   it('reads one cell per level: an entry is not returned far outside its reach square', () => {
     const g = new SpatialGrid(1);
-    g.set(1, 0.5, 0.5, 0.4); // covers the fine cell [0, 1)² only
-    g.set(2, 0.5, 0.5, 2.5); // fine cells -2..3 on both axes
+    g.set(1, 0.5, 0.5, 0.1); // with a quarter cell of slack, still only the fine cell [0, 1)²
+    g.set(2, 0.5, 0.5, 2.5); // fine cells -3..3 on both axes
     expect(g.query(1.5, 0.5)).toEqual([2]);
     expect(g.query(0.5, 0.5).slice().sort()).toEqual([1, 2]);
     expect(g.query(4.5, 0.5)).toEqual([]);
