@@ -11,9 +11,10 @@
  *
  * The disc is the smaller of two that must both hold a detection the track may take (gating.ts):
  * the χ² gate's, and the speed bound's (the fastest target's travel since the last hit, plus 3σ
- * of noise). The χ² gate also grows with the detection's own noise, which the index cannot know
- * in advance: it allows for a detection twice as noisy (in σ) as the track's last one, which
- * covers the change of cross-range noise with range across any gate on a bench.
+ * of noise). Both also grow with the detection's own noise, which the index cannot know in
+ * advance; but a detection's noise depends only on its range (cross-range noise is r·σ_azimuth),
+ * so the disc is drawn for the noise at the farthest range it reaches (`noiseAtRange`), found by
+ * a short fixed-point iteration: wider noise, wider disc, farther range.
  */
 import type { Measurement } from '../types.ts';
 import { enclosingDisc, type GateDisc, type TrackFilter } from './filter-types.ts';
@@ -34,9 +35,6 @@ export interface IndexedTrack {
   reachUntilS: number;
 }
 
-/** Allowance for the noise of the detections to come: variance 4× the last one's (σ 2×). */
-const NOISE_ALLOWANCE = 4;
-
 /**
  * Safety factor on the radius: between the three times a disc is computed at, the gate radius
  * may grow slightly faster than linearly (a sum of terms in dt, dt², dt⁴ under a square root).
@@ -54,12 +52,15 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
    * @param spanS how far ahead of its filter time a track's disc is drawn, s (one interval: the
    *   next expected detection; refresh() extends it for overdue tracks)
    * @param maxSpeedMps fastest expected target, m/s (the speed bound of gating.ts)
+   * @param noiseAtRange largest eigenvalue of a detection's noise covariance at a range, m²
+   *   (non-decreasing in range); read at every placement, so it may follow the noise estimate
    */
   constructor(
     cellM: number,
     private readonly gamma: number,
     private readonly spanS: number,
     private readonly maxSpeedMps: number,
+    private readonly noiseAtRange: (rangeM: number) => number,
   ) {
     this.grid = new SpatialGrid<T>(cellM);
   }
@@ -69,19 +70,36 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
     const f = t.filter;
     const t0 = f.timeS;
     const t1 = Math.max(untilS, t0);
-    const g = this.gamma;
-    const r = NOISE_ALLOWANCE * t.lastRMax;
-    const chi = enclosingDisc(enclosingDisc(f.gateDisc(t0, g, r), f.gateDisc(0.5 * (t0 + t1), g, r)), f.gateDisc(t1, g, r));
     const h = t.recent[t.recent.length - 1];
-    const hMax = Math.max(h.rxx, h.ryy);
-    const speedR = this.maxSpeedMps * Math.max(0, t1 - h.timeS) + 3 * Math.sqrt(hMax + NOISE_ALLOWANCE * hMax);
-    const useChi = chi.r * MARGIN < speedR;
-    t.reach.x = useChi ? chi.x : h.x;
-    t.reach.y = useChi ? chi.y : h.y;
-    t.reach.r = useChi ? chi.r * MARGIN : speedR;
+    let noise = t.lastRMax;
+    let d = this.disc(t, t0, t1, h, noise);
+    // Converges in a step or two: the noise is small against the disc.
+    for (let k = 0; ; k++) {
+      const far = this.noiseAtRange(Math.hypot(d.x, d.y) + d.r);
+      if (far <= noise) break;
+      // Not settled after a few steps (never seen): take the noise twice as far out.
+      noise = k < 4 ? far : this.noiseAtRange(2 * (Math.hypot(d.x, d.y) + d.r));
+      d = this.disc(t, t0, t1, h, noise);
+      if (k >= 4) break;
+    }
+    t.reach.x = d.x;
+    t.reach.y = d.y;
+    t.reach.r = d.r;
     t.reachUntilS = t1;
     this.grid.set(t, t.reach.x, t.reach.y, t.reach.r);
     this.due.push(t1, t);
+  }
+
+  /**
+   * The smaller of the χ² disc and the speed-bound disc over [t0, t1], for detections whose noise
+   * covariance has largest eigenvalue at most `noise`.
+   */
+  private disc(t: T, t0: number, t1: number, h: Measurement, noise: number): GateDisc {
+    const f = t.filter;
+    const g = this.gamma;
+    const chi = enclosingDisc(enclosingDisc(f.gateDisc(t0, g, noise), f.gateDisc(0.5 * (t0 + t1), g, noise)), f.gateDisc(t1, g, noise));
+    const speedR = this.maxSpeedMps * Math.max(0, t1 - h.timeS) + 3 * Math.sqrt(Math.max(h.rxx, h.ryy) + noise);
+    return chi.r * MARGIN < speedR ? { x: chi.x, y: chi.y, r: chi.r * MARGIN } : { x: h.x, y: h.y, r: speedR };
   }
 
   /** Redraws every track whose disc ends before `nowS` so that it holds until `nowS` plus one span. */

@@ -102,6 +102,17 @@ export function convertUnbiased(r: number, theta: number, sr: number, st: number
   };
 }
 
+/**
+ * Largest eigenvalue of the converted noise covariance of a detection at range `rangeM` (before
+ * the range offset), m². It does not depend on azimuth (both conversions' covariances turn with
+ * the line of sight) and grows with range: the gate index sizes its discs with it.
+ */
+export function noiseAtRange(rangeM: number, o: MeasurementOptions): number {
+  const r = Math.max(rangeM + o.rangeOffsetM, 0);
+  const m = o.conversion === 'unbiased' ? convertUnbiased(r, 0, o.sigmaRangeM, o.sigmaAzimuthRad) : convertLinearised(r, 0, o.sigmaRangeM, o.sigmaAzimuthRad);
+  return Math.max(m.rxx, m.ryy);
+}
+
 /** Converts one detection (azimuth clockwise from +y) with offsets applied. */
 export function toMeasurement(d: Detection, o: MeasurementOptions): Measurement {
   const r = d.rangeM + o.rangeOffsetM;

@@ -18,7 +18,7 @@ import { createFilter } from './filter.ts';
 import { FixedEchoMap } from './fixed-echo-map.ts';
 import { gateThreshold } from './gate.ts';
 import { antennaSettled, decide, decideNoise, describeInference, describeNoise, type TrackerInference } from './inference.ts';
-import { toMeasurement, type MeasurementOptions } from './measurement.ts';
+import { noiseAtRange, toMeasurement, type MeasurementOptions } from './measurement.ts';
 import { SeedPool } from './seeds.ts';
 import { ReleaseQueue } from './release-queue.ts';
 import { heldBack } from './sweep-deferral.ts';
@@ -191,7 +191,7 @@ export class Tracker implements TrackEngine {
     this.meas = { ...this.options.measurement, sigmaRangeM: this.info.sigmaRangeM, sigmaAzimuthRad: this.info.sigmaAzimuthRad };
     // 2 m cells: the default IMM's manoeuvre model gives gates of 1.5–3 m radius at a 1 s
     // revolution, so a track covers a few cells and a cell holds few tracks.
-    this.index = new GateIndex(4, this.gamma, this.info.intervalS, o.initiation.maxSpeedMps);
+    this.index = new GateIndex(4, this.gamma, this.info.intervalS, o.initiation.maxSpeedMps, (r) => noiseAtRange(r, this.meas));
     this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
     // A seed may wait out one missed scan, as a one-hit tentative track would under M-of-N.
     this.minGapS = this.info.antenna === 'rotating' ? MIN_GAP_REVOLUTIONS * this.info.intervalS : 0;

@@ -3,7 +3,7 @@ import { GateIndex, type IndexedTrack } from '../../bridge/tracking/gate-index.t
 import { enclosingDisc, lambdaMax } from '../../bridge/tracking/filter-types.ts';
 import { ImmCv2 } from '../../bridge/tracking/imm.ts';
 import { KalmanCv } from '../../bridge/tracking/kalman-cv.ts';
-import { convertUnbiased } from '../../bridge/tracking/measurement.ts';
+import { convertUnbiased, noiseAtRange } from '../../bridge/tracking/measurement.ts';
 import { createRng } from '../../bridge/sim/prng.ts';
 import type { Measurement } from '../../bridge/types.ts';
 
@@ -12,7 +12,9 @@ const MAX_SPEED = 1.5;
 const imm = { model: 'dwna' as const, sigmaLow: 0.05, sigmaHigh: 1, sojournLowS: 10, sojournHighS: 2, sigmaVel0: 0.75 };
 
 /** A detection at polar (r, θ) with 5 cm / 1.5° noise, as the tracker converts it (Mo et al. 1998). */
-const meas = (t: number, r: number, theta: number): Measurement => convertUnbiased(r, theta, 0.05, (1.5 * Math.PI) / 180, t);
+const SIGMAS = { conversion: 'unbiased' as const, sigmaRangeM: 0.05, sigmaAzimuthRad: (1.5 * Math.PI) / 180, rangeOffsetM: 0, azimuthOffsetRad: 0 };
+const meas = (t: number, r: number, theta: number): Measurement => convertUnbiased(r, theta, SIGMAS.sigmaRangeM, SIGMAS.sigmaAzimuthRad, t);
+const noise = (r: number) => noiseAtRange(r, SIGMAS);
 
 function track(id: number, m: Measurement, filter: IndexedTrack['filter']): IndexedTrack {
   return { id, filter, lastRMax: lambdaMax(m.rxx, m.rxy, m.ryy), recent: [m], reach: { x: 0, y: 0, r: Infinity }, reachUntilS: -Infinity };
@@ -30,7 +32,7 @@ function admits(t: IndexedTrack, m: Measurement): boolean {
 describe('GateIndex', () => {
   it('returns every track whose gate admits a detection, however long the track has coasted (against brute force)', () => {
     const rng = createRng(11);
-    const index = new GateIndex(2, GAMMA, 1, MAX_SPEED);
+    const index = new GateIndex(2, GAMMA, 1, MAX_SPEED, noise);
     const live = new Map<number, IndexedTrack>();
     // Tracks over a 7 m bench, each updated once a second for a while, some then left to coast.
     for (let id = 1; id <= 60; id++) {
@@ -76,18 +78,22 @@ describe('GateIndex', () => {
   it('draws a disc no wider than the speed bound for a track that coasts long', () => {
     const m0 = meas(0, 3, 0.3);
     const t = track(1, m0, new ImmCv2(m0, imm));
-    const index = new GateIndex(2, GAMMA, 1, MAX_SPEED);
+    const index = new GateIndex(2, GAMMA, 1, MAX_SPEED, noise);
     index.place(t, 10);
-    // 1.5 m/s for 10 s plus 3σ of two detections' noise (allowing σ twice the last one's).
-    const s = Math.max(m0.rxx, m0.ryy);
-    expect(t.reach.r).toBeCloseTo(MAX_SPEED * 10 + 3 * Math.sqrt(5 * s), 9);
+    // 1.5 m/s for 10 s plus 3σ of two detections' noise: the last hit's and that of a detection
+    // at the disc's far edge (the disc is centred on the last hit), which it must cover.
+    const bound = (far: number) => MAX_SPEED * 10 + 3 * Math.sqrt(Math.max(m0.rxx, m0.ryy) + noise(far));
+    const edge = Math.hypot(m0.x, m0.y) + t.reach.r;
+    expect(t.reach.r).toBeGreaterThanOrEqual(bound(edge));
+    expect(t.reach.r).toBeLessThanOrEqual(bound(2 * edge));
+    expect(t.reach.x).toBe(m0.x);
     expect(t.reachUntilS).toBe(10);
   });
 
   it('forgets a removed track and skips it when refreshing', () => {
     const m0 = meas(0, 3, 0.3);
     const t = track(1, m0, new KalmanCv(m0, { model: 'dwna', sigmaAccel: 0.3, sigmaVel0: 0.75 }));
-    const index = new GateIndex(2, GAMMA, 1, MAX_SPEED);
+    const index = new GateIndex(2, GAMMA, 1, MAX_SPEED, noise);
     const live = new Map([[1, t]]);
     index.place(t);
     expect(index.query(m0.x, m0.y)).toContain(t);

@@ -3,12 +3,14 @@ import {
   azimuthDiff,
   convertLinearised,
   convertUnbiased,
+  noiseAtRange,
   resolveMeasurementOptions,
   toMeasurement,
   wrapAzimuth,
 } from '../../bridge/tracking/measurement.ts';
 import { createRng } from '../../bridge/sim/prng.ts';
 import { hasCode } from '../../bridge/errors.ts';
+import { lambdaMax } from '../../bridge/tracking/filter-types.ts';
 
 const DEG = Math.PI / 180;
 
@@ -82,5 +84,19 @@ describe('polar → Cartesian conversion', () => {
       err = e;
     }
     expect(hasCode(err, 'E_OPTION')).toBe(true);
+  });
+});
+
+describe('noiseAtRange', () => {
+  it('is the largest eigenvalue of the converted covariance, whatever the azimuth', () => {
+    const o = { conversion: 'unbiased' as const, sigmaRangeM: 0.05, sigmaAzimuthRad: (1.5 * Math.PI) / 180, rangeOffsetM: 0.1, azimuthOffsetRad: 0 };
+    for (const conversion of ['unbiased', 'linearised'] as const) {
+      for (const az of [0, 0.7, 2, 4.5]) {
+        const m = toMeasurement({ timeS: 0, azimuthRad: az, rangeM: 4, amplitude: 1 }, { ...o, conversion });
+        expect(noiseAtRange(4, { ...o, conversion })).toBeCloseTo(lambdaMax(m.rxx, m.rxy, m.ryy), 12);
+      }
+    }
+    // Linearised: the eigenvalues are σr² and (r·σθ)² (Bar-Shalom et al. 2001, §10.4.3), r with the offset.
+    expect(noiseAtRange(4, { ...o, conversion: 'linearised' })).toBeCloseTo((4.1 * o.sigmaAzimuthRad) ** 2, 12);
   });
 });
