@@ -36,6 +36,7 @@ export interface TrackFilter {
   /**
    * Gate statistic d² = νᵀS⁻¹ν of a measurement against the prediction at its time, and ln|S|;
    * the tracker gates on d2 and prices the pair at d2 + logDetS. Does not change the filter.
+   * The result may be a shared object: read it before the next gate() call.
    */
   gate(m: Measurement): GateResult;
 }
@@ -60,7 +61,10 @@ export function discOf(p: PositionPrediction, gamma: number, rMax: number): Gate
 
 /** The smallest disc holding two discs. */
 export function enclosingDisc(a: GateDisc, b: GateDisc): GateDisc {
-  const d = Math.hypot(b.x - a.x, b.y - a.y);
+  const dx = b.x - a.x;
+  const dy = b.y - a.y;
+  // sqrt, not Math.hypot: this runs for every track placement, and hypot is several times slower.
+  const d = Math.sqrt(dx * dx + dy * dy);
   if (d + b.r <= a.r) return a;
   if (d + a.r <= b.r) return b;
   const r = 0.5 * (d + a.r + b.r);

@@ -75,10 +75,11 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
     let d = this.disc(t, t0, t1, h, noise);
     // Converges in a step or two: the noise is small against the disc.
     for (let k = 0; ; k++) {
-      const far = this.noiseAtRange(Math.hypot(d.x, d.y) + d.r);
+      const edge = Math.sqrt(d.x * d.x + d.y * d.y) + d.r;
+      const far = this.noiseAtRange(edge);
       if (far <= noise) break;
       // Not settled after a few steps (never seen): take the noise twice as far out.
-      noise = k < 4 ? far : this.noiseAtRange(2 * (Math.hypot(d.x, d.y) + d.r));
+      noise = k < 4 ? far : this.noiseAtRange(2 * edge);
       d = this.disc(t, t0, t1, h, noise);
       if (k >= 4) break;
     }

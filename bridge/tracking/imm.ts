@@ -35,9 +35,13 @@ export interface ImmOptions {
 // Gate scratch: filled and consumed within one gate() call.
 const GATE_A: GateResult = { d2: 0, logDetS: 0 };
 const GATE_B: GateResult = { d2: 0, logDetS: 0 };
+// gate()'s answer: read it before the next gate() call (the tracker gates hundreds of thousands of
+// pairs a second; a fresh object each time was a good part of its garbage).
+const GATE_OUT: GateResult = { d2: 0, logDetS: 0, d2Likely: 0 };
 // Mixing scratch: filled and consumed within one predict() call.
 const MIX_X = [new Float64Array(4), new Float64Array(4)];
 const MIX_P = [new Float64Array(16), new Float64Array(16)];
+const MIX_W = new Float64Array(4);
 
 export class ImmCv2 implements TrackFilter {
   readonly models: [KalmanCv, KalmanCv];
@@ -98,7 +102,10 @@ export class ImmCv2 implements TrackFilter {
     const ca = a.d2 + a.logDetS;
     const cb = b.d2 + b.logDetS;
     const d2 = Math.min(a.d2, b.d2);
-    return { d2, logDetS: Math.min(ca, cb) - d2, d2Likely: this.mu[0] >= this.mu[1] ? a.d2 : b.d2 };
+    GATE_OUT.d2 = d2;
+    GATE_OUT.logDetS = Math.min(ca, cb) - d2;
+    GATE_OUT.d2Likely = this.mu[0] >= this.mu[1] ? a.d2 : b.d2;
+    return GATE_OUT;
   }
 
   predict(t: number): void {
@@ -110,18 +117,19 @@ export class ImmCv2 implements TrackFilter {
     const p11 = 1 - p10;
     const c0 = p00 * this.mu[0] + p10 * this.mu[1];
     const c1 = p01 * this.mu[0] + p11 * this.mu[1];
-    // Mixing weights μ_{i|j} = π_ij μ_i / c_j.
-    const w = [
-      [(p00 * this.mu[0]) / c0, (p10 * this.mu[1]) / c0],
-      [(p01 * this.mu[0]) / c1, (p11 * this.mu[1]) / c1],
-    ];
+    // Mixing weights μ_{i|j} = π_ij μ_i / c_j, row j = [from quiet, from manoeuvre].
+    const w = MIX_W;
+    w[0] = (p00 * this.mu[0]) / c0;
+    w[1] = (p10 * this.mu[1]) / c0;
+    w[2] = (p01 * this.mu[0]) / c1;
+    w[3] = (p11 * this.mu[1]) / c1;
     const m0 = this.models[0];
     const m1 = this.models[1];
     for (let j = 0; j < 2; j++) {
       const x = MIX_X[j];
       const P = MIX_P[j];
-      const wa = w[j][0];
-      const wb = w[j][1];
+      const wa = w[2 * j];
+      const wb = w[2 * j + 1];
       for (let i = 0; i < 4; i++) x[i] = wa * m0.x[i] + wb * m1.x[i];
       for (let r = 0; r < 4; r++) {
         const da = m0.x[r] - x[r];

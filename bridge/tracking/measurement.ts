@@ -109,8 +109,15 @@ export function convertUnbiased(r: number, theta: number, sr: number, st: number
  */
 export function noiseAtRange(rangeM: number, o: MeasurementOptions): number {
   const r = Math.max(rangeM + o.rangeOffsetM, 0);
-  const m = o.conversion === 'unbiased' ? convertUnbiased(r, 0, o.sigmaRangeM, o.sigmaAzimuthRad) : convertLinearised(r, 0, o.sigmaRangeM, o.sigmaAzimuthRad);
-  return Math.max(m.rxx, m.ryy);
+  const sr2 = o.sigmaRangeM * o.sigmaRangeM;
+  const st2 = o.sigmaAzimuthRad * o.sigmaAzimuthRad;
+  if (o.conversion === 'linearised') return Math.max(sr2, r * r * st2);
+  // Mo et al.'s R is (λθ⁻² − 2)·r²·uuᵀ + ½(r² + σr²)·(I + λ′·(reflection about u)), u the line of
+  // sight: both terms share the eigenvectors u and u⊥.
+  const lt2 = Math.exp(-st2);
+  const lp = Math.exp(-2 * st2);
+  const h = 0.5 * (r * r + sr2);
+  return Math.max((1 / lt2 - 2) * r * r + h * (1 + lp), h * (1 - lp));
 }
 
 /** Converts one detection (azimuth clockwise from +y) with offsets applied. */

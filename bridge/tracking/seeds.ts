@@ -69,7 +69,9 @@ export class SeedPool {
           if (s.dead || !(dt > 0) || dt < this.minGapS) continue;
           const sig = Math.sqrt(Math.max(s.m.rxx + m.rxx, s.m.ryy + m.ryy));
           const reach = this.maxSpeedMps * dt + 3 * sig;
-          const q = Math.hypot(m.x - s.m.x, m.y - s.m.y) / reach;
+          const dx = m.x - s.m.x;
+          const dy = m.y - s.m.y;
+          const q = Math.sqrt(dx * dx + dy * dy) / reach;
           if (q < bq) {
             bq = q;
             best = s;

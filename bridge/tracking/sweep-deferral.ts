@@ -33,7 +33,7 @@ function wrap(a: number): number {
 export function gateSweptS(t: Track, nowS: number, beamAz: number, gamma: number, periodS: number): number {
   const p = t.filter.peek(Math.max(nowS, t.filter.timeS));
   const radius = Math.sqrt(gamma * (lambdaMax(p.pxx, p.pxy, p.pyy) + t.lastRMax));
-  const r = Math.hypot(p.x, p.y);
+  const r = Math.sqrt(p.x * p.x + p.y * p.y);
   if (r <= radius) return Infinity;
   const ahead = wrap(Math.atan2(p.x, p.y) + Math.asin(radius / r) - beamAz);
   return ahead > 0 ? nowS + (ahead / TWO_PI) * periodS : nowS;
