@@ -5,6 +5,7 @@ import { PassThrough, Readable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
 import { formatSkipReport, readDetectionsCsv, writeDetectionsCsv } from '../../bridge/ingest/detections-csv.ts';
 import { hasCode } from '../../bridge/errors.ts';
+import { createRng } from '../../bridge/sim/prng.ts';
 import type { Detection } from '../../bridge/types.ts';
 
 const fromText = (text: string) => Readable.from([text]);
@@ -203,5 +204,27 @@ describe('readDetectionsCsv: quotes', () => {
     expect(got).toEqual([1.0, 1.2, 1.3, 1.4]);
     expect(r.report.skipped).toBe(1);
     expect(r.report.firstSkipped?.line).toBe(3);
+  });
+});
+
+describe('readDetectionsCsv: numbers', () => {
+  it('reads every decimal form exactly as Number() does and refuses the rest', async () => {
+    // The amplitude passes through unchanged, so it shows the parsed value itself: plain and
+    // signed forms, leading and trailing points, exponents, more digits than a double holds,
+    // the smallest and largest doubles.
+    const good = ['7', '+.5', '5.', '0.1', '1e-30', '1E+2', '2.5e-5', '00012.5000', '12345678901234567890', '0.30000000000000004', '9007199254740993',
+      '123456789012345e-22', '1e22', '1e23', '1.7976931348623157e308', '4.9e-324', '1e0001', '1e-00001', ' 5 ', '"7.25"'];
+    const rng = createRng(3);
+    for (let i = 0; i < 3000; i++) {
+      const v = rng.uniform() * 10 ** Math.floor(rng.uniform() * 50 - 25);
+      good.push([String(v), v.toFixed(Math.floor(rng.uniform() * 12)), v.toPrecision(1 + Math.floor(rng.uniform() * 20)), v.toExponential(Math.floor(rng.uniform() * 17))][i % 4]);
+    }
+    const usable = good.filter((c) => Number(c.trim().replace(/"/g, '')) > 0);
+    const bad = ['1e', '.', '-', '+e1', '0x10', 'Infinity', '1e400', '1.2.3', '1e1.5', '--1', '1 2', ''];
+    const lines = ['time_s,azimuth_deg,range_m,amplitude', ...[...usable, ...bad].map((c, i) => `${i},1,2,${c}`)];
+    const { rows, report } = await readAll(lines.join('\n') + '\n');
+    expect(rows.map((d) => d.amplitude)).toEqual(usable.map((c) => Number(c.trim().replace(/"/g, ''))));
+    expect(report.skipped).toBe(bad.length);
+    expect(Object.fromEntries(report.reasons)).toEqual({ 'bad amplitude': bad.length });
   });
 });
