@@ -15,9 +15,11 @@ import { EchotrailError } from '../errors.ts';
 import { formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
 import { loadTrackerProfile } from '../tracking/profile.ts';
 import { describeInference, describeNoise, Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
-import { TRACKS_CSV_HEADER, trackCsvLine } from '../tracking/tracks-csv.ts';
+import { TracksCsvEncoder } from '../tracking/tracks-csv.ts';
 
 const DEG = Math.PI / 180;
+/** Output leaves in writes of about this many bytes. */
+const CHUNK_BYTES = 65536;
 
 const num = (v: string) => {
   const n = Number(v);
@@ -171,7 +173,9 @@ async function trackFile(tracker: Tracker, input: string, output: string, maxRan
   let told = false;
   let lastProgress = 0;
   let rows = 0;
-  let buf = TRACKS_CSV_HEADER + '\n';
+  // Rows are formatted into bytes and leave in ~64 kB writes: a write per row would cost more than the row.
+  const rowsOut = new TracksCsvEncoder(CHUNK_BYTES);
+  rowsOut.header();
   let noiseTold = false;
   const tell = () => {
     const inf = tracker.inferred();
@@ -185,15 +189,13 @@ async function trackFile(tracker: Tracker, input: string, output: string, maxRan
     noiseTold = !inf.noisePending;
   };
   const drain = async (force: boolean) => {
-    if (buf.length < 65536 && !force) return;
-    const ok = out.write(buf);
-    buf = '';
-    if (!ok) await Promise.race([once(out, 'drain'), failed]);
+    if (rowsOut.length < CHUNK_BYTES && !force) return;
+    if (!out.write(rowsOut.take())) await Promise.race([once(out, 'drain'), failed]);
   };
   for await (const batch of reader.batches()) {
     for (const d of batch) {
       const r = tracker.push(d);
-      for (const u of r.updates) buf += trackCsvLine(u) + '\n';
+      for (const u of r.updates) rowsOut.add(u);
     }
     rows += batch.length;
     tell();
@@ -204,7 +206,7 @@ async function trackFile(tracker: Tracker, input: string, output: string, maxRan
       process.stderr.write(`\r\x1b[K${rows} rows, ${t.toFixed(1)} s of run, ${tracker.tracks().length} live tracks`);
     }
   }
-  for (const u of tracker.flush().updates) buf += trackCsvLine(u) + '\n';
+  for (const u of tracker.flush().updates) rowsOut.add(u);
   tell();
   await drain(true);
   if (output !== '-') {

@@ -5,8 +5,9 @@ import { join } from 'node:path';
 import { run } from '../../bridge/cli/track.ts';
 import { simulateRun } from '../../bridge/sim/run.ts';
 import { SCENARIOS } from '../../bridge/sim/scenarios.ts';
-import { DETECTIONS_CSV_HEADER, detectionCsvLine } from '../../bridge/ingest/detections-csv.ts';
-import { TRACKS_CSV_COLUMNS } from '../../bridge/tracking/tracks-csv.ts';
+import { DETECTIONS_CSV_HEADER, detectionCsvLine, readDetectionsCsv } from '../../bridge/ingest/detections-csv.ts';
+import { Tracker } from '../../bridge/tracking/tracker.ts';
+import { TRACKS_CSV_COLUMNS, TRACKS_CSV_HEADER, trackCsvLine } from '../../bridge/tracking/tracks-csv.ts';
 
 let dir = '';
 let good = '';
@@ -60,6 +61,18 @@ describe('echotrail track', () => {
     expect(r.err).toMatch(/antenna: rotating \(inferred/);
     expect(r.err).toMatch(/revolution period: 1\.000 s/);
     expect(r.err).not.toMatch(/skipped/);
+  });
+
+  it('writes exactly the rows of the tracker\'s updates on the same detections', async () => {
+    const out = join(dir, 'same.csv');
+    expect((await track(['--in', good, '--out', out])).code).toBe(0);
+    // The options `track` gives the tracker when none are on the command line.
+    const tracker = new Tracker({ revolutionBatches: true });
+    const expected = [TRACKS_CSV_HEADER];
+    for await (const d of readDetectionsCsv(good)) for (const u of tracker.push(d).updates) expected.push(trackCsvLine(u));
+    for (const u of tracker.flush().updates) expected.push(trackCsvLine(u));
+    expect(expected.length).toBeGreaterThan(20);
+    expect(readFileSync(out, 'utf8')).toBe(expected.join('\n') + '\n');
   });
 
   it('skips bad rows with a line-numbered report and still tracks the good ones', async () => {
