@@ -1,0 +1,275 @@
+/**
+ * `track` end to end: detections CSV file in → tracks CSV file out, on a 100-target and an
+ * 800-target file, and the two file stages alone, each with a baseline measured in the same run.
+ *
+ * - reading: rows/s of `readDetectionsCsv` (csv-parse plus the reader's validation, line numbers
+ *   and time-order check) against csv-parse with its default options only counting records, and
+ *   against a bare `readline` loop splitting each line on commas (the floor of reading lines in
+ *   Node at all);
+ * - writing: rows/s of the tracks CSV writer `track` uses, on the updates the tracker produced
+ *   for the same file, against a naive writer (`toFixed` per cell, one `write()` per row) and
+ *   against writing the already-formatted bytes in 64 kB pieces (the file system's floor);
+ * - end to end: detections/s of the command's own code path (`run()` of bridge/cli/track.ts,
+ *   in-process, so Node and tsx start-up are not counted), against the Tracker alone on the same
+ *   detections in memory with the same options: the ratio is what file I/O costs on top of
+ *   tracking. One spawned `node --import tsx bridge/cli/main.ts track` per file is also timed,
+ *   start-up included, for scale.
+ *
+ * Each figure is the best of a few runs after a warm-up, per second of wall time and, in
+ * brackets, per second of CPU time; a ratio ×r says how many times faster the project's code went
+ * than the baseline on the same work (r < 1: slower).
+ *
+ * The load is the one of bench/track.bench.ts (same generator, seeds and sizes, copied here so
+ * that file stays the tracker's own), written to a temporary directory by the project's
+ * detections writer.
+ *
+ * Run: npm run bench -- track-cli   (two to three minutes on a 2-core machine)
+ */
+import { spawnSync } from 'node:child_process';
+import { createReadStream, createWriteStream, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { once } from 'node:events';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { createInterface } from 'node:readline';
+import { fileURLToPath } from 'node:url';
+import { parse } from 'csv-parse';
+import { run as trackCommand } from '../bridge/cli/track.ts';
+import { readDetectionsCsv, writeDetectionsCsv } from '../bridge/ingest/detections-csv.ts';
+import { createRng } from '../bridge/sim/prng.ts';
+import { Tracker } from '../bridge/tracking/tracker.ts';
+import { TRACKS_CSV_HEADER, TracksCsvEncoder } from '../bridge/tracking/tracks-csv.ts';
+import type { Detection, TrackUpdate } from '../bridge/types.ts';
+
+const TWO_PI = 2 * Math.PI;
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+
+/**
+ * bench/track.bench.ts's load(): rotating antenna (1 s), targets on 0.5 m circles over the
+ * annulus 20–40 m in a sector growing with n, clutter one per 10 m² per scan, a fixed echo per
+ * 20 targets; range noise 5 cm, azimuth noise 0.1°.
+ */
+function load(n: number, scans: number, seed: number): Detection[] {
+  const rng = createRng(seed);
+  const R1 = 20;
+  const R2 = 40;
+  const sector = (TWO_PI * n) / 800;
+  const place = () => {
+    const r = Math.sqrt(rng.uniform() * (R2 * R2 - R1 * R1) + R1 * R1);
+    const a = rng.uniform() * sector;
+    return { x: r * Math.sin(a), y: r * Math.cos(a) };
+  };
+  const targets = Array.from({ length: n }, (_, i) => ({ c: place(), ph: rng.between(0, TWO_PI), w: (TWO_PI / rng.between(15, 40)) * (i % 2 ? 1 : -1) }));
+  const echoes = Array.from({ length: Math.ceil(n / 20) }, place);
+  const area = (sector / 2) * (R2 * R2 - R1 * R1);
+  const out: Detection[] = [];
+  const sr = 0.05;
+  const sa = (0.1 * Math.PI) / 180;
+  for (let k = 0; k < scans; k++) {
+    const scan: Detection[] = [];
+    const emit = (x: number, y: number, amp: number) => {
+      let az = Math.atan2(x, y);
+      if (az < 0) az += TWO_PI;
+      const azm = (((az + rng.normal() * sa) % TWO_PI) + TWO_PI) % TWO_PI;
+      scan.push({ timeS: k + az / TWO_PI, azimuthRad: azm, rangeM: Math.hypot(x, y) + rng.normal() * sr, amplitude: amp });
+    };
+    for (const t of targets) {
+      if (rng.uniform() > 0.9) continue;
+      const a = t.ph + t.w * k;
+      emit(t.c.x + 0.5 * Math.cos(a), t.c.y + 0.5 * Math.sin(a), 20);
+    }
+    for (const e of echoes) if (rng.uniform() < 0.95) emit(e.x, e.y, 30);
+    const nc = rng.poisson(area / 10);
+    for (let c = 0; c < nc; c++) {
+      const p = place();
+      emit(p.x, p.y, 3);
+    }
+    scan.sort((a, b) => a.timeS - b.timeS);
+    for (const d of scan) out.push(d);
+  }
+  return out;
+}
+
+interface Timing {
+  ms: number;
+  cpuMs: number;
+  count: number;
+}
+
+/** The noise of the load, given as a calibrated profile would (as bench/track.bench.ts does). */
+const NOISE_ARGS = ['--sigma-range', '0.05', '--sigma-azimuth', '0.1'];
+const trackerFor = () => new Tracker({ revolutionBatches: true, measurement: { sigmaRangeM: 0.05, sigmaAzimuthRad: (0.1 * Math.PI) / 180 } });
+
+/**
+ * Best of `reps` runs after one warm-up run: wall time, and CPU time of all the process's threads
+ * (file I/O and GC included), which moves less when other work shares the machine; ms. `f`
+ * returns a count, checked to be the same on every run.
+ */
+async function best(reps: number, f: () => Promise<number> | number): Promise<Timing> {
+  let ms = Infinity;
+  let cpuMs = Infinity;
+  let count = -1;
+  for (let r = 0; r <= reps; r++) {
+    const c0 = process.cpuUsage();
+    const t0 = performance.now();
+    const c = await f();
+    const dt = performance.now() - t0;
+    const cpu = process.cpuUsage(c0);
+    if (r > 0) {
+      ms = Math.min(ms, dt);
+      cpuMs = Math.min(cpuMs, (cpu.user + cpu.system) / 1000);
+    }
+    if (count >= 0 && c !== count) throw new Error(`run ${r} counted ${c}, earlier runs ${count}`);
+    count = c;
+  }
+  return { ms, cpuMs, count };
+}
+
+async function readProject(path: string): Promise<number> {
+  let n = 0;
+  for await (const b of readDetectionsCsv(path).batches()) n += b.length;
+  return n;
+}
+
+async function readCsvParseDefault(path: string): Promise<number> {
+  let n = -1; // the header is a record too
+  const parser = createReadStream(path).pipe(parse());
+  for await (const _ of parser) n++;
+  return n;
+}
+
+async function readReadlineSplit(path: string): Promise<number> {
+  let n = -1;
+  let cells = 0;
+  for await (const line of createInterface({ input: createReadStream(path), crlfDelay: Infinity })) {
+    cells += line.split(',').length;
+    n++;
+  }
+  if (cells < n) throw new Error('unreachable: keeps the split from being optimised away');
+  return n;
+}
+
+/** The writer `track` uses (bridge/cli/track.ts): rows encoded into ~64 kB pieces, back-pressured. */
+async function writeProject(updates: TrackUpdate[], path: string): Promise<number> {
+  const out = createWriteStream(path);
+  const rows = new TracksCsvEncoder(65536);
+  rows.header();
+  for (const u of updates) {
+    rows.add(u);
+    if (rows.length >= 65536 && !out.write(rows.take())) await once(out, 'drain');
+  }
+  out.end(rows.take());
+  await once(out, 'finish');
+  return updates.length;
+}
+
+/** Naive: every cell through toFixed (or as is), joined, one write() per row. */
+async function writeNaive(updates: TrackUpdate[], path: string): Promise<number> {
+  const out = createWriteStream(path);
+  out.write(TRACKS_CSV_HEADER + '\n');
+  for (const u of updates) {
+    const m = u.measurement;
+    const az = (((Math.atan2(u.x, u.y) * 180) / Math.PI) + 360) % 360;
+    const cells = [u.timeS.toFixed(6), u.id, u.x.toFixed(4), u.y.toFixed(4), u.vx.toFixed(4), u.vy.toFixed(4), u.speed.toFixed(4), ((u.headingRad * 180) / Math.PI).toFixed(2),
+      u.status, u.quality.toFixed(3), Math.hypot(u.x, u.y).toFixed(4), az.toFixed(3),
+      m ? m.x.toFixed(4) : '', m ? m.y.toFixed(4) : '', m ? String(m.rxx) : '', m ? String(m.rxy) : '', m ? String(m.ryy) : '', u.nis !== undefined ? u.nis.toFixed(3) : ''];
+    if (!out.write(cells.join(',') + '\n')) await once(out, 'drain');
+  }
+  out.end();
+  await once(out, 'finish');
+  return updates.length;
+}
+
+/** The floor: the same bytes, formatted beforehand, written in 64 kB pieces. */
+async function writeBytes(chunks: Buffer[], rows: number, path: string): Promise<number> {
+  const out = createWriteStream(path);
+  for (const c of chunks) if (!out.write(c)) await once(out, 'drain');
+  out.end();
+  await once(out, 'finish');
+  return rows;
+}
+
+/** `track` in-process through its exported run(), stderr captured (the inference lines). */
+async function trackInProcess(input: string, output: string): Promise<{ code: number; err: string }> {
+  const write = process.stderr.write;
+  let err = '';
+  process.stderr.write = ((s: string | Uint8Array) => ((err += String(s)), true)) as typeof process.stderr.write;
+  try {
+    return { code: await trackCommand(['--in', input, '--out', output, ...NOISE_ARGS]), err };
+  } finally {
+    process.stderr.write = write;
+  }
+}
+
+const rate = (n: number, ms: number) => (n / ms) * 1000;
+const k = (r: number) => `${(r / 1000).toFixed(0)}k`;
+/** `412k rows/s (CPU 430k)`: per second of wall time, then per second of CPU time. */
+const fig = (m: Timing, unit: string) => `${k(rate(m.count, m.ms))} ${unit}/s (CPU ${k(rate(m.count, m.cpuMs))})`;
+/** How many times faster `a` went than `b` on the same work, by wall time then by CPU time. */
+const x = (a: Timing, b: Timing) => `×${(b.ms / a.ms).toFixed(2)} (CPU ×${(b.cpuMs / a.cpuMs).toFixed(2)})`;
+
+async function bench(label: string, dets: Detection[], dir: string): Promise<void> {
+  const input = join(dir, `${label}-detections.csv`);
+  const output = join(dir, `${label}-tracks.csv`);
+  await writeDetectionsCsv(dets, input);
+  const mb = statSync(input).size / 1e6;
+  console.log(`\n${label}: ${dets.length} detections, ${mb.toFixed(1)} MB`);
+
+  const rd = await best(3, () => readProject(input));
+  const cp = await best(3, () => readCsvParseDefault(input));
+  const rl = await best(3, () => readReadlineSplit(input));
+  if (rd.count !== dets.length || cp.count !== dets.length || rl.count !== dets.length) throw new Error(`row counts differ: ${rd.count} ${cp.count} ${rl.count} vs ${dets.length}`);
+  console.log(`  read   readDetectionsCsv ${fig(rd, 'rows')}, ${((mb / rd.ms) * 1000).toFixed(0)} MB/s`);
+  console.log(`         baselines: csv-parse defaults, counting ${fig(cp, 'rows')}: reader ${x(rd, cp)}; readline + split ${fig(rl, 'rows')}: reader ${x(rd, rl)}`);
+
+  // The tracker's output on this file, in memory, feeds the writer figures.
+  const read: Detection[] = [];
+  for await (const b of readDetectionsCsv(input).batches()) for (const d of b) read.push(d);
+  const updates: TrackUpdate[] = [];
+  const tr = await best(2, () => {
+    const t = trackerFor();
+    updates.length = 0;
+    for (const d of read) for (const u of t.push(d).updates) updates.push(u);
+    for (const u of t.flush().updates) updates.push(u);
+    return read.length;
+  });
+  const chunks: Buffer[] = [];
+  const enc = new TracksCsvEncoder(65536);
+  enc.header();
+  for (const u of updates) {
+    enc.add(u);
+    if (enc.length >= 65536) chunks.push(enc.take());
+  }
+  chunks.push(enc.take());
+  const wr = await best(3, () => writeProject(updates, output));
+  const wn = await best(3, () => writeNaive(updates, output));
+  const wb = await best(3, () => writeBytes(chunks, updates.length, output));
+  console.log(`  write  tracks CSV writer ${fig(wr, 'rows')}, ${updates.length} rows`);
+  console.log(`         baselines: naive toFixed + write per row ${fig(wn, 'rows')}: writer ${x(wr, wn)}; preformatted bytes ${fig(wb, 'rows')}: writer ${x(wr, wb)}`);
+
+  let said = '';
+  const e2e = await best(2, async () => {
+    const r = await trackInProcess(input, output);
+    if (r.code !== 0) throw new Error(`track exited ${r.code}: ${r.err}`);
+    said = r.err;
+    return dets.length;
+  });
+  // Same options, same rows out: the two figures time the same tracking work.
+  const written = readFileSync(output, 'utf8').split('\n').length - 2;
+  if (written !== updates.length) throw new Error(`track wrote ${written} rows, the Tracker alone made ${updates.length}`);
+  console.log(`  track  end to end, in-process run(): ${fig(e2e, 'det')}, ${e2e.ms.toFixed(0)} ms, ${said.trim().split('\n').length} stderr lines`);
+  console.log(`         baseline: the Tracker alone on the same detections in memory, ${fig(tr, 'det')}: track ${x(e2e, tr)}`);
+
+  const t0 = performance.now();
+  const sp = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'bridge/cli/main.ts'), 'track', '--in', input, '--out', output, ...NOISE_ARGS], { cwd: root, encoding: 'utf8' });
+  const spawnMs = performance.now() - t0;
+  if (sp.status !== 0) throw new Error(`spawned track exited ${sp.status}: ${sp.stderr}`);
+  console.log(`  track  end to end, spawned node --import tsx bridge/cli/main.ts track: ${k(rate(dets.length, spawnMs))} det/s, ${spawnMs.toFixed(0)} ms with start-up, one run`);
+}
+
+const dir = mkdtempSync(join(tmpdir(), 'echotrail-track-cli-bench-'));
+try {
+  await bench('100 targets', load(100, 1100, 1), dir);
+  await bench('800 targets', load(800, 140, 2), dir);
+} finally {
+  rmSync(dir, { recursive: true, force: true });
+}
