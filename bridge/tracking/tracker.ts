@@ -210,19 +210,13 @@ export class Tracker implements TrackEngine {
       this.closeBatch(out, due, false);
       return;
     }
-    // A batch closes when it spans its window, or as soon as held detections are due: they waited
-    // only for the beam to pass their gates, and what may compete for them has arrived by then
-    // (it is in this batch). Waiting on for the window to end would leave their tracks without
-    // an update for a second revolution, their gates twice as old, and the clusters that form
-    // around such gates held again, and again.
-    const due = d.timeS >= this.pool.next;
-    if ((this.batch.length && d.timeS - this.batchStart > this.info!.batchS) || due) {
+    if (this.batch.length && d.timeS - this.batchStart > this.info!.batchS) {
       // Held detections whose time has come go first (they are older than the window's).
       const dets: Detection[] = [];
-      if (due) this.pool.takeDue(d.timeS, dets);
+      if (d.timeS >= this.pool.next) this.pool.takeDue(d.timeS, dets);
       for (const x of this.batch) dets.push(x);
       this.batch = [];
-      if (dets.length) this.closeBatch(out, dets, false);
+      this.closeBatch(out, dets, false);
     }
     if (this.batch.length === 0) this.batchStart = d.timeS;
     this.batch.push(d);
