@@ -87,8 +87,8 @@ export class AlphaBetaFilter implements TrackFilter {
     return nis;
   }
 
-  gateDisc(t: number, gamma: number, rMax: number): GateDisc {
-    return discOf(this.peek(t), gamma, rMax);
+  gateDisc(t: number, gamma: number, rMax: number, out: GateDisc): GateDisc {
+    return discOf(this.peek(t), gamma, rMax, out);
   }
 
   gate(m: Measurement): GateResult {

@@ -30,9 +30,10 @@ export interface TrackFilter {
   /**
    * A disc holding every measurement the gate admits at `t` (d² < gamma) when the measurement's
    * covariance has largest eigenvalue at most `rMax` m²: for the spatial index. An IMM must cover
-   * its manoeuvre model's gate, which reaches far beyond its combined covariance.
+   * its manoeuvre model's gate, which reaches far beyond its combined covariance. Written into
+   * `out` (the gate index computes several per placement) and returned.
    */
-  gateDisc(t: number, gamma: number, rMax: number): GateDisc;
+  gateDisc(t: number, gamma: number, rMax: number, out: GateDisc): GateDisc;
   /**
    * Gate statistic d² = νᵀS⁻¹ν of a measurement against the prediction at its time, and ln|S|;
    * the tracker gates on d2 and prices the pair at d2 + logDetS. Does not change the filter.
@@ -54,23 +55,42 @@ export function lambdaMax(a: number, b: number, c: number): number {
   return 0.5 * (a + c) + Math.sqrt(h * h + b * b);
 }
 
-/** The disc of a single Gaussian gate: the prediction ± √(γ·(λmax(P) + rMax)). */
-export function discOf(p: PositionPrediction, gamma: number, rMax: number): GateDisc {
-  return { x: p.x, y: p.y, r: Math.sqrt(gamma * (lambdaMax(p.pxx, p.pxy, p.pyy) + rMax)) };
+/** The disc of a single Gaussian gate: the prediction ± √(γ·(λmax(P) + rMax)), into `out`. */
+export function discOf(p: PositionPrediction, gamma: number, rMax: number, out: GateDisc): GateDisc {
+  out.x = p.x;
+  out.y = p.y;
+  out.r = Math.sqrt(gamma * (lambdaMax(p.pxx, p.pxy, p.pyy) + rMax));
+  return out;
 }
 
-/** The smallest disc holding two discs. */
-export function enclosingDisc(a: GateDisc, b: GateDisc): GateDisc {
+/** The smallest disc holding two discs, into `out` (which may be `a` or `b`). */
+export function enclosingDisc(a: GateDisc, b: GateDisc, out: GateDisc = { x: 0, y: 0, r: 0 }): GateDisc {
   const dx = b.x - a.x;
   const dy = b.y - a.y;
   // sqrt, not Math.hypot: this runs for every track placement, and hypot is several times slower.
   const d = Math.sqrt(dx * dx + dy * dy);
-  if (d + b.r <= a.r) return a;
-  if (d + a.r <= b.r) return b;
-  const r = 0.5 * (d + a.r + b.r);
-  // The centre lies on the line between the two, r − a.r from a's centre.
-  const k = (r - a.r) / d;
-  return { x: a.x + k * (b.x - a.x), y: a.y + k * (b.y - a.y), r };
+  let x: number;
+  let y: number;
+  let r: number;
+  if (d + b.r <= a.r) {
+    x = a.x;
+    y = a.y;
+    r = a.r;
+  } else if (d + a.r <= b.r) {
+    x = b.x;
+    y = b.y;
+    r = b.r;
+  } else {
+    r = 0.5 * (d + a.r + b.r);
+    // The centre lies on the line between the two, r − a.r from a's centre.
+    const k = (r - a.r) / d;
+    x = a.x + k * dx;
+    y = a.y + k * dy;
+  }
+  out.x = x;
+  out.y = y;
+  out.r = r;
+  return out;
 }
 
 export interface GateResult {

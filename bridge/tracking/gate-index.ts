@@ -41,6 +41,11 @@ export interface IndexedTrack {
  */
 const MARGIN = 1.05;
 
+// Disc scratch of place(): consumed before the next call.
+const D0: GateDisc = { x: 0, y: 0, r: 0 };
+const D1: GateDisc = { x: 0, y: 0, r: 0 };
+const D_OUT: GateDisc = { x: 0, y: 0, r: 0 };
+
 export class GateIndex<T extends IndexedTrack = IndexedTrack> {
   private readonly grid: SpatialGrid<T>;
   /** Tracks on the end of their discs; an entry is stale once the track was placed again. */
@@ -71,7 +76,11 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
     const t0 = f.timeS;
     const t1 = Math.max(untilS, t0);
     const h = t.recent[t.recent.length - 1];
-    let noise = t.lastRMax;
+    // First guess of the noise: at the far edge of the speed bound around the last hit, which
+    // holds the disc in most cases, so the loop below usually stops at once.
+    const hMax = Math.max(h.rxx, h.ryy);
+    const guess = this.maxSpeedMps * Math.max(0, t1 - h.timeS) + 3 * Math.sqrt(2 * hMax);
+    let noise = Math.max(t.lastRMax, this.noiseAtRange(Math.sqrt(h.x * h.x + h.y * h.y) + guess));
     let d = this.disc(t, t0, t1, h, noise);
     // Converges in a step or two: the noise is small against the disc.
     for (let k = 0; ; k++) {
@@ -98,10 +107,16 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
   private disc(t: T, t0: number, t1: number, h: Measurement, noise: number): GateDisc {
     const f = t.filter;
     const g = this.gamma;
-    const chi = enclosingDisc(enclosingDisc(f.gateDisc(t0, g, noise), f.gateDisc(0.5 * (t0 + t1), g, noise)), f.gateDisc(t1, g, noise));
+    const chi = enclosingDisc(enclosingDisc(f.gateDisc(t0, g, noise, D0), f.gateDisc(0.5 * (t0 + t1), g, noise, D1), D0), f.gateDisc(t1, g, noise, D1), D0);
     const speedR = this.maxSpeedMps * Math.max(0, t1 - h.timeS) + 3 * Math.sqrt(Math.max(h.rxx, h.ryy) + noise);
-    return chi.r * MARGIN < speedR ? { x: chi.x, y: chi.y, r: chi.r * MARGIN } : { x: h.x, y: h.y, r: speedR };
+    const out = D_OUT;
+    const useChi = chi.r * MARGIN < speedR;
+    out.x = useChi ? chi.x : h.x;
+    out.y = useChi ? chi.y : h.y;
+    out.r = useChi ? chi.r * MARGIN : speedR;
+    return out;
   }
+
 
   /** Redraws every track whose disc ends before `nowS` so that it holds until `nowS` plus one span. */
   refresh(nowS: number, live: ReadonlyMap<number, T>): void {

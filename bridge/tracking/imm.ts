@@ -42,6 +42,9 @@ const GATE_OUT: GateResult = { d2: 0, logDetS: 0, d2Likely: 0 };
 const MIX_X = [new Float64Array(4), new Float64Array(4)];
 const MIX_P = [new Float64Array(16), new Float64Array(16)];
 const MIX_W = new Float64Array(4);
+// gateDisc scratch: one disc per model.
+const DISC_A: GateDisc = { x: 0, y: 0, r: 0 };
+const DISC_B: GateDisc = { x: 0, y: 0, r: 0 };
 
 export class ImmCv2 implements TrackFilter {
   readonly models: [KalmanCv, KalmanCv];
@@ -84,8 +87,8 @@ export class ImmCv2 implements TrackFilter {
   }
 
   /** Both models' gate discs: the gate is their union (see gate()). */
-  gateDisc(t: number, gamma: number, rMax: number): GateDisc {
-    return enclosingDisc(this.models[0].gateDisc(t, gamma, rMax), this.models[1].gateDisc(t, gamma, rMax));
+  gateDisc(t: number, gamma: number, rMax: number, out: GateDisc): GateDisc {
+    return enclosingDisc(this.models[0].gateDisc(t, gamma, rMax, DISC_A), this.models[1].gateDisc(t, gamma, rMax, DISC_B), out);
   }
 
   /**

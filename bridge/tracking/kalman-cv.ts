@@ -7,7 +7,7 @@
  * allocate on every call.
  */
 import type { Measurement } from '../types.ts';
-import { discOf, mahalanobis2, type FilterEstimate, type GateDisc, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { lambdaMax, mahalanobis2, type FilterEstimate, type GateDisc, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { cvProcessNoise, cvProcessNoise00, type ProcessNoiseModel } from './process-noise.ts';
 
 export interface KalmanCvOptions {
@@ -138,8 +138,18 @@ export class KalmanCv implements TrackFilter {
     return nis;
   }
 
-  gateDisc(t: number, gamma: number, rMax: number): GateDisc {
-    return discOf(this.peek(t), gamma, rMax);
+  gateDisc(t: number, gamma: number, rMax: number, out: GateDisc): GateDisc {
+    // peek() written out into `out`, without the intermediate object.
+    const dt = t - this.timeS;
+    const P = this.P;
+    const q00 = cvProcessNoise00(this.o.model, dt, this.o.sigmaAccel);
+    const pxx = P[0] + 2 * dt * P[1] + dt * dt * P[5] + q00;
+    const pyy = P[10] + 2 * dt * P[11] + dt * dt * P[15] + q00;
+    const pxy = P[2] + dt * (P[3] + P[6]) + dt * dt * P[7];
+    out.x = this.x[0] + dt * this.x[1];
+    out.y = this.x[2] + dt * this.x[3];
+    out.r = Math.sqrt(gamma * (lambdaMax(pxx, pxy, pyy) + rMax));
+    return out;
   }
 
   gate(m: Measurement): GateResult {
