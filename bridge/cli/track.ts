@@ -67,7 +67,7 @@ function program(): Command {
     .option('--beta <b>', 'fixed β for alpha-beta (default: from Kalata\'s tracking index)', num)
     .option('--gate-probability <p>', 'χ² gate probability P_G, 0–1 (default 0.99)', num)
     .option('--confirm <M/N>', 'M-of-N confirmation: M hits within N scans (default 3/4)', mOfN)
-    .option('--max-speed <mps>', 'fastest expected target, m/s; sizes the gate of new tracks (default 1.5)', num)
+    .option('--max-speed <mps>', 'fastest expected target, m/s: no track takes a detection farther from its last hit than this speed covers, plus noise (default 1.5)', num)
     .option('--max-misses <n>', 'consecutive missed scans before a confirmed track is deleted (default 3)', int)
     .option('--min-coast <s>', 'never delete for misses before this much coasting, s (default 1)', num)
     .option('--max-sigma <m>', 'delete a track whose position σ exceeds this plus twice the measurement σ there, m (default 1.5)', num)

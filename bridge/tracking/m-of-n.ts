@@ -9,7 +9,7 @@ export interface InitiationOptions {
   m: number;
   /** Window of scans for the hits. */
   n: number;
-  /** Fastest target speed expected, m/s: sets the gate of a track that has one detection. */
+  /** Fastest target speed expected, m/s: the reach of a seed, and a bound on every track's gate (no detection farther from its last hit than this speed covers, plus noise). */
   maxSpeedMps: number;
 }
 
