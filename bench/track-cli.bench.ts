@@ -35,59 +35,12 @@ import { fileURLToPath } from 'node:url';
 import { parse } from 'csv-parse';
 import { run as trackCommand } from '../bridge/cli/track.ts';
 import { readDetectionsCsv, writeDetectionsCsv } from '../bridge/ingest/detections-csv.ts';
-import { createRng } from '../bridge/sim/prng.ts';
 import { Tracker } from '../bridge/tracking/tracker.ts';
+import { crowdedLoad } from './crowded-load.ts';
 import { TRACKS_CSV_HEADER, TracksCsvEncoder } from '../bridge/tracking/tracks-csv.ts';
 import type { Detection, TrackUpdate } from '../bridge/types.ts';
 
-const TWO_PI = 2 * Math.PI;
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-
-/**
- * bench/track.bench.ts's load(): rotating antenna (1 s), targets on 0.5 m circles over the
- * annulus 20–40 m in a sector growing with n, clutter one per 10 m² per scan, a fixed echo per
- * 20 targets; range noise 5 cm, azimuth noise 0.1°.
- */
-function load(n: number, scans: number, seed: number): Detection[] {
-  const rng = createRng(seed);
-  const R1 = 20;
-  const R2 = 40;
-  const sector = (TWO_PI * n) / 800;
-  const place = () => {
-    const r = Math.sqrt(rng.uniform() * (R2 * R2 - R1 * R1) + R1 * R1);
-    const a = rng.uniform() * sector;
-    return { x: r * Math.sin(a), y: r * Math.cos(a) };
-  };
-  const targets = Array.from({ length: n }, (_, i) => ({ c: place(), ph: rng.between(0, TWO_PI), w: (TWO_PI / rng.between(15, 40)) * (i % 2 ? 1 : -1) }));
-  const echoes = Array.from({ length: Math.ceil(n / 20) }, place);
-  const area = (sector / 2) * (R2 * R2 - R1 * R1);
-  const out: Detection[] = [];
-  const sr = 0.05;
-  const sa = (0.1 * Math.PI) / 180;
-  for (let k = 0; k < scans; k++) {
-    const scan: Detection[] = [];
-    const emit = (x: number, y: number, amp: number) => {
-      let az = Math.atan2(x, y);
-      if (az < 0) az += TWO_PI;
-      const azm = (((az + rng.normal() * sa) % TWO_PI) + TWO_PI) % TWO_PI;
-      scan.push({ timeS: k + az / TWO_PI, azimuthRad: azm, rangeM: Math.hypot(x, y) + rng.normal() * sr, amplitude: amp });
-    };
-    for (const t of targets) {
-      if (rng.uniform() > 0.9) continue;
-      const a = t.ph + t.w * k;
-      emit(t.c.x + 0.5 * Math.cos(a), t.c.y + 0.5 * Math.sin(a), 20);
-    }
-    for (const e of echoes) if (rng.uniform() < 0.95) emit(e.x, e.y, 30);
-    const nc = rng.poisson(area / 10);
-    for (let c = 0; c < nc; c++) {
-      const p = place();
-      emit(p.x, p.y, 3);
-    }
-    scan.sort((a, b) => a.timeS - b.timeS);
-    for (const d of scan) out.push(d);
-  }
-  return out;
-}
 
 interface Timing {
   ms: number;
@@ -268,8 +221,8 @@ async function bench(label: string, dets: Detection[], dir: string): Promise<voi
 
 const dir = mkdtempSync(join(tmpdir(), 'echotrail-track-cli-bench-'));
 try {
-  await bench('100 targets', load(100, 1100, 1), dir);
-  await bench('800 targets', load(800, 140, 2), dir);
+  await bench('100 targets', crowdedLoad(100, 1100, 1), dir);
+  await bench('800 targets', crowdedLoad(800, 140, 2), dir);
 } finally {
   rmSync(dir, { recursive: true, force: true });
 }

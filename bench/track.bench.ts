@@ -5,7 +5,7 @@
  * through a naive baseline built directly on npm `kalman-filter` (nearest neighbour over every
  * track, the library's generic filter), as a ratio measured in the same run.
  *
- * The load is generated here so that target density stays the same at both sizes (see load()):
+ * The load (crowded-load.ts, shared with track-cli) keeps target density the same at both sizes:
  * the growth figure then shows what the spatial index is for — the cost per detection must not
  * depend on how many tracks exist elsewhere. Azimuth noise is 0.1° so that the cross-range error
  * at 20–40 m stays near 5 cm, as on a bench at a few metres with a 1.5° encoder.
@@ -14,57 +14,9 @@
  */
 import kf from 'kalman-filter';
 import { Tracker } from '../bridge/tracking/tracker.ts';
-import { createRng } from '../bridge/sim/prng.ts';
+import { crowdedLoad } from './crowded-load.ts';
 import type { Detection } from '../bridge/types.ts';
 
-const TWO_PI = 2 * Math.PI;
-
-/**
- * Rotating antenna (1 s). Targets on 0.5 m circles, placed uniformly over the annulus 20–40 m,
- * in a sector whose width grows with n (45° for 100 targets, 360° for 800): the same density and
- * the same spread of ranges — hence of gate sizes — at both sizes. Clutter uniform over the same
- * sector, one per 10 m² per scan; a fixed echo per 20 targets.
- */
-function load(n: number, scans: number, seed: number): Detection[] {
-  const rng = createRng(seed);
-  const R1 = 20;
-  const R2 = 40;
-  const sector = (TWO_PI * n) / 800;
-  const place = () => {
-    const r = Math.sqrt(rng.uniform() * (R2 * R2 - R1 * R1) + R1 * R1);
-    const a = rng.uniform() * sector;
-    return { x: r * Math.sin(a), y: r * Math.cos(a) };
-  };
-  const targets = Array.from({ length: n }, (_, i) => ({ c: place(), ph: rng.between(0, TWO_PI), w: (TWO_PI / rng.between(15, 40)) * (i % 2 ? 1 : -1) }));
-  const echoes = Array.from({ length: Math.ceil(n / 20) }, place);
-  const area = (sector / 2) * (R2 * R2 - R1 * R1);
-  const out: Detection[] = [];
-  const sr = 0.05;
-  const sa = (0.1 * Math.PI) / 180;
-  for (let k = 0; k < scans; k++) {
-    const scan: Detection[] = [];
-    const emit = (x: number, y: number, amp: number) => {
-      let az = Math.atan2(x, y);
-      if (az < 0) az += TWO_PI;
-      const azm = (((az + rng.normal() * sa) % TWO_PI) + TWO_PI) % TWO_PI;
-      scan.push({ timeS: k + az / TWO_PI, azimuthRad: azm, rangeM: Math.hypot(x, y) + rng.normal() * sr, amplitude: amp });
-    };
-    for (const t of targets) {
-      if (rng.uniform() > 0.9) continue;
-      const a = t.ph + t.w * k;
-      emit(t.c.x + 0.5 * Math.cos(a), t.c.y + 0.5 * Math.sin(a), 20);
-    }
-    for (const e of echoes) if (rng.uniform() < 0.95) emit(e.x, e.y, 30);
-    const nc = rng.poisson(area / 10);
-    for (let c = 0; c < nc; c++) {
-      const p = place();
-      emit(p.x, p.y, 3);
-    }
-    scan.sort((a, b) => a.timeS - b.timeS);
-    for (const d of scan) out.push(d);
-  }
-  return out;
-}
 
 /** Detections per second of the tracker over `dets` (best of `reps`, after one warm-up pass). */
 function measure(dets: Detection[], reps: number, revolutionBatches: boolean): { rate: number; tracks: number; rows: number } {
@@ -134,8 +86,8 @@ function baseline(dets: Detection[]): number {
 }
 
 const fmt = (r: number) => `${(r / 1000).toFixed(1)}k det/s`;
-const small = load(100, 1100, 1);
-const large = load(800, 140, 2);
+const small = crowdedLoad(100, 1100, 1);
+const large = crowdedLoad(800, 140, 2);
 // Two modes of the same tracker: `track` on a file batches whole revolutions (the headline
 // figure); the live bridge assigns each detection as the beam passes (lower delay, more work).
 const a = measure(small, 2, true);

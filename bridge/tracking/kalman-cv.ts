@@ -7,7 +7,7 @@
  * allocate on every call.
  */
 import type { Measurement } from '../types.ts';
-import { lambdaMax, mahalanobis2, type FilterEstimate, type GateDisc, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
+import { discOf, mahalanobis2, type FilterEstimate, type GateDisc, type GateResult, type PositionPrediction, type TrackFilter } from './filter-types.ts';
 import { cvProcessNoise, cvProcessNoise00, type ProcessNoiseModel } from './process-noise.ts';
 
 export interface KalmanCvOptions {
@@ -22,6 +22,7 @@ export interface KalmanCvOptions {
 // Shared scratch for update(): single-threaded, never held across calls.
 const SCRATCH_A = new Float64Array(8);
 const SCRATCH_K = new Float64Array(8);
+const PEEK: PositionPrediction = { x: 0, y: 0, pxx: 0, pxy: 0, pyy: 0 };
 
 export class KalmanCv implements TrackFilter {
   timeS: number;
@@ -57,14 +58,21 @@ export class KalmanCv implements TrackFilter {
   }
 
   peek(t: number): PositionPrediction {
+    return this.peekInto(t, { x: 0, y: 0, pxx: 0, pxy: 0, pyy: 0 });
+  }
+
+  /** peek() into a caller's object. */
+  private peekInto(t: number, out: PositionPrediction): PositionPrediction {
     const dt = t - this.timeS;
     const P = this.P;
     const q00 = cvProcessNoise00(this.o.model, dt, this.o.sigmaAccel);
     // Position block of F P Fᵀ + Q.
-    const pxx = P[0] + 2 * dt * P[1] + dt * dt * P[5] + q00;
-    const pyy = P[10] + 2 * dt * P[11] + dt * dt * P[15] + q00;
-    const pxy = P[2] + dt * (P[3] + P[6]) + dt * dt * P[7];
-    return { x: this.x[0] + dt * this.x[1], y: this.x[2] + dt * this.x[3], pxx, pxy, pyy };
+    out.pxx = P[0] + 2 * dt * P[1] + dt * dt * P[5] + q00;
+    out.pyy = P[10] + 2 * dt * P[11] + dt * dt * P[15] + q00;
+    out.pxy = P[2] + dt * (P[3] + P[6]) + dt * dt * P[7];
+    out.x = this.x[0] + dt * this.x[1];
+    out.y = this.x[2] + dt * this.x[3];
+    return out;
   }
 
   predict(t: number): void {
@@ -139,17 +147,7 @@ export class KalmanCv implements TrackFilter {
   }
 
   gateDisc(t: number, gamma: number, rMax: number, out: GateDisc): GateDisc {
-    // peek() written out into `out`, without the intermediate object.
-    const dt = t - this.timeS;
-    const P = this.P;
-    const q00 = cvProcessNoise00(this.o.model, dt, this.o.sigmaAccel);
-    const pxx = P[0] + 2 * dt * P[1] + dt * dt * P[5] + q00;
-    const pyy = P[10] + 2 * dt * P[11] + dt * dt * P[15] + q00;
-    const pxy = P[2] + dt * (P[3] + P[6]) + dt * dt * P[7];
-    out.x = this.x[0] + dt * this.x[1];
-    out.y = this.x[2] + dt * this.x[3];
-    out.r = Math.sqrt(gamma * (lambdaMax(pxx, pxy, pyy) + rMax));
-    return out;
+    return discOf(this.peekInto(t, PEEK), gamma, rMax, out);
   }
 
   gate(m: Measurement): GateResult {
