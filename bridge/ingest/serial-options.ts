@@ -18,6 +18,11 @@ export interface SerialSourceOptions {
   reopenInitialMs: number;
   /** Longest wait between reopen attempts, ms (the backoff doubles up to this). */
   reopenMaxMs: number;
+  /**
+   * While live, how often to check that the device path still exists, ms; 0 = never. A device
+   * whose path is gone is treated as unplugged even when the driver raised no 'close'.
+   */
+  presenceCheckMs: number;
 }
 
 const DATA_BITS = [5, 6, 7, 8] as const;
@@ -40,9 +45,11 @@ export function resolveSerialOptions(o: Partial<SerialSourceOptions> & { path: s
     maxLineBytes: o.maxLineBytes ?? 4096,
     reopenInitialMs: o.reopenInitialMs ?? 200,
     reopenMaxMs: o.reopenMaxMs ?? 2000,
+    presenceCheckMs: o.presenceCheckMs ?? 1000,
   };
   if (!Number.isInteger(r.baudRate) || r.baudRate <= 0) throw new EchotrailError('E_OPTION', `serial baud rate must be a positive integer, got ${r.baudRate}`);
   if (!Number.isInteger(r.maxLineBytes) || r.maxLineBytes < 64) throw new EchotrailError('E_OPTION', 'serial maxLineBytes must be an integer ≥ 64');
   if (!(r.reopenInitialMs > 0) || !(r.reopenMaxMs >= r.reopenInitialMs)) throw new EchotrailError('E_OPTION', 'serial reopen delays must be positive, the maximum not below the first');
+  if (!(r.presenceCheckMs >= 0)) throw new EchotrailError('E_OPTION', 'serial presence check interval must be 0 (off) or a positive number of ms');
   return r;
 }

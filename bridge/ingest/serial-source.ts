@@ -5,8 +5,12 @@
  * When the device goes away (USB unplugged, socat killed: the port closes with
  * `err.disconnected`, and the device path vanishes) the source reports 'waiting' and tries to
  * reopen the path with a doubling, capped delay until the device is back: no restart needed.
+ * While live it also checks now and then that the device path still exists: a driver that
+ * reports the loss only as a read error, or not at all, must not leave the source showing 'live'
+ * with nothing coming in.
  */
 import { EventEmitter } from 'node:events';
+import { existsSync } from 'node:fs';
 import { SerialPort } from 'serialport';
 import type { BadLine, Source, SourceState } from './source.ts';
 import { parseLine } from './line-protocol.ts';
@@ -40,6 +44,7 @@ export class SerialSource extends EventEmitter implements Source {
   private stopped = true;
   private current: SourceState = 'disconnected';
   private retryTimer: NodeJS.Timeout | null = null;
+  private presenceTimer: NodeJS.Timeout | null = null;
   private backoffMs: number;
   private readonly counters: SerialCounters = { lines: 0, badLines: 0, lastBad: null, opens: 0 };
   /** Port errors reported in the current state, and those held back (repeats, or over the cap). */
@@ -64,6 +69,7 @@ export class SerialSource extends EventEmitter implements Source {
     this.stopped = true;
     if (this.retryTimer) clearTimeout(this.retryTimer);
     this.retryTimer = null;
+    this.stopPresenceCheck();
     const port = this.port;
     this.port = null;
     if (port?.isOpen) await new Promise<void>((res) => port.close(() => res()));
@@ -124,15 +130,37 @@ export class SerialSource extends EventEmitter implements Source {
         this.backoffMs = o.reopenInitialMs;
         port.on('data', (chunk: Buffer) => this.onData(chunk, performance.now()));
         port.on('close', (closeErr?: Error & { disconnected?: boolean }) => this.onClose(port, closeErr));
+        this.startPresenceCheck(port);
         this.setState('live', `opened ${o.path} at ${o.baudRate} baud`);
         resolve();
       });
     });
   }
 
+  private startPresenceCheck(port: SerialPort): void {
+    const every = this.options.presenceCheckMs;
+    if (!(every > 0)) return;
+    this.stopPresenceCheck();
+    this.presenceTimer = setInterval(() => {
+      if (this.port !== port || existsSync(this.options.path)) return;
+      // The path is gone but no 'close' came: handle it as one, then let the port go (its own
+      // 'close', if it ever comes, finds this.port changed and is ignored).
+      this.onClose(port, Object.assign(new Error('device path vanished'), { disconnected: true }));
+      if (port.isOpen) port.close(() => undefined);
+    }, every);
+    // A status check must not keep the process alive on its own.
+    this.presenceTimer.unref();
+  }
+
+  private stopPresenceCheck(): void {
+    if (this.presenceTimer) clearInterval(this.presenceTimer);
+    this.presenceTimer = null;
+  }
+
   private onClose(port: SerialPort, err?: Error & { disconnected?: boolean }): void {
     if (this.port !== port) return;
     this.port = null;
+    this.stopPresenceCheck();
     const cut = this.splitter.reset();
     if (cut) {
       this.counters.lines = cut.line;

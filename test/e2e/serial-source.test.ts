@@ -5,7 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawn, type ChildProcess } from 'node:child_process';
-import { closeSync, existsSync, mkdtempSync, openSync, rmSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, mkdtempSync, openSync, readlinkSync, rmSync, symlinkSync, unlinkSync, writeSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { SerialSource } from '../../bridge/ingest/serial-source.ts';
@@ -66,7 +66,7 @@ describe.skipIf(!haveSocat)('SerialSource over a socat pty pair', () => {
     a = join(dir, 'a');
     b = join(dir, 'b');
     await startSocat();
-    source = new SerialSource({ path: a, baudRate: 115200, reopenInitialMs: 50, reopenMaxMs: 400 });
+    source = new SerialSource({ path: a, baudRate: 115200, reopenInitialMs: 50, reopenMaxMs: 400, presenceCheckMs: 100 });
     source.on('record', (r: SourceRecord) => records.push(r));
     source.on('bad', (x: BadLine) => bad.push(x));
     source.on('state', (s: SourceState) => states.push(s));
@@ -127,6 +127,24 @@ describe.skipIf(!haveSocat)('SerialSource over a socat pty pair', () => {
     expect(last.kind).toBe('antenna');
     expect(states).toContain('waiting');
     expect(states.filter((s) => s === 'live').length).toBeGreaterThanOrEqual(2);
+  });
+
+  it('goes waiting when the device path vanishes though the port never closed, and back when it returns', async () => {
+    // socat stays up: only the link is removed, as when a driver loses a device without telling
+    // the open port. The presence check must notice; the reopen then finds the link again.
+    await waitFor(() => source.state === 'live', "state 'live'");
+    const target = readlinkSync(a);
+    const opensBefore = source.stats().opens;
+    const waitingBefore = states.filter((s) => s === 'waiting').length;
+    unlinkSync(a);
+    await waitFor(() => states.filter((s) => s === 'waiting').length > waitingBefore, "state 'waiting' from the presence check");
+    symlinkSync(target, a);
+    await waitFor(() => source.state === 'live', "state 'live' after the link returns");
+    expect(source.stats().opens).toBe(opensBefore + 1);
+    const n = records.length;
+    send(encodeLine({ kind: 'antenna', sample: { timeS: 12, azimuthRad: 2 } }) + '\n');
+    await waitFor(() => records.length > n, 'a record after the return');
+    expect(records[records.length - 1].kind).toBe('antenna');
   });
 
   it('waits for a device that is not there yet and goes live when it appears', async () => {

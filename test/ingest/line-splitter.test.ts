@@ -47,7 +47,7 @@ describe('LineSplitter', () => {
 
 describe('resolveSerialOptions', () => {
   it('fills the defaults and keeps what is given', () => {
-    expect(resolveSerialOptions({ path: '/dev/ttyUSB0' })).toMatchObject({ baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, maxLineBytes: 4096 });
+    expect(resolveSerialOptions({ path: '/dev/ttyUSB0' })).toMatchObject({ baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, maxLineBytes: 4096, presenceCheckMs: 1000 });
     expect(resolveSerialOptions({ path: '/dev/x', baudRate: 921600, parity: 'even', dataBits: 7, stopBits: 2 })).toMatchObject({ baudRate: 921600, parity: 'even', dataBits: 7, stopBits: 2 });
   });
   it('refuses impossible settings with E_OPTION and a reason', () => {
@@ -56,5 +56,6 @@ describe('resolveSerialOptions', () => {
     expect(() => resolveSerialOptions({ path: '/dev/x', parity: 'sometimes' as never })).toThrow(/parity must be one of/);
     expect(() => resolveSerialOptions({ path: '/dev/x', dataBits: 9 as never })).toThrow(/data bits/);
     expect(() => resolveSerialOptions({ path: '/dev/x', reopenInitialMs: 500, reopenMaxMs: 100 })).toThrow(/reopen/);
+    expect(() => resolveSerialOptions({ path: '/dev/x', presenceCheckMs: -1 })).toThrow(/presence check/);
   });
 });
