@@ -85,8 +85,10 @@ export function assign(pairs: readonly GatedPair[] | GatedPair[], missCost: (tra
 function greedy(c: GatedPair[], missCost: (track: number) => number, result: Array<[number, number]>): void {
   const usedT = new Set<number>();
   const usedD = new Set<number>();
-  for (const p of [...c].sort((a, b) => a.cost - b.cost)) {
-    if (usedT.has(p.track) || usedD.has(p.det) || p.cost > missCost(p.track)) continue;
+  // A pair dearer than its track's miss is never taken: leave it out before sorting.
+  const worth = c.filter((p) => p.cost <= missCost(p.track));
+  for (const p of worth.sort((a, b) => a.cost - b.cost)) {
+    if (usedT.has(p.track) || usedD.has(p.det)) continue;
     usedT.add(p.track);
     usedD.add(p.det);
     result.push([p.track, p.det]);

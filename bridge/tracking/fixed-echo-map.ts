@@ -193,10 +193,11 @@ export class FixedEchoMap {
    * where the track is now (`now`). A target that drives on leaves its spots silent behind it; a
    * track hopping from one reflector of a wall to the next leaves reflectors that keep answering.
    * Only detections the map learned count (no moving track took them). (The age limit: a track that coasted over from elsewhere, say a mount track that lost its
-   * mount and picked up a target, is judged on where it has been lately.)
+   * mount and picked up a target, is judged on where it has been lately.) `nowLookup` is
+   * lookup(now) when the caller already has it (the map must not have changed since).
    */
-  leftBehindAnswers(hits: readonly Measurement[], from: Measurement | undefined, now: Measurement, gapS: number, withinS: number): boolean {
-    const here = this.search(now).any;
+  leftBehindAnswers(hits: readonly Measurement[], from: Measurement | undefined, now: Measurement, gapS: number, withinS: number, nowLookup?: EchoLookup): boolean {
+    const here = (nowLookup ?? this.search(now)).any;
     const answers = (h: Measurement, k: number): boolean => {
       const c = this.search(h).any;
       if (!c || c === here || c.lastSeenS < h.timeS + gapS) return false;

@@ -281,7 +281,8 @@ export class Tracker implements TrackEngine {
       // just became one (a left spot may miss a scan or two) loses that status again.
       const recentWindow = RECENT_HITS * interval;
       const judge = learn && (!wasMoving || m.timeS - t.movedS <= recentWindow);
-      const leftBehind = judge && this.echoes.leftBehindAnswers(t.recent, t.departureStart(), m, interval / 2, recentWindow);
+      // cand[j] is still current: the map learns only after every pair is decided (below).
+      const leftBehind = judge && this.echoes.leftBehindAnswers(t.recent, t.departureStart(), m, interval / 2, recentWindow, cand[j]);
       if (wasMoving && leftBehind) t.demote(m);
       t.onHit(m, nis, dets[j], o.fixedEchoes.moveThresholdM, refl !== null && !wasMoving, learn ? this.echoes.settleS() : 0, leftBehind);
       // A moving track that lands on a reflector which had been answering scan after scan before
