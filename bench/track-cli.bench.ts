@@ -19,9 +19,12 @@
  * brackets, per second of CPU time; a ratio ×r says how many times faster the project's code went
  * than the baseline on the same work (r < 1: slower).
  *
- * The load is the one of bench/track.bench.ts (same generator, seeds and sizes, copied here so
- * that file stays the tracker's own), written to a temporary directory by the project's
- * detections writer.
+ * After both files: the growth of the end-to-end cost per detection from 100 to 800 targets, and
+ * `track` against the `kalman-filter` baseline tracker (kalman-baseline.ts) end to end on the
+ * same files (their first 40,000 and 20,000 detections: the baseline is quadratic).
+ *
+ * The load is bench/crowded-load.ts (shared with bench/track.bench.ts: same seeds and sizes),
+ * written to a temporary directory by the project's detections writer.
  *
  * Run: npm run bench -- track-cli   (two to three minutes on a 2-core machine)
  */
@@ -37,6 +40,7 @@ import { run as trackCommand } from '../bridge/cli/track.ts';
 import { readDetectionsCsv, writeDetectionsCsv } from '../bridge/ingest/detections-csv.ts';
 import { Tracker } from '../bridge/tracking/tracker.ts';
 import { crowdedLoad } from './crowded-load.ts';
+import { kalmanBaseline } from './kalman-baseline.ts';
 import { TRACKS_CSV_HEADER, TracksCsvEncoder } from '../bridge/tracking/tracks-csv.ts';
 import type { Detection, TrackUpdate } from '../bridge/types.ts';
 
@@ -160,7 +164,37 @@ const fig = (m: Timing, unit: string) => `${k(rate(m.count, m.ms))} ${unit}/s (C
 /** How many times faster `a` went than `b` on the same work, by wall time then by CPU time. */
 const x = (a: Timing, b: Timing) => `×${(b.ms / a.ms).toFixed(2)} (CPU ×${(b.cpuMs / a.cpuMs).toFixed(2)})`;
 
-async function bench(label: string, dets: Detection[], dir: string): Promise<void> {
+/**
+ * The baseline end to end: the same reader, the `kalman-filter` baseline tracker of
+ * kalman-baseline.ts, its updates written as CSV lines in 64 kB pieces. Returns the detections read.
+ */
+async function baselineEndToEnd(input: string, output: string): Promise<number> {
+  const dets: Detection[] = [];
+  for await (const b of readDetectionsCsv(input).batches()) for (const d of b) dets.push(d);
+  const out = createWriteStream(output);
+  let buf = 'time_s,track_id,x_m,y_m,vx_mps,vy_mps\n';
+  kalmanBaseline(dets, (t, id, x, y, vx, vy) => {
+    buf += `${t.toFixed(4)},${id},${x.toFixed(4)},${y.toFixed(4)},${vx.toFixed(4)},${vy.toFixed(4)}\n`;
+    if (buf.length >= 65536) {
+      out.write(buf);
+      buf = '';
+    }
+  });
+  out.end(buf);
+  await once(out, 'finish');
+  return dets.length;
+}
+
+/** End-to-end figures of one file, for the growth and baseline lines after both sizes. */
+interface EndToEnd {
+  track: Timing;
+  /** `track` and the baseline on the first `prefix` detections of the file. */
+  prefix: number;
+  trackPrefix: Timing;
+  basePrefix: Timing;
+}
+
+async function bench(label: string, dets: Detection[], dir: string, prefix: number): Promise<EndToEnd> {
   const input = join(dir, `${label}-detections.csv`);
   const output = join(dir, `${label}-tracks.csv`);
   await writeDetectionsCsv(dets, input);
@@ -217,12 +251,29 @@ async function bench(label: string, dets: Detection[], dir: string): Promise<voi
   const spawnMs = performance.now() - t0;
   if (sp.status !== 0) throw new Error(`spawned track exited ${sp.status}: ${sp.stderr}`);
   console.log(`  track  end to end, spawned node --import tsx bridge/cli/main.ts track: ${k(rate(dets.length, spawnMs))} det/s, ${spawnMs.toFixed(0)} ms with start-up, one run`);
+
+  // The baseline is quadratic in the track count and slow per update: both run on a prefix.
+  const head = join(dir, `${label}-head.csv`);
+  await writeDetectionsCsv(dets.slice(0, prefix), head);
+  const trackPrefix = await best(2, async () => {
+    const r = await trackInProcess(head, output);
+    if (r.code !== 0) throw new Error(`track exited ${r.code}: ${r.err}`);
+    return prefix;
+  });
+  const basePrefix = await best(2, () => baselineEndToEnd(head, output));
+  console.log(`  track  end to end on the first ${prefix} detections ${fig(trackPrefix, 'det')}; baseline on kalman-filter end to end ${fig(basePrefix, 'det')}: track ${x(trackPrefix, basePrefix)}`);
+  return { track: e2e, prefix, trackPrefix, basePrefix };
 }
 
 const dir = mkdtempSync(join(tmpdir(), 'echotrail-track-cli-bench-'));
 try {
-  await bench('100 targets', crowdedLoad(100, 1100, 1), dir);
-  await bench('800 targets', crowdedLoad(800, 140, 2), dir);
+  const small = await bench('100 targets', crowdedLoad(100, 1100, 1), dir, 40000);
+  const large = await bench('800 targets', crowdedLoad(800, 140, 2), dir, 20000);
+  const perDet = (t: Timing) => t.ms / t.count;
+  console.log(`\ntrack end to end: cost per detection, 800 vs 100 targets ×${(perDet(large.track) / perDet(small.track)).toFixed(2)} (goal ≤ 1.5)`);
+  console.log(`track end to end vs the kalman-filter baseline end to end, same files: ${x(small.trackPrefix, small.basePrefix)} at 100 targets, ${x(large.trackPrefix, large.basePrefix)} at 800`);
+  const goal = rate(small.track.count, small.track.ms) >= 250e3 && rate(large.track.count, large.track.ms) >= 250e3;
+  console.log(`goal ≥ 250k det/s end to end: ${goal ? 'met' : 'not met'}`);
 } finally {
   rmSync(dir, { recursive: true, force: true });
 }

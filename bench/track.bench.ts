@@ -12,9 +12,9 @@
  *
  * Run: npm run bench -- track   (about a minute on a 2-core machine)
  */
-import kf from 'kalman-filter';
 import { Tracker } from '../bridge/tracking/tracker.ts';
 import { crowdedLoad } from './crowded-load.ts';
+import { kalmanBaseline } from './kalman-baseline.ts';
 import type { Detection } from '../bridge/types.ts';
 
 
@@ -38,50 +38,10 @@ function measure(dets: Detection[], reps: number, revolutionBatches: boolean): {
   return { rate: (dets.length / best) * 1000, tracks, rows };
 }
 
-/**
- * The baseline: what one writes first with `kalman-filter` — per detection, the nearest track
- * within 1 m (a scan over all tracks), the library's predict/correct with a constant-velocity
- * model, a new track otherwise; tracks unseen for 3 s are dropped.
- */
+/** The baseline's detections per second over `dets`. */
 function baseline(dets: Detection[]): number {
-  const filter = new kf.KalmanFilter({
-    observation: { dimension: 2, stateProjection: [[1, 0, 0, 0], [0, 0, 1, 0]], covariance: [[0.0025, 0], [0, 0.0025]] },
-    dynamic: {
-      dimension: 4,
-      transition: [[1, 1, 0, 0], [0, 1, 0, 0], [0, 0, 1, 1], [0, 0, 0, 1]],
-      covariance: [[0.01, 0, 0, 0], [0, 0.01, 0, 0], [0, 0, 0.01, 0], [0, 0, 0, 0.01]],
-    },
-  });
-  type T = { x: number; y: number; t: number; state: InstanceType<typeof kf.State> };
-  let tracks: T[] = [];
   const t0 = performance.now();
-  let lastPrune = 0;
-  for (const d of dets) {
-    const x = d.rangeM * Math.sin(d.azimuthRad);
-    const y = d.rangeM * Math.cos(d.azimuthRad);
-    let best: T | null = null;
-    let bd = 1;
-    for (const t of tracks) {
-      const dd = Math.hypot(t.x - x, t.y - y);
-      if (dd < bd) {
-        bd = dd;
-        best = t;
-      }
-    }
-    if (best) {
-      const pred = filter.predict({ previousCorrected: best.state });
-      best.state = filter.correct({ predicted: pred, observation: [x, y] });
-      best.x = best.state.mean[0][0];
-      best.y = best.state.mean[2][0];
-      best.t = d.timeS;
-    } else {
-      tracks.push({ x, y, t: d.timeS, state: new kf.State({ mean: [[x], [0], [y], [0]], covariance: [[0.01, 0, 0, 0], [0, 1, 0, 0], [0, 0, 0.01, 0], [0, 0, 0, 1]] }) });
-    }
-    if (d.timeS - lastPrune > 1) {
-      lastPrune = d.timeS;
-      tracks = tracks.filter((t) => d.timeS - t.t < 3);
-    }
-  }
+  kalmanBaseline(dets);
   return (dets.length / (performance.now() - t0)) * 1000;
 }
 
