@@ -144,7 +144,12 @@ export class Tracker implements TrackEngine {
     const o = this.options;
     const info = this.info!;
     if (info.noisePending) decideNoise(info, buf, o);
+    const before = this.meas;
     this.meas = { ...o.measurement, sigmaRangeM: info.sigmaRangeM, sigmaAzimuthRad: info.sigmaAzimuthRad };
+    // The gate discs were drawn for the old noise: a larger one needs them all redrawn now.
+    if (this.meas.sigmaRangeM > before.sigmaRangeM || this.meas.sigmaAzimuthRad > before.sigmaAzimuthRad) {
+      for (const t of this.live.values()) this.index.place(t, Math.max(t.reachUntilS, t.filter.timeS + this.info!.intervalS));
+    }
     if (info.intervalFrom === 'inferred') {
       const later = decide(buf, o, true);
       if (later.antenna === info.antenna && later.intervalFrom === 'inferred') info.intervalS = later.intervalS;
