@@ -30,8 +30,9 @@ export interface BatchGates {
  * @param maxSpeedMps fastest expected target: no track takes a detection farther from its last hit
  *   than this speed covers plus 3σ of both detections' noise (the reach of a seed, seeds.ts). It
  *   matters where the χ² gate is wide: a tentative track has not learned its velocity yet, and the
- *   gate of a coasting IMM's manoeuvre model grows as the fourth power of the time since its last
- *   hit, to tens of metres after a few missed scans, which no positioner covers.
+ *   position variance of a coasting IMM's manoeuvre model grows as the fourth power of the time
+ *   since its last hit, its gate to tens of metres after a few missed scans, which no positioner
+ *   covers.
  */
 export function gateBatch(
   ms: readonly Measurement[],
