@@ -29,10 +29,32 @@ describe('decimateMinMax', () => {
 });
 
 describe('breakWraps', () => {
-  it('inserts a gap where a heading crosses 360°/0°', () => {
+  it('carries the line to the edge it crosses, breaks it, and resumes from the other edge', () => {
+    // 358° → 2° over 1 s: the shorter way round crosses 360° half-way, at t = 1.5 s.
     const out = breakWraps({ t: [0, 1, 2, 3], v: [350, 358, 2, 10] });
-    expect(out.v.length).toBe(5);
+    expect(out.v.length).toBe(7);
+    expect(out.v.slice(0, 2)).toEqual([350, 358]);
+    expect(out.v[2]).toBe(360);
+    expect(Number.isNaN(out.v[3])).toBe(true);
+    expect(out.v[4]).toBe(0);
+    expect(out.v.slice(5)).toEqual([2, 10]);
+    expect(out.t[3]).toBeCloseTo(1.5, 12);
+    expect(out.t[2]).toBeLessThan(out.t[3]);
+    expect(out.t[4]).toBeGreaterThan(out.t[3]);
+    // Times stay in order for the chart.
+    for (let i = 1; i < out.t.length; i++) expect(out.t[i]).toBeGreaterThan(out.t[i - 1]);
+  });
+
+  it('handles a turn downwards through 0° the same way', () => {
+    // 5° → 345° over 2 s: 20° the short way, crossing 0° a quarter of the way, at t = 0.5 s.
+    const out = breakWraps({ t: [0, 2], v: [5, 345] });
+    expect(out.v[1]).toBe(0);
     expect(Number.isNaN(out.v[2])).toBe(true);
-    expect(out.t[2]).toBe(1.5);
+    expect(out.v[3]).toBe(360);
+    expect(out.t[2]).toBeCloseTo(0.5, 12);
+  });
+
+  it('leaves a series without wraps as it is', () => {
+    expect(breakWraps({ t: [0, 1, 2], v: [10, 100, 200] })).toEqual({ t: [0, 1, 2], v: [10, 100, 200] });
   });
 });

@@ -34,18 +34,33 @@ export function decimateMinMax(t: ArrayLike<number>, v: ArrayLike<number>, maxPo
 }
 
 /**
- * Heading wraps at 360°: a line from 359° to 1° would sweep the whole chart. Insert a gap (NaN)
- * wherever consecutive values jump by more than half a turn.
+ * Heading wraps at 360°: a line from 359° to 1° would sweep the whole chart. Wherever consecutive
+ * values jump by more than half a turn, the line is carried to the edge it crosses (the value
+ * where the shorter way round meets 360° or 0°, at the interpolated time), broken (NaN), and taken
+ * up again from the opposite edge: a target circling on its turntable reads as one continuous
+ * sawtooth rather than as dashes stopping short of the edges.
  */
 export function breakWraps(series: Series, period = 360): Series {
   const out: Series = { t: [], v: [] };
   for (let i = 0; i < series.t.length; i++) {
-    if (i > 0 && Math.abs(series.v[i] - series.v[i - 1]) > period / 2) {
-      out.t.push((series.t[i] + series.t[i - 1]) / 2);
-      out.v.push(NaN);
+    const v1 = series.v[i];
+    if (i > 0 && Math.abs(v1 - series.v[i - 1]) > period / 2) {
+      const t0 = series.t[i - 1];
+      const t1 = series.t[i];
+      const v0 = series.v[i - 1];
+      // Upwards through 360° (v0 near the top, v1 near 0) or downwards through 0°.
+      const up = v1 < v0;
+      const end = up ? period : 0;
+      const unwrapped = up ? v1 + period : v1 - period;
+      const f = (end - v0) / (unwrapped - v0);
+      const tc = t0 + (t1 - t0) * f;
+      // The two edge points sit a hair either side of the crossing: the chart wants times in order.
+      const eps = (t1 - t0) * 1e-6;
+      out.t.push(tc - eps, tc, tc + eps);
+      out.v.push(end, NaN, period - end);
     }
     out.t.push(series.t[i]);
-    out.v.push(series.v[i]);
+    out.v.push(v1);
   }
   return out;
 }
