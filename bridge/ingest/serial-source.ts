@@ -139,7 +139,8 @@ export class SerialSource extends EventEmitter implements Source {
 
   private startPresenceCheck(port: SerialPort): void {
     const every = this.options.presenceCheckMs;
-    if (!(every > 0)) return;
+    // Only a path the file system knows can be watched (not a Windows COM port name).
+    if (!(every > 0) || !existsSync(this.options.path)) return;
     this.stopPresenceCheck();
     this.presenceTimer = setInterval(() => {
       if (this.port !== port || existsSync(this.options.path)) return;
