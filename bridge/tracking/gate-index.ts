@@ -118,7 +118,11 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
   }
 
 
-  /** Redraws every track whose disc ends before `nowS` so that it holds until `nowS` plus one span. */
+  /**
+   * Redraws every track whose disc ends before `nowS` so that it holds until a quarter span past
+   * `nowS`: an overdue track is redrawn a few times per interval while it stays overdue, each
+   * time with a disc no larger than the wait so far needs.
+   */
   refresh(nowS: number, live: ReadonlyMap<number, T>): void {
     while (this.due.minKey < nowS) {
       const at = this.due.minKey;

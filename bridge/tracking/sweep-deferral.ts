@@ -12,7 +12,7 @@
  */
 import type { GatedPair } from './assignment.ts';
 import type { Track } from './track-life.ts';
-import { lambdaMax } from './track-life.ts';
+import { lambdaMax } from './filter-types.ts';
 import { clusterPairs } from './union-find.ts';
 
 const TWO_PI = 2 * Math.PI;

@@ -5,8 +5,6 @@
 import type { Detection, Measurement, TrackStatus, TrackUpdate } from '../types.ts';
 import { EchotrailError } from '../errors.ts';
 import { lambdaMax, mahalanobis2, type GateDisc, type TrackFilter } from './filter-types.ts';
-
-export { lambdaMax };
 import { MofN } from './m-of-n.ts';
 
 export interface DeletionOptions {
@@ -65,7 +63,7 @@ export class Track {
   lastMeasurement: Measurement | undefined;
   /** The latest hits, oldest first (at most RECENT_HITS), kept through coasts, for the left-behind test. */
   readonly recent: Measurement[] = [];
-  /** Disc the gate reaches until the next expected detection (the tracker's spatial index keeps it). */
+  /** Disc the gate reaches until `reachUntilS` (kept by the tracker's gate index, gate-index.ts). */
   readonly reach: GateDisc = { x: 0, y: 0, r: Infinity };
   /** Until when `reach` holds the gate, s (see gate-index.ts). */
   reachUntilS = -Infinity;

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { lambdaMax, resolveDeletionOptions, Track } from '../../bridge/tracking/track-life.ts';
+import { resolveDeletionOptions, Track } from '../../bridge/tracking/track-life.ts';
+import { lambdaMax } from '../../bridge/tracking/filter-types.ts';
 import { KalmanCv } from '../../bridge/tracking/kalman-cv.ts';
 import type { Detection, Measurement } from '../../bridge/types.ts';
 
