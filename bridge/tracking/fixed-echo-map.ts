@@ -109,7 +109,7 @@ export class FixedEchoMap {
     // Cheap Euclidean pre-check: no gate here is wider than 4 times the larger measurement σ.
     const r2 = 16 * (m.rxx + m.ryy);
     const vacate = this.vacateS();
-    for (const c of this.grid.queryBlock(m.x, m.y)) {
+    for (const c of this.grid.queryAround(m.x, m.y, Math.sqrt(r2))) {
       const ex = m.x - c.x;
       const ey = m.y - c.y;
       if (ex * ex + ey * ey > r2) continue;

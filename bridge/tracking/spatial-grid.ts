@@ -138,18 +138,23 @@ export class SpatialGrid<T = number> {
   }
 
   /**
-   * Ids whose reach square overlaps the 3×3 block of fine cells around (x, y): every entry within
-   * one fine cell plus its reach. For point-like entries queried with a reach the query sets (the
-   * fixed-echo map: the gate there depends on the detection's noise, not on the entry).
+   * Point-like entries (placed with reach 0) whose cell overlaps the square (x ± r, y ± r): every
+   * entry within Chebyshev distance r, possibly twice (a padded entry sits in up to four cells),
+   * plus some farther ones. For a query whose reach the query sets (the fixed-echo map: the gate
+   * there depends on the detection's noise): it reads as few cells as the reach needs, however
+   * wide that is.
    */
-  queryBlock(x: number, y: number): readonly T[] {
+  queryAround(x: number, y: number, r: number): readonly T[] {
     const out = this.out;
     out.length = 0;
-    const ix = Math.floor(x * this.inv);
-    const iy = Math.floor(y * this.inv);
-    for (let a = -1; a <= 1; a++) {
-      for (let b = -1; b <= 1; b++) {
-        const f = this.fine.get(SpatialGrid.key(ix + a, iy + b));
+    const inv = this.inv;
+    const x0 = Math.floor((x - r) * inv);
+    const x1 = Math.floor((x + r) * inv);
+    const y0 = Math.floor((y - r) * inv);
+    const y1 = Math.floor((y + r) * inv);
+    for (let ix = x0; ix <= x1; ix++) {
+      for (let iy = y0; iy <= y1; iy++) {
+        const f = this.fine.get(SpatialGrid.key(ix, iy));
         if (f) for (let i = 0; i < f.length; i++) out.push(f[i]);
       }
     }

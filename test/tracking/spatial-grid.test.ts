@@ -35,6 +35,40 @@ describe('SpatialGrid', () => {
     }
   });
 
+  it('queryAround finds every point entry within the query reach, however wide (against brute force)', () => {
+    const rng = createRng(9);
+    const g = new SpatialGrid(0.5);
+    const pts = new Map<number, { x: number; y: number }>();
+    for (let id = 0; id < 400; id++) {
+      const p = { x: rng.between(-5, 5), y: rng.between(-5, 5) };
+      pts.set(id, p);
+      g.set(id, p.x, p.y, 0);
+    }
+    // Move some a little (a candidate's running mean), as the fixed-echo map does.
+    for (let id = 0; id < 100; id++) {
+      const p = pts.get(id)!;
+      p.x += rng.between(-0.2, 0.2);
+      p.y += rng.between(-0.2, 0.2);
+      g.set(id, p.x, p.y, 0);
+    }
+    let beyondOneCell = 0;
+    for (let q = 0; q < 1000; q++) {
+      const x = rng.between(-6, 6);
+      const y = rng.between(-6, 6);
+      // Reaches from a tenth of a cell to four cells: a wide gate at long range with a coarse encoder.
+      const r = rng.between(0.05, 2);
+      const found = new Set(g.queryAround(x, y, r));
+      for (const [id, p] of pts) {
+        if (Math.abs(x - p.x) <= r && Math.abs(y - p.y) <= r) {
+          expect(found.has(id)).toBe(true);
+          if (Math.max(Math.abs(x - p.x), Math.abs(y - p.y)) > 1) beyondOneCell++;
+        }
+      }
+    }
+    // The old fixed 3×3 block read reached only one cell (0.5 m) beyond the query's own cell.
+    expect(beyondOneCell).toBeGreaterThan(100);
+  });
+
   it('returns an entry that reaches beyond the coarse level everywhere, and moves entries without duplicates', () => {
     const g = new SpatialGrid(1);
     expect(g.maxReachM).toBe(12);
