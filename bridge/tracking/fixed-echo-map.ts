@@ -69,7 +69,7 @@ const A = 0.125;
 
 export class FixedEchoMap {
   private readonly cands = new Map<number, EchoCandidate>();
-  private readonly grid = new SpatialGrid<EchoCandidate>(0.5);
+  private readonly grid = new SpatialGrid<EchoCandidate>(1);
   private nextId = 1;
   private fixedCount = 0;
 

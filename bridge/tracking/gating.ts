@@ -59,10 +59,6 @@ export function gateBatch(
     const echoCost = g.echoCost[j];
     for (const t of index.query(m.x, m.y)) {
       const id = t.id;
-      // The grid returns whole cells: skip the tracks whose gate disc does not hold the detection.
-      const rx = m.x - t.reach.x;
-      const ry = m.y - t.reach.y;
-      if (rx * rx + ry * ry > t.reach.r * t.reach.r) continue;
       // Inside a fixed echo's gate only a moving track may take a detection, and only one that
       // it explains better than the echo does.
       if (echoCost < Infinity && !t.moved) continue;
