@@ -76,8 +76,8 @@ function program(): Command {
     .option('--move-threshold <m>', 'displacement that makes a track a moving target, m (default 0.15)', num)
     .option('--fixed-forget <s>', 'forget a fixed echo not seen this long, s (default 60)', num)
     .option('--stationary', 'also write confirmed tracks that never moved (default: only moving or recently moving targets)')
-    .option('--batch <s>', 'assignment batch window, s (default: rotating, one revolution; staring, half the update interval)', num)
-    .option('--per-detection', 'rotating antenna: assign each detection as the beam passes its gate, as the live view does, instead of per revolution (slower; same tracks within noise)')
+    .option('--batch <s>', 'assignment batch window, s (default: half the revolution period or update interval)', num)
+    .option('--per-detection', 'rotating antenna: assign each detection as the beam passes its gate, as the live view does, instead of per half revolution (slower; same tracks within noise)')
     .option('--max-range <m>', 'input rows with a larger range are skipped as absurd, m (default 1000)', num)
     .exitOverride()
     .configureOutput({ writeErr: (s) => process.stderr.write(s), writeOut: (s) => process.stdout.write(s) });
@@ -99,7 +99,7 @@ export function optionsFromCli(o: Opts, given: (k: string) => boolean): TrackerO
     intervalS: g('interval') as number | undefined,
     estimateNoise: given('estimateNoise') ? (o.estimateNoise as boolean) : undefined,
     batchS: g('batch') as number | undefined,
-    // A file has no one waiting for the next update: batch whole revolutions unless told otherwise.
+    // A file has no one waiting for the next update: batch half revolutions unless told otherwise.
     revolutionBatches: given('perDetection') ? !(o.perDetection as boolean) : true,
     reportStationary: g('stationary') as boolean | undefined,
     measurement: pick({

@@ -31,8 +31,8 @@ export interface TrackerOptions {
   /** Assignment batch window, s; 0 = per detection, contested clusters waiting for the beam (rotating), or half the staring interval. */
   batchS: number;
   /**
-   * Rotating antenna, when `batchS` is 0: gather one whole revolution before assigning. Several
-   * times the throughput and one revolution of delay: right for files (`track`), wrong for the
+   * Rotating antenna, when `batchS` is 0: gather half a revolution before assigning. Several
+   * times the throughput and half a revolution of delay: right for files (`track`), wrong for the
    * live view, which assigns each detection as the beam passes its gate.
    */
   revolutionBatches: boolean;
