@@ -233,6 +233,8 @@ export class Pipeline extends EventEmitter {
     this.options.log(`source ${source.name}: time went back from ${this.state.timeS.toFixed(3)} s; starting a new run`);
     if (this.tracker) this.applyOutput(this.runTracker((t) => t.flush()), undefined);
     this.batch.flush();
+    // The hardware's clock restarted: the scans' time starts again with it.
+    this.batch.discard();
     this.state.reset();
     this.state.clearCommanded();
     this.comparison?.restart();

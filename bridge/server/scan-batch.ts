@@ -138,11 +138,16 @@ export class ScanBatch {
     this.options.emit(scan, arrivals);
   }
 
-  /** Forget what is pending (replay seek): those increments belong to the old position. */
+  /**
+   * Forget what is pending (replay seek, loop, new source): those increments belong to the old
+   * position. The scan time starts again too: it is the newest time of the increments since, so
+   * after a seek back clients follow the replay clock instead of keeping the highest time seen.
+   */
   discard(): void {
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
     this.clearPending();
+    this.timeS = 0;
   }
 
   /** Empties the increments gathered for the next scan (the arrays were handed on, or are dropped). */

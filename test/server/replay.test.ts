@@ -80,6 +80,23 @@ describe('replay of a recorded session', () => {
     expect(c.of('scan').flatMap((s) => s.updates)).toEqual([]);
   });
 
+  it('after a seek back, scans carry the replay clock again, not the highest time seen', async () => {
+    bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 8 });
+    await c.next('snapshot', (s) => s.replay?.positionS === 8);
+    c.send({ type: 'control', action: 'step', value: 0.5 });
+    await c.next('scan', (s) => s.timeS >= 8.4);
+    c.send({ type: 'control', action: 'seek', value: 2 });
+    const snap = await c.next('snapshot', (s) => s.replay?.positionS === 2);
+    expect(snap.timeS).toBeCloseTo(2, 6);
+    const from = c.messages.length;
+    c.send({ type: 'control', action: 'step', value: 0.5 });
+    const scan = await c.next('scan', (s) => s.updates.length > 0, from);
+    expect(scan.timeS).toBeGreaterThan(2);
+    expect(scan.timeS).toBeLessThanOrEqual(2.5 + 1e-9);
+  });
+
   it('plays from the seek position: updates after it arrive in time order, then the deletion', async () => {
     bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
     const c = await connect(bridge);

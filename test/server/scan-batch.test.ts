@@ -59,4 +59,15 @@ describe('ScanBatch', () => {
     b.flush();
     expect(out[0].scan.updates.map((u) => [u.id, u.timeS])).toEqual([[1, 3], [2, 4], [3, 5]]);
   });
+
+  it('after discard (seek, loop, new source) the next scan carries the new position\'s time, not the highest seen', () => {
+    const { b, out } = batch();
+    b.update(toTrackWire(trackAt(1, 59, 0, 0)));
+    b.flush();
+    expect(out[0].scan.timeS).toBe(59);
+    b.discard();
+    b.update(toTrackWire(trackAt(2, 10.2, 0, 0)));
+    b.flush();
+    expect(out[1].scan.timeS).toBe(10.2);
+  });
 });

@@ -4,6 +4,7 @@ import { applyFrame } from '../../web/src/stream/client.ts';
 import { applyMessage } from '../../web/src/stream/reduce.ts';
 import { createState, defaultLimits, loadFlatHistory } from '../../web/src/stream/state.ts';
 import { HistoryRing } from '../../web/src/stream/ring.ts';
+import { trackRows } from '../../web/src/stream/sort.ts';
 
 const track = (id: number, t: number, x = 1, y = 2): TrackWire => ({
   timeS: t, id, status: 'confirmed', x, y, vx: 0.5, vy: 0, speed: 0.5, headingRad: Math.PI / 2,
@@ -75,6 +76,19 @@ describe('applyMessage', () => {
     applyMessage(s, scan(3, [track(2, 3)]));
     expect([...s.tracks.keys()]).toEqual([2]);
     expect(s.timeS).toBe(3);
+  });
+
+  it('follows the replay clock after a seek back even when a scan carries a stale, higher time', () => {
+    const s = createState();
+    applyMessage(s, scan(59, [track(1, 59)]));
+    applyMessage(s, {
+      type: 'snapshot', timeS: 10, source, tracks: [track(2, 10)], history: [], detections: [], fixedEchoes: [], commanded: [],
+      replay: { sessionId: 'a', durationS: 60, positionS: 10, speed: 1, playing: true, loop: false },
+    });
+    // A bridge that kept its highest time sends 59 with content of 10.2 s.
+    applyMessage(s, scan(59, [track(2, 10.2)]));
+    expect(s.timeS).toBeCloseTo(10.2, 9);
+    expect(trackRows(s)[0].ageS).toBeCloseTo(0.2, 9);
   });
 
   it('keeps comparison figures, commanded path, antenna and positioner', () => {

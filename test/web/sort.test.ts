@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { nextOrder, sortRows, trackRows, type TrackRow } from '../../web/src/stream/sort.ts';
+import { nextOrder, sortRows, trackAge, trackRows, type TrackRow } from '../../web/src/stream/sort.ts';
 import { applyMessage } from '../../web/src/stream/reduce.ts';
 import { createState } from '../../web/src/stream/state.ts';
 
@@ -32,5 +32,13 @@ describe('track list rows', () => {
     expect(nextOrder({ key: 'id', descending: false }, 'id')).toEqual({ key: 'id', descending: true });
     expect(nextOrder({ key: 'id', descending: true }, 'rangeM')).toEqual({ key: 'rangeM', descending: false });
     expect(nextOrder({ key: 'id', descending: false }, 'quality')).toEqual({ key: 'quality', descending: true });
+  });
+});
+
+describe('trackAge', () => {
+  it('is the time since first seen, never negative and never more than the run time', () => {
+    expect(trackAge(15.7, 10)).toBeCloseTo(5.7, 9);
+    expect(trackAge(10, 12)).toBe(0);
+    expect(trackAge(10.2, -40)).toBe(10.2);
   });
 });

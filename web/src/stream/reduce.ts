@@ -34,9 +34,10 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       setCommanded(state, msg.commanded);
       pruneDetections(state, limits);
       return;
-    case 'scan':
-      if (msg.timeS < state.timeS - BACKWARD_JUMP_S) restart(state, msg.timeS);
-      state.timeS = Math.max(state.timeS, msg.timeS);
+    case 'scan': {
+      const t = scanTime(msg);
+      if (t < state.timeS - BACKWARD_JUMP_S) restart(state, t);
+      state.timeS = Math.max(state.timeS, t);
       for (const d of msg.detections) addDetection(state, d.timeS, d.azimuthRad, d.rangeM, d.fixed ?? false);
       if (state.capture.active) {
         const room = state.capture.limit - state.capture.detections.length;
@@ -56,6 +57,7 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       if (msg.positioner.length > 0) state.positioner = msg.positioner[msg.positioner.length - 1];
       pruneDetections(state, limits);
       return;
+    }
     case 'fixed-echoes':
       setFixedEchoes(state, msg.echoes);
       return;
@@ -80,6 +82,20 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       state.lastError = { code: msg.code, message: msg.message };
       return;
   }
+}
+
+/**
+ * The run time a scan stands for. Normally its `timeS`; but a bridge that kept the highest time
+ * ever seen across a seek, loop or session switch sends a `timeS` far beyond what the scan holds,
+ * and the clock (track ages, chart windows) would stick there. When the scan's own detections and
+ * updates are all well before its `timeS`, the newest of them is the time.
+ */
+export function scanTime(msg: Extract<ServerMessage, { type: 'scan' }>): number {
+  let newest = -Infinity;
+  for (const d of msg.detections) if (d.timeS > newest) newest = d.timeS;
+  for (const u of msg.updates) if (u.timeS > newest) newest = u.timeS;
+  for (const p of msg.positioner) if (p.timeS > newest) newest = p.timeS;
+  return newest > -Infinity && msg.timeS > newest + BACKWARD_JUMP_S ? newest : msg.timeS;
 }
 
 function restart(state: DashboardState, timeS: number): void {

@@ -24,10 +24,18 @@ export function trackRows(state: DashboardState): TrackRow[] {
     const p = polarOf(w.x, w.y);
     rows.push({
       id: t.id, status: w.status, rangeM: p.rangeM, azimuthRad: p.azimuthRad, speed: w.speed,
-      headingRad: w.headingRad, ageS: Math.max(0, state.timeS - t.firstSeenS), quality: w.quality, moving: w.moving,
+      headingRad: w.headingRad, ageS: trackAge(state.timeS, t.firstSeenS), quality: w.quality, moving: w.moving,
     });
   }
   return rows;
+}
+
+/**
+ * Seconds since the track was first seen, never more than the run time itself (time since the
+ * session start): a first-seen time from before a seek or a restart cannot make it larger.
+ */
+export function trackAge(nowS: number, firstSeenS: number): number {
+  return Math.min(Math.max(0, nowS), Math.max(0, nowS - firstSeenS));
 }
 
 /** Sorts a copy; ties fall back to id so the order never flickers between frames. */
