@@ -6,7 +6,7 @@
  * sweep not yet seen (two targets crossing: the beam reaches one just before the other). So every
  * cluster of gated pairs (tracks and detections linked by gates) that holds a track whose gate
  * still lies ahead of the beam waits, whole, for the next batch; global nearest neighbour then
- * sees the cluster complete, as it did when a batch was a whole revolution. Only contested
+ * sees the cluster complete, as it would in a batch of a whole revolution. Only contested
  * clusters wait (see heldBack): a lone established track takes a detection its likely model
  * expects at once, so most updates leave with their own detection.
  */
