@@ -118,19 +118,24 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
   };
 
   const replaySettings = { loop: o.loop, speed: o.speed, autoplay: o.autoplay };
+  // The speed chosen on the dashboard carries over to the next session (playlist or picker).
+  const currentSpeed = (): number => pipeline.replayState()?.speed ?? replaySettings.speed;
   // A live serial run is never replaced from the dashboard: that would stop the recording.
   const openSession = async (sessionId: string): Promise<void> => {
     if (pipeline.current?.kind === 'serial') throw new EchotrailError('E_OPTION', 'the bridge is on a live serial input; restart it without --serial to replay sessions');
     const path = await sessionPath(sessionDirs, sessionId);
-    const source = await openReplaySource(path, replaySettings);
+    const source = await openReplaySource(path, { ...replaySettings, speed: currentSpeed() });
     playlist?.stop();
     await pipeline.setSource(source);
   };
 
   const playlist = !o.serial && !o.replay && !o.createSource && (o.playlist?.length ?? 0) > 1
-    ? new Playlist(o.playlist as string[], o.loop, (path) => openReplaySource(path, { ...replaySettings, loop: false, autoplay: true }), (s) => pipeline.setSource(s), o.log)
+    ? new Playlist(o.playlist as string[], o.loop, (path) => openReplaySource(path, { ...replaySettings, speed: currentSpeed(), loop: false, autoplay: true }), (s) => pipeline.setSource(s), o.log)
     : null;
-  if (playlist) pipeline.on('source-state', (s: SourceState) => playlist.onState(s));
+  if (playlist) {
+    pipeline.on('source-state', (s: SourceState) => playlist.onState(s));
+    pipeline.playlistInfo = () => playlist.info();
+  }
 
   const hub = new Hub({
     maxBufferedBytes: o.maxBufferedBytes,

@@ -367,8 +367,14 @@ export class Pipeline extends EventEmitter {
     this.emitMessage({ type: 'replay', replay: r });
   }
 
+  /** Set by the bridge when it plays a list of sessions: their place in it goes with the replay state. */
+  playlistInfo: (() => ReplayState['playlist'] | null) | null = null;
+
   replayState(): ReplayState | null {
-    return this.replay?.state() ?? null;
+    const r = this.replay?.state();
+    if (!r) return null;
+    const list = this.playlistInfo?.();
+    return list ? { ...r, playlist: list } : r;
   }
 
   status(): SourceStatus {

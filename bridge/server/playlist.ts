@@ -42,6 +42,11 @@ export class Playlist {
     }
   }
 
+  /** This session's place in the list, or null once someone picked a session by hand. */
+  info(): { index: number; count: number; loops: boolean } | null {
+    return this.stopped ? null : { index: this.index, count: this.paths.length, loops: this.loop };
+  }
+
   stop(): void {
     this.stopped = true;
   }

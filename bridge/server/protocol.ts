@@ -96,7 +96,13 @@ export const replayState = z.object({
   positionS: finite,
   speed: finite,
   playing: z.boolean(),
+  /** The current session starts over when it ends. */
   loop: z.boolean(),
+  /**
+   * When the bridge plays a list of sessions in turn (the demo): this one's place in it and
+   * whether the list starts over after the last (added within protocol 1, optional).
+   */
+  playlist: z.object({ index: z.number().int().nonnegative(), count: z.number().int().positive(), loops: z.boolean() }).optional(),
 });
 export type ReplayState = z.infer<typeof replayState>;
 

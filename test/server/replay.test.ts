@@ -121,6 +121,22 @@ describe('replay of a recorded session', () => {
     expect(Math.abs(m.figures.crossTrackM ?? 1)).toBeLessThan(1e-6);
   });
 
+  it('a list of sessions (the demo) keeps the speed chosen on the dashboard when it moves on, and says where it is', async () => {
+    const rec = new Recorder({ dir, name: 'short', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T11:00:00Z') });
+    expect(rec.open()).toBe(true);
+    for (let i = 0; i <= 30; i++) rec.record({ kind: 'track', update: trackAt(1, i * 0.1, 0, 2) });
+    const short = rec.status().path as string;
+    rec.close();
+    bridge = await startBridge({ port: 0, playlist: [short, sessionFile], loop: true, sessionsDir: dir, autoplay: true, speed: 1, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'speed', value: 2 });
+    const first = await c.next('replay', (m) => m.replay.speed === 2);
+    expect(first.replay.playlist).toEqual({ index: 0, count: 2, loops: true });
+    const next = await c.next('snapshot', (m) => m.replay?.sessionId === sessionId);
+    expect(next.replay?.speed).toBe(2);
+    expect(next.replay?.playlist).toEqual({ index: 1, count: 2, loops: true });
+  });
+
   it('lists sessions and opens one by id over the WebSocket; refuses unknown ids', async () => {
     bridge = await startBridge({ port: 0, sessionsDir: dir, log: () => undefined });
     const c = await connect(bridge);

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   formatAngle, formatClock, formatDuration, formatMetres, formatMs, formatQuality, formatShortTime,
-  formatSignedMetres, formatSpeed, formatSpeedFactor, normaliseDegrees,
+  formatCount, formatSignedMetres, formatSpeed, formatSpeedFactor, normaliseDegrees,
 } from '../../web/src/stream/format.ts';
 
 describe('formatting with units', () => {
@@ -53,5 +53,14 @@ describe('formatAge', async () => {
     expect(formatAge(76.4)).toBe('76 s');
     expect(formatAge(725)).toBe('12 min');
     expect(formatAge(NaN)).toBe('—');
+  });
+});
+
+describe('formatCount', () => {
+  it('says "1 track" and "2 tracks" (the session picker said "1 tracks")', () => {
+    expect(formatCount(1, 'track')).toBe('1 track');
+    expect(formatCount(0, 'track')).toBe('0 tracks');
+    expect(formatCount(2, 'track')).toBe('2 tracks');
+    expect(formatCount(1, 'detection')).toBe('1 detection');
   });
 });

@@ -16,7 +16,7 @@ export const shortcuts: readonly Shortcut[] = [
   { keys: ['→'], label: 'Seek 5 s forward', command: 'forward' },
   { keys: ['['], label: 'Slower replay', command: 'slower' },
   { keys: [']'], label: 'Faster replay', command: 'faster' },
-  { keys: ['L'], label: 'Loop on / off', command: 'loop' },
+  { keys: ['L'], label: 'Loop the current session on / off', command: 'loop' },
   { keys: ['F'], label: 'Fit view to tracks', command: 'fit' },
   { keys: ['R'], label: 'Reset view to the coverage', command: 'reset' },
   { keys: ['G'], label: 'Metric grid on / off', command: 'grid' },

@@ -83,3 +83,8 @@ export function formatAge(s: number | null | undefined): string {
   if (!ok(s)) return DASH;
   return s < 600 ? `${s.toFixed(s < 10 ? 1 : 0)} s` : `${Math.floor(s / 60)} min`;
 }
+
+/** "1 track", "2 tracks", "0 tracks": a count with its noun, singular only for exactly one. */
+export function formatCount(n: number, singular: string, plural = `${singular}s`): string {
+  return `${n} ${n === 1 ? singular : plural}`;
+}
