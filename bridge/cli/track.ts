@@ -4,15 +4,19 @@
  * Streams: the reader hands over detections chunk by chunk, the tracker holds only live tracks and
  * its fixed-echo map, and output lines leave in ~64 kB writes that wait for the file to drain, so
  * memory stays flat on files of millions of rows. Options given on the command line override the
- * profile, which overrides the defaults.
+ * profile, which overrides the defaults. The tracks go to a temporary file beside --out, renamed
+ * over it only when the run succeeded: a failed run leaves the previous output as it was.
  */
 import { createWriteStream } from 'node:fs';
 import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 import { Command, InvalidArgumentError } from 'commander';
 import { parseOrExit } from './parse.ts';
+import { writeAtomically } from './atomic-file.ts';
+import { reportError } from './report-error.ts';
+import { pathArg } from './user-dir.ts';
 import { EchotrailError } from '../errors.ts';
-import { formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
+import { formatSkipDetails, formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
 import { loadTrackerProfile } from '../tracking/profile.ts';
 import { describeInference, describeNoise, Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
 import { TracksCsvEncoder } from '../tracking/tracks-csv.ts';
@@ -47,38 +51,38 @@ function program(): Command {
       'Track a detections CSV (time_s,azimuth_deg,range_m,amplitude) into a tracks CSV: one row per confirmed-track update, in time order.\n' +
         'Antenna kind, revolution period and measurement noise are inferred from the run unless given; what was inferred is printed on stderr.',
     )
-    .requiredOption('--in <file>', 'detections CSV; - for stdin')
-    .requiredOption('--out <file>', 'tracks CSV to write; - for stdout')
-    .option('--profile <file>', 'JSON tracker profile (format: bridge/tracking/profile.ts); command-line options override it')
-    .option('--antenna <kind>', 'auto, rotating or staring (default auto: from azimuth wrap-around)', oneOf('auto', 'rotating', 'staring'))
+    .requiredOption('--in <file>', 'detections CSV; - for stdin', pathArg)
+    .requiredOption('--out <file>', 'tracks CSV to write (replaced only when the run succeeds); - for stdout', pathArg)
+    .option('--profile <file>', 'JSON tracker profile (format: bridge/tracking/profile.ts); command-line options override it', pathArg)
+    .option('--antenna <kind>', 'auto, rotating or staring (default: auto: from azimuth wrap-around)', oneOf('auto', 'rotating', 'staring'))
     .option('--interval <s>', 'revolution period (rotating) or per-target update interval (staring), s (default: inferred)', num)
-    .option('--sigma-range <m>', 'range noise σ, m (default 0.05, or estimated from stationary reflectors)', num)
-    .option('--sigma-azimuth <deg>', 'azimuth noise σ, degrees (default 1.5, or estimated from stationary reflectors)', num)
+    .option('--sigma-range <m>', 'range noise σ, m (default: 0.05, or estimated from stationary reflectors)', num)
+    .option('--sigma-azimuth <deg>', 'azimuth noise σ, degrees (default: 1.5, or estimated from stationary reflectors)', num)
     .option('--no-estimate-noise', 'do not estimate the noise from the run; use the σ values (or their defaults)')
-    .option('--conversion <kind>', 'polar→Cartesian conversion: unbiased (Mo et al. 1998) or linearised (default unbiased)', oneOf('unbiased', 'linearised'))
-    .option('--range-offset <m>', 'added to every range, m (default 0)', num)
-    .option('--azimuth-offset <deg>', 'added to every azimuth, degrees (default 0)', num)
-    .option('--filter <kind>', 'imm (CV at two noise levels), kalman (CV) or alpha-beta (default imm)', oneOf('imm', 'kalman', 'alpha-beta'))
-    .option('--process-noise <model>', 'dwna or cwna process noise for kalman/imm (default dwna)', oneOf('dwna', 'cwna'))
-    .option('--sigma-accel <mps2>', 'acceleration noise σ of the kalman filter and of the α-β tracking index, m/s² (default 0.3)', num)
-    .option('--imm-low <mps2>', 'IMM quiet-model acceleration σ, m/s² (default 0.05)', num)
-    .option('--imm-high <mps2>', 'IMM manoeuvre-model acceleration σ, m/s² (default 1.0)', num)
+    .option('--conversion <kind>', 'polar→Cartesian conversion: unbiased (Mo et al. 1998) or linearised (default: unbiased)', oneOf('unbiased', 'linearised'))
+    .option('--range-offset <m>', 'added to every range, m (default: 0)', num)
+    .option('--azimuth-offset <deg>', 'added to every azimuth, degrees (default: 0)', num)
+    .option('--filter <kind>', 'imm (CV at two noise levels), kalman (CV) or alpha-beta (default: imm)', oneOf('imm', 'kalman', 'alpha-beta'))
+    .option('--process-noise <model>', 'dwna or cwna process noise for kalman/imm (default: dwna)', oneOf('dwna', 'cwna'))
+    .option('--sigma-accel <mps2>', 'acceleration noise σ of the kalman filter and of the α-β tracking index, m/s² (default: 0.3)', num)
+    .option('--imm-low <mps2>', 'IMM quiet-model acceleration σ, m/s² (default: 0.05)', num)
+    .option('--imm-high <mps2>', 'IMM manoeuvre-model acceleration σ, m/s² (default: 1.0)', num)
     .option('--alpha <a>', 'fixed α for alpha-beta, 0–1 (default: from Kalata\'s tracking index)', num)
     .option('--beta <b>', 'fixed β for alpha-beta (default: from Kalata\'s tracking index)', num)
-    .option('--gate-probability <p>', 'χ² gate probability P_G, 0–1 (default 0.99)', num)
-    .option('--confirm <M/N>', 'M-of-N confirmation: M hits within N scans (default 3/4)', mOfN)
-    .option('--max-speed <mps>', 'fastest expected target, m/s: no track takes a detection farther from its last hit than this speed covers, plus noise (default 1.5)', num)
-    .option('--max-misses <n>', 'consecutive missed scans before a confirmed track is deleted (default 3)', int)
-    .option('--min-coast <s>', 'never delete for misses before this much coasting, s (default 1)', num)
-    .option('--max-sigma <m>', 'delete a track whose position σ exceeds this plus twice the measurement σ there, m (default 1.5)', num)
+    .option('--gate-probability <p>', 'χ² gate probability P_G, 0–1 (default: 0.99)', num)
+    .option('--confirm <M/N>', 'M-of-N confirmation: M hits within N scans (default: 3/4)', mOfN)
+    .option('--max-speed <mps>', 'fastest expected target, m/s: no track takes a detection farther from its last hit than this speed covers, plus noise (default: 1.5)', num)
+    .option('--max-misses <n>', 'consecutive missed scans before a confirmed track is deleted (default: 3)', int)
+    .option('--min-coast <s>', 'never delete for misses before this much coasting, s (default: 1)', num)
+    .option('--max-sigma <m>', 'delete a track whose position σ exceeds this plus twice the measurement σ there, m (default: 1.5)', num)
     .option('--no-fixed-echoes', 'do not learn fixed echoes (stationary reflectors then stay as tracks, see --stationary)')
-    .option('--fixed-after <s>', 'a reflector seen in most scans this long becomes a fixed echo, s (default max(10 s, 8 scans))', num)
-    .option('--move-threshold <m>', 'displacement that makes a track a moving target, m (default 0.15)', num)
-    .option('--fixed-forget <s>', 'forget a fixed echo not seen this long, s (default 60)', num)
+    .option('--fixed-after <s>', 'a reflector seen in most scans this long becomes a fixed echo, s (default: max(10 s, 8 scans))', num)
+    .option('--move-threshold <m>', 'displacement that makes a track a moving target, m (default: 0.15)', num)
+    .option('--fixed-forget <s>', 'forget a fixed echo not seen this long, s (default: 60)', num)
     .option('--stationary', 'also write confirmed tracks that never moved (default: only moving or recently moving targets)')
     .option('--batch <s>', 'assignment batch window, s (default: half the revolution period or update interval)', num)
     .option('--per-detection', 'rotating antenna: assign each detection as the beam passes its gate, as the live view does, instead of per half revolution (slower; same tracks within noise)')
-    .option('--max-range <m>', 'input rows with a larger range are skipped as absurd, m (default 1000)', num)
+    .option('--max-range <m>', 'input rows with a larger range are skipped as absurd, m (default: 1000)', num)
     .exitOverride()
     .configureOutput({ writeErr: (s) => process.stderr.write(s), writeOut: (s) => process.stdout.write(s) });
 }
@@ -150,25 +154,39 @@ export async function run(argv: string[]): Promise<number> {
     const given = (k: string) => cmd.getOptionValueSource(k) === 'cli';
     const fromProfile = o.profile ? await loadTrackerProfile(o.profile as string) : {};
     const tracker = new Tracker(merge(fromProfile, optionsFromCli(o, given)));
-    await trackFile(tracker, o.in as string, o.out as string, o.maxRange as number | undefined);
+    await writeAtomically([o.out as string], ([out]) => trackFile(tracker, o.in as string, out, o.out as string, o.maxRange as number | undefined));
     return 0;
   } catch (err) {
-    if (err instanceof EchotrailError) {
-      process.stderr.write(`echotrail track: ${err.message}\n`);
-      return err.code === 'E_OPTION' ? 2 : 1;
-    }
-    throw err;
+    if (process.stderr.isTTY === true) process.stderr.write('\r\x1b[K');
+    return reportError('track', err, 2);
   }
 }
 
 /** The streaming loop: reader → tracker → CSV, with the stderr reports. */
-async function trackFile(tracker: Tracker, input: string, output: string, maxRangeM: number | undefined): Promise<void> {
+async function trackFile(tracker: Tracker, input: string, output: string, shownOutput: string, maxRangeM: number | undefined): Promise<void> {
   const reader = readDetectionsCsv(input, maxRangeM !== undefined ? { maxRangeM } : {});
   const out: Writable = output === '-' ? process.stdout : createWriteStream(output);
   const failed = new Promise<never>((_, reject) =>
-    out.once('error', (e: Error) => reject(new EchotrailError('E_PATH', `cannot write ${output}: ${e.message}`, { cause: e }))),
+    out.once('error', (e: Error) => reject(new EchotrailError('E_PATH', `cannot write ${shownOutput}: ${e.message}`, { cause: e }))),
   );
   failed.catch(() => undefined);
+  try {
+    await trackLoop(tracker, reader, out, output, failed);
+  } catch (err) {
+    // Release the half-written temporary file; the caller removes it.
+    if (output !== '-') out.destroy();
+    throw err;
+  }
+  if (process.stderr.isTTY === true) process.stderr.write('\r\x1b[K');
+  const skipped = formatSkipReport(reader.report);
+  if (skipped) process.stderr.write(`echotrail track: ${skipped}\n`);
+  for (const l of formatSkipDetails(reader.report)) process.stderr.write(`echotrail track:   ${l}\n`);
+  const inf = tracker.inferred();
+  if (inf?.outOfOrder) process.stderr.write(`echotrail track: ${inf.outOfOrder} detection(s) ignored: time went backwards\n`);
+}
+
+/** Reader → tracker → encoder → file, waiting for the file to drain. */
+async function trackLoop(tracker: Tracker, reader: ReturnType<typeof readDetectionsCsv>, out: Writable, output: string, failed: Promise<never>): Promise<void> {
   const tty = process.stderr.isTTY === true;
   let told = false;
   let lastProgress = 0;
@@ -213,9 +231,4 @@ async function trackFile(tracker: Tracker, input: string, output: string, maxRan
     out.end();
     await Promise.race([once(out, 'finish'), failed]);
   }
-  if (tty) process.stderr.write('\r\x1b[K');
-  const skipped = formatSkipReport(reader.report);
-  if (skipped) process.stderr.write(`echotrail track: ${skipped}\n`);
-  const inf = tracker.inferred();
-  if (inf?.outOfOrder) process.stderr.write(`echotrail track: ${inf.outOfOrder} detection(s) ignored: time went backwards\n`);
 }

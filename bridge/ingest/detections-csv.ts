@@ -7,6 +7,7 @@
  * rows around it still come through. `writeDetectionsCsv` writes the same format.
  */
 import { createReadStream, createWriteStream } from 'node:fs';
+import { resolve } from 'node:path';
 import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 import { parse } from 'csv-parse';
@@ -31,7 +32,15 @@ export interface SkipReport {
   firstSkipped: { line: number; reason: string } | null;
   /** Skipped rows counted by kind of fault. */
   reasons: Map<string, number>;
+  /**
+   * The earliest skipped rows, line order, at most SKIP_DETAIL_LIMIT + 1 of them (bounded memory on
+   * a file of millions of bad rows; the extra one tells that more follow).
+   */
+  skippedLines: { line: number; reason: string }[];
 }
+
+/** Skipped rows listed one per line after the summary line; the rest are counted. */
+export const SKIP_DETAIL_LIMIT = 20;
 
 export interface DetectionsCsvReader extends AsyncIterable<Detection> {
   /** Updated while iterating; complete once the iteration ends. */
@@ -133,13 +142,21 @@ function num(cell: string | undefined): number {
  */
 export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options?: DetectionsCsvOptions): DetectionsCsvReader {
   const opts = resolveDetectionsCsvOptions(options);
-  const report: SkipReport = { rows: 0, accepted: 0, skipped: 0, firstSkipped: null, reasons: new Map() };
+  const report: SkipReport = { rows: 0, accepted: 0, skipped: 0, firstSkipped: null, reasons: new Map(), skippedLines: [] };
   const name = typeof input === 'string' ? input : 'input';
+  const kept = report.skippedLines;
   const skip = (line: number, kind: string, detail: string) => {
     report.skipped++;
     report.reasons.set(kind, (report.reasons.get(kind) ?? 0) + 1);
     // csv-parse reports malformed records as it parses ahead of us, so keep the earliest line.
     if (!report.firstSkipped || line < report.firstSkipped.line) report.firstSkipped = { line, reason: detail };
+    // Insert in line order (the parser's reports can come early), keeping only the earliest ones.
+    if (kept.length <= SKIP_DETAIL_LIMIT || line < kept[kept.length - 1].line) {
+      let i = kept.length;
+      while (i > 0 && kept[i - 1].line > line) i--;
+      kept.splice(i, 0, { line, reason: detail });
+      if (kept.length > SKIP_DETAIL_LIMIT + 1) kept.pop();
+    }
   };
   async function* batches(): AsyncGenerator<Detection[]> {
     const source: NodeJS.ReadableStream = typeof input !== 'string' ? input : input === '-' ? process.stdin : createReadStream(input);
@@ -163,7 +180,9 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
     let failure: Error | null = null;
     let ended = false;
     let wake: (() => void) | null = null;
-    source.on('error', (err: Error) => parser.destroy(new EchotrailError('E_PATH', `cannot read ${name}: ${err.message}`, { cause: err })));
+    // The full path: the command may run in another directory than the user's (npm run).
+    const where = typeof input === 'string' && input !== '-' ? resolve(input) : name;
+    source.on('error', (err: Error) => parser.destroy(new EchotrailError('E_PATH', `cannot read ${where}: ${(err as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : err.message}`, { cause: err })));
     parser.on('readable', () => wake?.());
     parser.on('end', () => ((ended = true), wake?.()));
     parser.on('error', (err: Error) => ((failure = err), wake?.()));
@@ -201,7 +220,7 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
         const names = record.map((c) => unquote(c.trim()).toLowerCase());
         const idx = (n: string) => names.indexOf(n);
         const missing = REQUIRED.filter((n) => idx(n) < 0 && !(n === 'amplitude' && opts.defaultAmplitude !== null));
-        if (missing.length) throw new EchotrailError('E_INPUT_COLUMNS', `${name}: header lacks ${missing.join(', ')} (line ${line} must name the columns time_s,azimuth_deg,range_m,amplitude, in any order)`);
+        if (missing.length) throw new EchotrailError('E_INPUT_COLUMNS', `${name}: header lacks ${missing.join(', ')} (line ${line} must name the columns time_s,azimuth_deg,range_m,amplitude, in any order)${delimiterHint(record)}`);
         col = { time_s: idx('time_s'), azimuth_deg: idx('azimuth_deg'), range_m: idx('range_m'), amplitude: idx('amplitude') };
         return;
       }
@@ -265,11 +284,36 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
   return { report, batches, [Symbol.asyncIterator]: rows };
 }
 
+/**
+ * A header read as one cell that holds the column names split by ';' or a tab is a file written
+ * with another delimiter (a spreadsheet in a decimal-comma locale writes ';'): say so.
+ */
+export function delimiterHint(header: string[]): string {
+  const text = header.join(',');
+  for (const [sep, what] of [[';', 'semicolons'], ['\t', 'tabs']] as const) {
+    const names = text.split(sep).map((c) => unquote(c.trim()).toLowerCase());
+    if (names.length > 1 && REQUIRED.some((n) => names.includes(n))) return `; the header looks separated by ${what}: the file must be comma-separated (with '.' as the decimal point)`;
+  }
+  return '';
+}
+
 /** `N rows skipped: first at line L: reason`, or '' when nothing was skipped. */
 export function formatSkipReport(report: SkipReport): string {
   if (report.skipped === 0 || !report.firstSkipped) return '';
   const n = report.skipped;
   return `${n} row${n === 1 ? '' : 's'} skipped: first at line ${report.firstSkipped.line}: ${report.firstSkipped.reason}`;
+}
+
+/**
+ * The skipped rows after the first, one line each (`line L: reason`), at most `max` of them, then
+ * `… and N more`: the summary line (formatSkipReport, whose format docs/conventions.md binds)
+ * names only the first.
+ */
+export function formatSkipDetails(report: SkipReport, max = SKIP_DETAIL_LIMIT): string[] {
+  const rest = report.skippedLines.slice(1, 1 + max).map((s) => `line ${s.line}: ${s.reason}`);
+  const more = report.skipped - 1 - rest.length;
+  if (more > 0) rest.push(`… and ${more} more`);
+  return rest;
 }
 
 /** One CSV line of a detection, degrees at the edge; 0.1 mm, 1e-4° and 1 µs resolution. */

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { run } from '../../bridge/cli/track.ts';
@@ -87,7 +87,42 @@ describe('echotrail track', () => {
     const r = await track(['--in', bad, '--out', out]);
     expect(r.code).toBe(0);
     expect(r.err).toMatch(/4 rows skipped: first at line 201: /);
+    // The summary line keeps its bound format; the other skipped rows follow, one per line.
+    expect(r.err).toContain('echotrail track: 4 rows skipped: first at line 201: azimuth_deg "abc" is not a number\n');
+    expect(r.err).toMatch(/echotrail track: {3}line 301: time_s "NaN" is not a number\n/);
+    expect(r.err).toMatch(/echotrail track: {3}line 401: time_s 1 is earlier/);
+    expect(r.err).toMatch(/echotrail track: {3}line 501: range_m 99999 is outside/);
     expect(rows(out).length).toBeGreaterThan(20);
+  });
+
+  it('lists at most 20 further skipped rows, then how many more', async () => {
+    const lines = rows(good);
+    for (let k = 0; k < 30; k++) lines[100 + 5 * k] = 'garbage,1,2,3';
+    const bad = join(dir, 'many-bad.csv');
+    writeFileSync(bad, lines.join('\n') + '\n');
+    const r = await track(['--in', bad, '--out', join(dir, 'many-bad-tracks.csv')]);
+    expect(r.code).toBe(0);
+    const detail = r.err.split('\n').filter((l) => l.startsWith('echotrail track:   '));
+    expect(detail).toHaveLength(21);
+    expect(detail[0]).toBe('echotrail track:   line 106: time_s "garbage" is not a number');
+    expect(detail[20]).toBe('echotrail track:   … and 9 more');
+  });
+
+  it('a failed run leaves the previous output file as it was, and no temporary file behind', async () => {
+    const empty = join(dir, 'empty-again.csv');
+    writeFileSync(empty, '');
+    const keepDir = join(dir, 'keep');
+    mkdirSync(keepDir);
+    const keep = join(keepDir, 'keep.csv');
+    writeFileSync(keep, 'previous result\n');
+    const r = await track(['--in', empty, '--out', keep]);
+    expect(r.code).toBe(1);
+    expect(readFileSync(keep, 'utf8')).toBe('previous result\n');
+    expect(readdirSync(keepDir)).toEqual(['keep.csv']);
+    // A run that succeeds replaces it.
+    expect((await track(['--in', good, '--out', keep])).code).toBe(0);
+    expect(rows(keep)[0]).toBe(TRACKS_CSV_COLUMNS.join(','));
+    expect(readdirSync(keepDir)).toEqual(['keep.csv']);
   });
 
   it('refuses unusable input with a one-line reason and a non-zero exit', async () => {
@@ -96,17 +131,31 @@ describe('echotrail track', () => {
     let r = await track(['--in', empty, '--out', join(dir, 'x.csv')]);
     expect(r.code).not.toBe(0);
     expect(r.err.trim().split('\n')).toHaveLength(1);
-    expect(r.err).toMatch(/empty/);
+    expect(r.err).toMatch(/^echotrail track: E_INPUT_EMPTY: .*empty/);
 
     const cols = join(dir, 'cols.csv');
     writeFileSync(cols, 'time_s,range_m\n0,1\n');
     r = await track(['--in', cols, '--out', join(dir, 'x.csv')]);
     expect(r.code).not.toBe(0);
-    expect(r.err).toMatch(/azimuth_deg/);
+    expect(r.err).toMatch(/^echotrail track: E_INPUT_COLUMNS: .*azimuth_deg/);
+
+    const semi = join(dir, 'semi.csv');
+    writeFileSync(semi, 'time_s;azimuth_deg;range_m;amplitude\n0;1;2;3\n');
+    r = await track(['--in', semi, '--out', join(dir, 'x.csv')]);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/E_INPUT_COLUMNS: .*header lacks .*separated by semicolons/);
+    writeFileSync(semi, 'time_s\tazimuth_deg\trange_m\tamplitude\n0\t1\t2\t3\n');
+    expect((await track(['--in', semi, '--out', join(dir, 'x.csv')])).err).toMatch(/separated by tabs/);
 
     r = await track(['--in', join(dir, 'missing.csv'), '--out', join(dir, 'x.csv')]);
     expect(r.code).not.toBe(0);
-    expect(r.err).toMatch(/cannot read/);
+    expect(r.err).toMatch(/^echotrail track: E_PATH: cannot read .*missing\.csv/);
+  });
+
+  it('names a relative input by its full path when it cannot be read', async () => {
+    const r = await track(['--in', 'no-such-dir/missing.csv', '--out', join(dir, 'x.csv')]);
+    expect(r.code).toBe(1);
+    expect(r.err).toContain(`cannot read ${join(process.cwd(), 'no-such-dir/missing.csv')}`);
   });
 
   it('takes options and a profile; the command line wins over the profile', async () => {
@@ -146,7 +195,7 @@ describe('echotrail track', () => {
     for (const opt of ['--in', '--out', '--profile', '--sigma-range', '--sigma-azimuth', '--filter', '--gate-probability', '--confirm', '--no-fixed-echoes', '--interval']) {
       expect(out).toContain(opt);
     }
-    expect(out).toMatch(/default 0\.99/);
+    expect(out).toMatch(/\(default: 0\.99\)/);
     expect(out).toMatch(/degrees/);
   });
 });

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PassThrough, Readable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
-import { formatSkipReport, readDetectionsCsv, writeDetectionsCsv } from '../../bridge/ingest/detections-csv.ts';
+import { delimiterHint, formatSkipDetails, formatSkipReport, readDetectionsCsv, writeDetectionsCsv } from '../../bridge/ingest/detections-csv.ts';
 import { hasCode } from '../../bridge/errors.ts';
 import { createRng } from '../../bridge/sim/prng.ts';
 import type { Detection } from '../../bridge/types.ts';
@@ -65,6 +65,12 @@ describe('readDetectionsCsv', () => {
       'bad azimuth_deg': 1, 'bad range_m': 1, 'range out of bounds': 2, 'amplitude not positive': 1, 'bad amplitude': 2, 'time going backwards': 1, 'bad time_s': 1,
     });
     expect(formatSkipReport(report)).toBe('9 rows skipped: first at line 3: azimuth_deg "abc" is not a number');
+    // Every skipped row after the first, in line order, with its reason.
+    const details = formatSkipDetails(report);
+    expect(details).toHaveLength(8);
+    expect(details.map((l) => Number(/^line (\d+): /.exec(l)?.[1]))).toEqual(report.skippedLines.slice(1).map((s) => s.line));
+    expect(report.skippedLines.map((s) => s.line)).toEqual([...report.skippedLines.map((s) => s.line)].sort((a, b) => a - b));
+    expect(formatSkipDetails(report, 3)).toEqual([...details.slice(0, 3), '… and 5 more']);
     const { report: r2 } = await readAll('time_s,azimuth_deg,range_m,amplitude\n0,1,2\n,1,2,3\n0,1,2,3\n');
     expect(r2.firstSkipped?.reason).toBe('amplitude (missing) is not a number');
     expect(r2.skipped).toBe(2);
@@ -226,5 +232,13 @@ describe('readDetectionsCsv: numbers', () => {
     expect(rows.map((d) => d.amplitude)).toEqual(usable.map((c) => Number(c.trim().replace(/"/g, ''))));
     expect(report.skipped).toBe(bad.length);
     expect(Object.fromEntries(report.reasons)).toEqual({ 'bad amplitude': bad.length });
+  });
+});
+
+describe('delimiterHint', () => {
+  it('names semicolons or tabs when the header is one cell holding the column names', () => {
+    expect(delimiterHint(['time_s;azimuth_deg;range_m;amplitude'])).toMatch(/separated by semicolons/);
+    expect(delimiterHint(['time_s\tazimuth_deg\trange_m\tamplitude'])).toMatch(/separated by tabs/);
+    expect(delimiterHint(['t', 'az', 'r'])).toBe('');
   });
 });

@@ -1,0 +1,55 @@
+/**
+ * Result files are written beside their final name and renamed into place only when the command
+ * succeeded, so a failed run leaves the previous result as it was (a rename within one folder is
+ * atomic on POSIX file systems). Writers stream into `tmp` as they would into the file itself.
+ */
+import { rename, rm } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { EchotrailError } from '../errors.ts';
+
+export interface AtomicFile {
+  /** The final path. */
+  readonly path: string;
+  /** Where to write meanwhile: same folder (so the rename cannot cross file systems), hidden name. */
+  readonly tmp: string;
+  /** Moves the temporary file onto the final path. */
+  commit(): Promise<void>;
+  /** Removes the temporary file, if any; never throws. */
+  discard(): Promise<void>;
+}
+
+/** A temporary file beside `path`, unique per process and call. */
+export function atomicFile(path: string): AtomicFile {
+  const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.${(counter++).toString(36)}.tmp`);
+  return {
+    path,
+    tmp,
+    async commit() {
+      try {
+        await rename(tmp, path);
+      } catch (err) {
+        throw new EchotrailError('E_PATH', `cannot write ${path}: ${(err as Error).message}`, { cause: err });
+      }
+    },
+    async discard() {
+      await rm(tmp, { force: true }).catch(() => undefined);
+    },
+  };
+}
+let counter = 0;
+
+/**
+ * Runs `body` with the temporary paths of `paths` ('-' passes through untouched), then renames
+ * them all into place; on any failure the temporary files are removed and the old files stay.
+ */
+export async function writeAtomically<T>(paths: readonly string[], body: (tmp: string[]) => Promise<T>): Promise<T> {
+  const files = paths.map((p) => (p === '-' ? null : atomicFile(p)));
+  try {
+    const result = await body(files.map((f, i) => f?.tmp ?? paths[i]));
+    for (const f of files) await f?.commit();
+    return result;
+  } catch (err) {
+    await Promise.all(files.map((f) => f?.discard()));
+    throw err;
+  }
+}
