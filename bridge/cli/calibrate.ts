@@ -10,7 +10,9 @@ import { alignFrame } from '../calibrate/frame-align.ts';
 import { fitRadarOffsets, type ReflectorPosition } from '../calibrate/offsets.ts';
 import { parseTracksById, readPathCsv, type TimedPoint } from '../calibrate/path.ts';
 import { formatSummary, frameRecord, frameSummary, offsetsRecord, offsetsSummary } from '../calibrate/report.ts';
-import { numberArg, readRunInputs, runCommand } from '../calibrate/cli-common.ts';
+import { numberArg } from '../calibrate/cli-common.ts';
+import { readRunInputs, runCommand } from './run-command.ts';
+import { pathArg } from './user-dir.ts';
 import { EchotrailError } from '../errors.ts';
 import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
@@ -40,7 +42,7 @@ async function readPositions(path: string): Promise<ReflectorPosition[]> {
 
 function common(cmd: Command): Command {
   return cmd
-    .option('--calibration <file>', 'calibration file (JSON) to read and update, created when missing; the bench config\'s "calibration" entry points npm start at it', 'calibration.json')
+    .option('--calibration <file>', 'calibration file (JSON) to read and update, created when missing; the bench config\'s "calibration" entry points npm start at it', pathArg, 'calibration.json')
     .option('--by <who>', 'who or what measured it, stored in the config history', process.env.USER ?? 'unknown')
     .option('--dry-run', 'fit and print, save nothing');
 }
@@ -48,10 +50,10 @@ function common(cmd: Command): Command {
 function offsetsCommand(): Command {
   return common(new Command('echotrail calibrate offsets'))
     .description('Fit range offset, range scale and azimuth offset from detections of a reflector at tape-measured positions (radar frame: x across, y along the antenna zero, metres).')
-    .option('--detections <file>', 'detections CSV of the calibration run(s) (time_s,azimuth_deg,range_m,amplitude)')
-    .option('--session <file>', 'or a recorded session (its raw detections are used)')
-    .option('--reflector <x,y[,label[,from_s,to_s]]>', 'a tape-measured position, metres; repeat for each; from/to limit it to a time span, s', reflector, [])
-    .option('--reflectors <file.json>', 'or a JSON array of positions: [{ "x": 0.5, "y": 1.5, "label": "A", "fromS": 0, "toS": 60 }, …] (metres, seconds)')
+    .option('--detections <file>', 'detections CSV of the calibration run(s) (time_s,azimuth_deg,range_m,amplitude)', pathArg)
+    .option('--session <file>', 'or a recorded session (its raw detections are used)', pathArg)
+    .option('--reflector <x,y,…>', 'a tape-measured position x,y[,label[,from_s,to_s]], metres; repeat for each; from/to limit it to a time span, s', reflector)
+    .option('--reflectors <file.json>', 'or a JSON array of positions: [{ "x": 0.5, "y": 1.5, "label": "A", "fromS": 0, "toS": 60 }, …] (metres, seconds)', pathArg)
     .option('--fit-scale <mode>', 'auto (when distances span ≥ 0.5 m), yes or no', 'auto')
     .option('--gate-range <m>', 'first range gate around each position, metres', numberArg, 0.5)
     .option('--gate-azimuth <deg>', 'first azimuth gate around each position, degrees', numberArg, 10);
@@ -60,23 +62,23 @@ function offsetsCommand(): Command {
 function frameCommand(): Command {
   return common(new Command('echotrail calibrate frame'))
     .description('Fit the positioner frame (rotation + translation into the radar frame) from a run and its commanded path.')
-    .option('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id]); default with --session: the session\'s own')
+    .option('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id]); default with --session: the session\'s own', pathArg)
     .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
-    .option('--detections <file>', 'detections CSV of the run (corrected with the config\'s offsets, gated around the path)')
-    .option('--session <file>', 'or a recorded session: its detections and commanded path')
-    .option('--tracks <file>', 'or a tracks CSV from echotrail track (time_s,track_id,x_m,y_m): the longest track is used')
+    .option('--detections <file>', 'detections CSV of the run (corrected with the config\'s offsets, gated around the path)', pathArg)
+    .option('--session <file>', 'or a recorded session: its detections and commanded path', pathArg)
+    .option('--tracks <file>', 'or a tracks CSV from echotrail track (time_s,track_id,x_m,y_m): the longest track is used', pathArg)
     .option('--track-id <n>', 'use this track id instead of the longest', numberArg)
     .option('--gate <m>', 'first gate radius around the path as currently aligned, metres', numberArg, 0.5)
     .option('--allow-line', 'accept a straight commanded path (tracking lag then shifts the translation along it)');
 }
 
 async function offsets(o: Record<string, unknown>): Promise<number> {
-  const positions = [...(o.reflector as ReflectorPosition[]), ...(o.reflectors ? await readPositions(o.reflectors as string) : [])];
+  const positions = [...((o.reflector as ReflectorPosition[] | undefined) ?? []), ...(o.reflectors ? await readPositions(o.reflectors as string) : [])];
   if (positions.length === 0) throw new EchotrailError('E_OPTION', 'give at least one --reflector x,y (tape-measured, metres)');
   const mode = String(o.fitScale);
   if (!['auto', 'yes', 'no'].includes(mode)) throw new EchotrailError('E_OPTION', `--fit-scale must be auto, yes or no (got '${mode}')`);
   const config = await loadBenchConfig(o.calibration as string, true);
-  const dets = (await readRunInputs(o, false)).detections;
+  const dets = (await readRunInputs(o, false, 'calibrate offsets')).detections;
   const fit = fitRadarOffsets(positions, dets, { fitScale: mode === 'auto' ? 'auto' : mode === 'yes', gateRangeM: o.gateRange as number, gateAzimuthDeg: o.gateAzimuth as number });
   process.stdout.write(formatSummary('radar offsets (measured = scale·true + offset):', offsetsSummary(fit)) + '\n');
   for (const r of fit.reflectors) {
@@ -105,7 +107,7 @@ async function frame(o: Record<string, unknown>): Promise<number> {
     if (!t) throw new EchotrailError('E_OPTION', `no track ${id} in ${o.tracks as string} (ids: ${[...byId.keys()].slice(0, 10).join(', ')})`);
     observed = t;
   } else {
-    const run = await readRunInputs(o, true);
+    const run = await readRunInputs(o, true, 'calibrate frame');
     commanded = run.commanded as TimedPoint[];
     observed = run.detections.map((d) => correctDetection(d, config)).map((d) => ({ timeS: d.timeS, x: d.rangeM * Math.sin(d.azimuthRad), y: d.rangeM * Math.cos(d.azimuthRad) }));
     initial = { rotationRad: config.positionerFrame.rotationDeg * DEG, translation: config.positionerFrame.translationM };

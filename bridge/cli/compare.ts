@@ -16,6 +16,8 @@ import type { TimedPath } from '../compare/timed-path.ts';
 import { readTracksCsv, type TrackRow } from '../compare/track-rows.ts';
 import { readWaypoints } from '../compare/waypoints.ts';
 import { writeOutputs } from '../compare/write-outputs.ts';
+import { reportError } from './report-error.ts';
+import { pathArg } from './user-dir.ts';
 
 function num(name: string, { min = -Infinity, positive = false } = {}) {
   return (v: string): number => {
@@ -30,16 +32,16 @@ function num(name: string, { min = -Infinity, positive = false } = {}) {
 function program(): Command {
   return new Command('echotrail compare')
     .description('Compare the tracked path with the commanded path: lag, along/cross-track errors, RMSE/mean/max/p95 per leg and whole run, filtered and RTS-smoothed, OSPA/GOSPA. Writes summary.json, errors.csv, ospa-gospa.csv, lag-search.csv and report.html into --out.')
-    .option('--tracks <file>', 'tracks CSV as written by `echotrail track`')
-    .option('--commanded <files...>', 'commanded path CSV(s): time_s,x_m,y_m or time_s,azimuth_deg,range_m (optional segment column); the first is compared with the followed track, all enter OSPA/GOSPA')
-    .option('--waypoints <file>', 'waypoints with speeds instead of --commanded: JSON {"start_s", "waypoints": [{x_m, y_m, speed_mps, dwell_s}]} or CSV x_m,y_m,speed_mps,dwell_s')
+    .option('--tracks <file>', 'tracks CSV as written by `echotrail track`', pathArg)
+    .option('--commanded <files...>', 'commanded path CSV(s): time_s,x_m,y_m or time_s,azimuth_deg,range_m (optional segment column); the first is compared with the followed track, all enter OSPA/GOSPA', (v: string, prev: string[] | undefined) => [...(prev ?? []), pathArg(v)])
+    .option('--waypoints <file>', 'waypoints with speeds instead of --commanded: JSON {"start_s", "waypoints": [{x_m, y_m, speed_mps, dwell_s}]} or CSV x_m,y_m,speed_mps,dwell_s', pathArg)
     .option('--target <id>', 'with a target_id column in --commanded: the target compared with the followed track (default: the first in the file)')
-    .option('--calibration <file>', 'bench calibration file (calibration.json, written by `echotrail calibrate`): its positioner frame maps the commanded path into the radar frame')
+    .option('--calibration <file>', 'bench calibration file (calibration.json, written by `echotrail calibrate`): its positioner frame maps the commanded path into the radar frame', pathArg)
     .option('--frame-rotation <deg>', 'instead of --calibration: the positioner frame is turned this much counter-clockwise from the radar frame, degrees (default: 0)', num('frame-rotation'))
     .option('--frame-translation <x,y>', 'instead of --calibration: positioner frame origin in the radar frame, metres (default: 0,0)', pair)
-    .option('--session <file>', 'recorded session (.session.jsonl): its track updates, and its commanded path unless --commanded/--waypoints is given')
+    .option('--session <file>', 'recorded session (.session.jsonl): its track updates, and its commanded path unless --commanded/--waypoints is given', pathArg)
     .addOption(new Option('--session-path <source>', 'which session records give the commanded path').choices(['auto', 'commanded', 'positioner']).default('auto'))
-    .requiredOption('--out <dir>', 'output folder (created if missing)')
+    .requiredOption('--out <dir>', 'output folder (created if missing); its files are replaced only when the comparison succeeds', pathArg)
     .option('--title <text>', 'report title (default: the tracks or session file name)')
     .option('--follow-gate <m>', 'a track further than this from the command cannot become the followed one, metres', num('follow-gate', { positive: true }), 1.0)
     .option('--follow-stale <s>', 'the followed track is lost after this long without an update, seconds', num('follow-stale', { positive: true }), 2.0)
@@ -57,7 +59,7 @@ function program(): Command {
     .option('--min-overlap <fraction>', 'least overlap of the track and commanded time spans, as a fraction of the shorter', num('min-overlap', { min: 0 }), 0.5)
     .option('--max-range <m>', 'positions further from the radar are refused as wrong units, metres', num('max-range', { positive: true }), 50)
     .option('--max-speed <mps>', 'commanded speeds above this are refused as wrong units, m/s', num('max-speed', { positive: true }), 5)
-    .addHelpText('after', '\nExample:\n  echotrail compare --tracks run7.tracks.csv --commanded run7.path.csv --out reports/run7\n  echotrail compare --session sessions/run7.session.jsonl --out reports/run7');
+    .addHelpText('after', '\nExample:\n  echotrail compare --tracks run7.tracks.csv --commanded run7.path.csv \\\n      --out reports/run7\n  echotrail compare --session sessions/run7.session.jsonl --out reports/run7');
 }
 
 function pair(v: string): [number, number] {
@@ -82,20 +84,12 @@ export async function run(argv: string[]): Promise<number> {
     o = cmd.parse(argv, { from: 'user' }).opts<Parsed>();
   } catch (err) {
     if (err instanceof CommanderError) return err.exitCode === 0 ? 0 : 2;
-    if (err instanceof EchotrailError) {
-      process.stderr.write(`echotrail compare: ${err.code}: ${err.message}\n`);
-      return 2;
-    }
-    throw err;
+    return reportError('compare', err, 2);
   }
   try {
     return await compare(o);
   } catch (err) {
-    if (err instanceof EchotrailError) {
-      process.stderr.write(`echotrail compare: ${err.code}: ${err.message}\n`);
-      return 1;
-    }
-    throw err;
+    return reportError('compare', err);
   }
 }
 

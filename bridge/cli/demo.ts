@@ -8,6 +8,8 @@
  */
 import { Command } from 'commander';
 import { parseOrExit } from './parse.ts';
+import { pathArg } from './user-dir.ts';
+import { REPO_ROOT } from '../server/web-build.ts';
 import { rmSync, readdirSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { iterateRun } from '../sim/run.ts';
@@ -58,9 +60,10 @@ export function recordDemoRun(run: DemoRun, dir: string): string {
   if (!rec.open()) throw new Error(rec.status().error ?? 'cannot record');
   rec.note(`demo run: ${sc.description}`, 0);
 
-  const commanded: { timeS: number; x: number; y: number }[] = [];
-  for (const r of iterateRun(sc)) if (r.kind === 'commanded' && r.targetId === sc.targets[0].id) commanded.push(r.point);
-  rec.record({ kind: 'commanded', path: commanded }, 0);
+  // One commanded path per target; with several, each is named by its target id.
+  const commanded = new Map<number, { timeS: number; x: number; y: number }[]>(sc.targets.map((t) => [t.id, []]));
+  for (const r of iterateRun(sc)) if (r.kind === 'commanded') commanded.get(r.targetId)?.push(r.point);
+  for (const [id, path] of commanded) rec.record(sc.targets.length > 1 ? { kind: 'commanded', path, target: String(id) } : { kind: 'commanded', path }, 0);
 
   const emit = (out: TrackerOutput) => {
     for (const update of out.updates) rec.record({ kind: 'track', update });
@@ -85,16 +88,18 @@ export function recordDemoRun(run: DemoRun, dir: string): string {
 export async function run(argv: string[]): Promise<number> {
   const cmd = new Command('echotrail demo')
     .description('Rebuild the demo sessions (simulated runs of the invented bay 3 bench) that npm start replays.')
-    .option('--out <dir>', 'folder to write the session files into', 'replays')
+    .option('--out <dir>', 'folder to write the session files into (default: the repository\'s replays/, where npm start finds them)', pathArg)
     .option('--only <name>', 'rebuild one run only (' + DEMO_RUNS.map((r) => r.name).join(', ') + ')');
   const stop = parseOrExit(cmd, argv);
   if (stop !== null) return stop;
-  const opts = cmd.opts<{ out: string; only?: string }>();
+  const opts = cmd.opts<{ out?: string; only?: string }>();
   const runs = DEMO_RUNS.filter((r) => !opts.only || r.name === opts.only);
   if (runs.length === 0) {
     process.stderr.write(`echotrail demo: no demo run named '${opts.only}'\n`);
     return 2;
   }
+  // The repository's folder by default, wherever the command was run from (main.ts moves to the user's directory).
+  opts.out ??= join(REPO_ROOT, 'replays');
   mkdirSync(opts.out, { recursive: true });
   if (!opts.only) {
     for (const f of readdirSync(opts.out)) if (f.endsWith(SESSION_SUFFIX)) rmSync(join(opts.out, f));

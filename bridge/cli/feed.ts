@@ -7,6 +7,7 @@
  */
 import { Command, InvalidArgumentError } from 'commander';
 import { parseOrExit } from './parse.ts';
+import { EchotrailError } from '../errors.ts';
 import { SerialPort } from 'serialport';
 import { setTimeout as sleep } from 'node:timers/promises';
 import { wireRecords, wireTime } from '../sim/wire-records.ts';
@@ -89,7 +90,7 @@ export async function run(argv: string[]): Promise<number> {
     return 0;
   }
   const port = new SerialPort({ path: options.port, baudRate: options.baudRate, autoOpen: false });
-  await new Promise<void>((res, rej) => port.open((err) => (err ? rej(new Error(`cannot open '${options.port}': ${err.message}`)) : res())));
+  await new Promise<void>((res, rej) => port.open((err) => (err ? rej(new EchotrailError('E_SERIAL', `cannot open '${options.port}': ${err.message}`)) : res())));
   port.on('close', () => abort.abort());
   process.stderr.write(`echotrail feed: scenario ${options.scenario} → ${options.port} at ${options.speed}× (Ctrl-C stops)\n`);
   const n = await feed(options, (line) => new Promise((res) => (port.write(line) ? res() : port.once('drain', () => res()))), abort.signal);

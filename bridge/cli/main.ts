@@ -3,7 +3,12 @@
  *
  * One file per subcommand in this folder, each exporting `run(argv): Promise<number>` (the exit
  * code). This file only dispatches, so a subcommand's start-up cost is paid only when it runs.
+ * It first moves to the user's directory (user-dir.ts): run through npm, the process starts in the
+ * repository, and relative paths (and defaults such as calibration.json) must mean the user's.
  */
+import { errorLine } from './report-error.ts';
+import { userDir } from './user-dir.ts';
+import { EchotrailError } from '../errors.ts';
 const SUBCOMMANDS: Record<string, { summary: string; load: () => Promise<{ run(argv: string[]): Promise<number> }> }> = {
   start: { summary: 'serve the dashboard and stream a demo replay, a session or a serial port', load: () => import('./start.ts') },
   track: { summary: 'track a detections CSV into a tracks CSV (headless)', load: () => import('./track.ts') },
@@ -37,12 +42,16 @@ async function main(argv: string[]): Promise<number> {
   return mod.run(rest);
 }
 
+const here = userDir();
+if (here !== process.cwd()) process.chdir(here);
+
 main(process.argv.slice(2)).then(
   (code) => {
     process.exitCode = code;
   },
   (err: unknown) => {
-    process.stderr.write(`echotrail: ${err instanceof Error ? err.message : String(err)}\n`);
+    const name = process.argv[2] ?? '';
+    process.stderr.write(err instanceof EchotrailError ? `${errorLine(name, err)}\n` : `echotrail ${name}: ${err instanceof Error ? err.message : String(err)}\n`);
     process.exitCode = 1;
   },
 );

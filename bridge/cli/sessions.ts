@@ -27,7 +27,7 @@ export function sessionsTable(sessions: SessionInfo[]): string {
 export async function run(argv: string[]): Promise<number> {
   const cmd = new Command('echotrail sessions')
     .description('List recorded sessions (newest first). "commanded" says whether the session holds a commanded path.')
-    .option('--dir <folder...>', 'session folders to list (default <repo>/sessions, where npm start records)')
+    .option('--dir <folder...>', 'session folders to list (default: <repo>/sessions, where npm start records)')
     .option('--demo', 'also list the demo sessions in replays/')
     .option('--json', 'print JSON instead of a table')
     .exitOverride();

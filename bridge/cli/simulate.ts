@@ -1,10 +1,14 @@
 /**
  * `echotrail simulate`: writes a simulated bench run as a detections CSV (the `track` input
  * format), and optionally a truth CSV (radar frame) and a commanded-path CSV (positioner frame).
- * Streams through `iterateRun`, so long runs need no memory.
+ * Streams through `iterateRun`, so long runs need no memory. Files are written beside their names
+ * and renamed into place at the end (atomic-file.ts): a failed run leaves earlier files as they were.
  */
 import { Command, InvalidArgumentError } from 'commander';
 import { parseOrExit } from './parse.ts';
+import { writeAtomically } from './atomic-file.ts';
+import { reportError } from './report-error.ts';
+import { pathArg } from './user-dir.ts';
 import { CsvSink, COMMANDED_CSV_HEADER, TRUTH_CSV_HEADER, commandedCsvLine, truthCsvLine } from '../sim/csv-sink.ts';
 import { DETECTIONS_CSV_HEADER, detectionCsvLine } from '../ingest/detections-csv.ts';
 import { iterateRun } from '../sim/run.ts';
@@ -32,24 +36,24 @@ function program(): Command {
     .option('--print-scenario', 'print the scenario (after overrides) as JSON and exit')
     .option('--seed <n>', 'PRNG seed (integer; default: the scenario\'s, else 1)', number)
     .option('--duration <s>', 'run length, seconds (default: the scenario\'s, else 60)', number)
-    .option('--out <path>', 'detections CSV, columns time_s,azimuth_deg,range_m,amplitude; - for stdout', '-')
-    .option('--truth <path>', 'truth CSV, radar frame: time_s,target_id,x_m,y_m,vx_mps,vy_mps (default: not written)')
-    .option('--commanded <path>', 'commanded path CSV, positioner frame: time_s,target_id,x_m,y_m; a path containing {id} gives one file per target (default: not written)')
+    .option('--out <path>', 'detections CSV, columns time_s,azimuth_deg,range_m,amplitude; - for stdout', pathArg, '-')
+    .option('--truth <path>', 'truth CSV, radar frame: time_s,target_id,x_m,y_m,vx_mps,vy_mps (default: not written)', pathArg)
+    .option('--commanded <path>', 'commanded path CSV, positioner frame: time_s,target_id,x_m,y_m; a path containing {id} gives one file per target (default: not written)', pathArg)
     .option('--targets <n>', 'number of targets for the crowd scenario', number, 100)
     .option('--antenna <mode>', 'rotating or staring (default: the scenario\'s, else rotating)')
-    .option('--period <s>', 'revolution period of a rotating antenna, seconds (default 1)', number)
-    .option('--rate <hz>', 'looks per second of a staring antenna, Hz (default 200)', number)
-    .option('--sigma-range <m>', 'range noise std, metres (default 0.05)', number)
-    .option('--sigma-azimuth <deg>', 'azimuth noise std, degrees (default 1.5)', number)
-    .option('--pd <p>', 'probability of detection of every target per look, 0–1 (default 0.95)', number)
-    .option('--false-alarm-rate <hz>', 'mean false alarms per second over the coverage (default 0.5)', number)
-    .option('--range-offset <m>', 'range error to simulate: measured = scale·true + offset, metres (default 0)', number)
-    .option('--range-scale <x>', 'range scale error, unitless (default 1)', number)
-    .option('--azimuth-offset <deg>', 'azimuth error to simulate, degrees (default 0)', number)
-    .option('--frame-rotation <deg>', 'positioner frame rotation, counter-clockwise, degrees (default 0)', number)
-    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default 0,0)', pair)
-    .option('--lag <s>', 'positioner following lag: truth = command delayed by this, seconds (default 0)', number)
-    .option('--truth-rate <hz>', 'sample rate of the truth and commanded files, Hz (default 10)', number)
+    .option('--period <s>', 'revolution period of a rotating antenna, seconds (default: 1)', number)
+    .option('--rate <hz>', 'looks per second of a staring antenna, Hz (default: 200)', number)
+    .option('--sigma-range <m>', 'range noise std, metres (default: 0.05)', number)
+    .option('--sigma-azimuth <deg>', 'azimuth noise std, degrees (default: 1.5)', number)
+    .option('--pd <p>', 'probability of detection of every target per look, 0–1 (default: 0.95)', number)
+    .option('--false-alarm-rate <hz>', 'mean false alarms per second over the coverage (default: 0.5)', number)
+    .option('--range-offset <m>', 'range error to simulate: measured = scale·true + offset, metres (default: 0)', number)
+    .option('--range-scale <x>', 'range scale error, unitless (default: 1)', number)
+    .option('--azimuth-offset <deg>', 'azimuth error to simulate, degrees (default: 0)', number)
+    .option('--frame-rotation <deg>', 'positioner frame rotation, counter-clockwise, degrees (default: 0)', number)
+    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default: 0,0)', pair)
+    .option('--lag <s>', 'positioner following lag: truth = command delayed by this, seconds (default: 0)', number)
+    .option('--truth-rate <hz>', 'sample rate of the truth and commanded files, Hz (default: 10)', number)
     .exitOverride()
     .configureOutput({ writeOut: (s) => process.stdout.write(s), writeErr: (s) => process.stderr.write(s) });
 }
@@ -103,26 +107,28 @@ export async function run(argv: string[]): Promise<number> {
       process.stdout.write(JSON.stringify({ version: 1, ...scenario }, null, 2) + '\n');
       return 0;
     }
-    const det = new CsvSink(opts.out, DETECTIONS_CSV_HEADER);
-    const truth = typeof opts.truth === 'string' ? new CsvSink(opts.truth, TRUTH_CSV_HEADER) : null;
     // One file per target when asked ({id}): readers that want one strictly time-ordered path per file.
     const cmdPath = typeof opts.commanded === 'string' ? opts.commanded : null;
     const perTarget = cmdPath?.includes('{id}') ?? false;
-    const commanded = cmdPath && !perTarget ? new CsvSink(cmdPath, COMMANDED_CSV_HEADER) : null;
-    const cmdSinks = new Map(perTarget && cmdPath ? resolved.targets.map((t) => [t.id, new CsvSink(cmdPath.replaceAll('{id}', String(t.id)), COMMANDED_CSV_HEADER)] as const) : []);
-    for (const rec of iterateRun(resolved)) {
-      if (rec.kind === 'detection') await det.push(detectionCsvLine(rec.detection));
-      else if (rec.kind === 'truth') await truth?.push(truthCsvLine(rec.sample));
-      else await (commanded ?? cmdSinks.get(rec.targetId))?.push(commandedCsvLine(rec.targetId, rec.point));
-    }
-    await Promise.all([det.close(), truth?.close(), commanded?.close(), ...[...cmdSinks.values()].map((c) => c.close())]);
-    process.stderr.write(`simulate: ${resolved.name}, seed ${resolved.seed}, ${resolved.durationS} s: ${det.lines} detections` + (truth ? `, ${truth.lines} truth rows` : '') + '\n');
+    const truthPath = typeof opts.truth === 'string' ? opts.truth : null;
+    const cmdPaths = !cmdPath ? [] : perTarget ? resolved.targets.map((t) => cmdPath.replaceAll('{id}', String(t.id))) : [cmdPath];
+    const finals = [opts.out, ...(truthPath ? [truthPath] : []), ...cmdPaths];
+    const { detections, truthRows } = await writeAtomically(finals, async ([detTmp, ...rest]) => {
+      const det = new CsvSink(detTmp, DETECTIONS_CSV_HEADER);
+      const truth = truthPath ? new CsvSink(rest.shift()!, TRUTH_CSV_HEADER) : null;
+      const commanded = cmdPath && !perTarget ? new CsvSink(rest[0], COMMANDED_CSV_HEADER) : null;
+      const cmdSinks = new Map(perTarget ? resolved.targets.map((t, i) => [t.id, new CsvSink(rest[i], COMMANDED_CSV_HEADER)] as const) : []);
+      for (const rec of iterateRun(resolved)) {
+        if (rec.kind === 'detection') await det.push(detectionCsvLine(rec.detection));
+        else if (rec.kind === 'truth') await truth?.push(truthCsvLine(rec.sample));
+        else await (commanded ?? cmdSinks.get(rec.targetId))?.push(commandedCsvLine(rec.targetId, rec.point));
+      }
+      await Promise.all([det.close(), truth?.close(), commanded?.close(), ...[...cmdSinks.values()].map((c) => c.close())]);
+      return { detections: det.lines, truthRows: truth?.lines ?? null };
+    });
+    process.stderr.write(`echotrail simulate: ${resolved.name}, seed ${resolved.seed}, ${resolved.durationS} s: ${detections} detections` + (truthRows !== null ? `, ${truthRows} truth rows` : '') + '\n');
     return 0;
   } catch (err) {
-    if (err instanceof EchotrailError) {
-      process.stderr.write(`echotrail simulate: ${err.message}\n`);
-      return 1;
-    }
-    throw err;
+    return reportError('simulate', err);
   }
 }

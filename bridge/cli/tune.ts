@@ -10,7 +10,9 @@ import { tuneNoise } from '../calibrate/noise-tuning.ts';
 import type { TimedPoint } from '../calibrate/path.ts';
 import { profilePath, saveTrackerProfile, tunedProfile } from '../calibrate/profile-out.ts';
 import { noiseRecord } from '../calibrate/report.ts';
-import { numberArg, readRunInputs, runCommand } from '../calibrate/cli-common.ts';
+import { numberArg } from '../calibrate/cli-common.ts';
+import { readRunInputs, runCommand } from './run-command.ts';
+import { pathArg } from './user-dir.ts';
 import { EchotrailError } from '../errors.ts';
 
 const DEG = Math.PI / 180;
@@ -18,13 +20,13 @@ const DEG = Math.PI / 180;
 function command(): Command {
   return new Command('echotrail tune')
     .description('Estimate measurement and process noise from a run with a known commanded path and write a tracker profile.')
-    .option('--detections <file>', 'detections CSV of the run (time_s,azimuth_deg,range_m,amplitude)')
-    .option('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id]); default with --session: the session\'s own')
-    .option('--session <file>', 'or a recorded session: its raw detections and commanded path')
+    .option('--detections <file>', 'detections CSV of the run (time_s,azimuth_deg,range_m,amplitude)', pathArg)
+    .option('--commanded <file>', 'commanded path CSV, positioner frame (time_s,x_m,y_m[,target_id]); default with --session: the session\'s own', pathArg)
+    .option('--session <file>', 'or a recorded session: its raw detections and commanded path', pathArg)
     .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
     .requiredOption('--name <name>', 'profile name (letters, digits, . _ -): written to <profile-dir>/<name>.json')
-    .option('--profile-dir <dir>', 'folder of tracker profiles', 'profiles')
-    .option('--calibration <file>', 'calibration file with offsets and frame (read; the noise figures are added to its history)', 'calibration.json')
+    .option('--profile-dir <dir>', 'folder of tracker profiles', pathArg, 'profiles')
+    .option('--calibration <file>', 'calibration file with offsets and frame (read; the noise figures are added to its history)', pathArg, 'calibration.json')
     .option('--filter <kind>', 'filter to tune: kalman (σ_a, m/s²) or imm (both levels scaled)', 'kalman')
     .option('--gate <m>', 'association radius around the commanded position, metres', numberArg, 0.4)
     .option('--by <who>', 'who or what tuned it, stored in the profile and the config history', process.env.USER ?? 'unknown')
@@ -36,7 +38,7 @@ async function body(o: Record<string, unknown>): Promise<number> {
   if (filter !== 'kalman' && filter !== 'imm') throw new EchotrailError('E_OPTION', `--filter must be kalman or imm (got '${filter}')`);
   const path = profilePath(o.name as string, o.profileDir as string);
   const config = await loadBenchConfig(o.calibration as string, true);
-  const run = await readRunInputs(o, true);
+  const run = await readRunInputs(o, true, 'tune');
   const r = tuneNoise(run.detections, run.commanded as TimedPoint[], config, { filter, gateM: o.gate as number });
   const ci = (v: [number, number], k = 1) => `[${(v[0] * k).toFixed(4)}, ${(v[1] * k).toFixed(4)}]`;
   const lines = [

@@ -1,5 +1,9 @@
-/** Writes the comparison's files into one folder: summary.json, the CSV series and report.html. */
-import { mkdir, writeFile } from 'node:fs/promises';
+/**
+ * Writes the comparison's files into one folder: summary.json, the CSV series and report.html.
+ * Every file is written under a temporary name first and the set renamed into place only when all
+ * were written, so a failure (full disk, no permission) leaves the previous report whole.
+ */
+import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { EchotrailError } from '../errors.ts';
 import type { Analysis } from './analyse.ts';
@@ -29,15 +33,26 @@ export async function writeOutputs(dir: string, a: Analysis, meta: SummaryMeta, 
     [OUTPUT_FILES.lag, lagCsv(a)],
     [OUTPUT_FILES.report, renderReport(a, meta, report)],
   ];
-  const written: string[] = [];
-  for (const [name, text] of files) {
-    const p = join(dir, name);
-    try {
-      await writeFile(p, text);
-    } catch (err) {
-      throw new EchotrailError('E_OPTION', `cannot write '${p}': ${(err as Error).message}`, { cause: err });
+  const tmp = (name: string) => join(dir, `.${name}.${process.pid}.tmp`);
+  try {
+    for (const [name, text] of files) {
+      try {
+        await writeFile(tmp(name), text);
+      } catch (err) {
+        throw new EchotrailError('E_PATH', `cannot write '${join(dir, name)}': ${(err as Error).message}`, { cause: err });
+      }
     }
-    written.push(p);
+    const written: string[] = [];
+    for (const [name] of files) {
+      const p = join(dir, name);
+      await rename(tmp(name), p).catch((err: Error) => {
+        throw new EchotrailError('E_PATH', `cannot write '${p}': ${err.message}`, { cause: err });
+      });
+      written.push(p);
+    }
+    return written;
+  } finally {
+    // Left over only after a failure: renamed files are gone from these names.
+    await Promise.all(files.map(([name]) => rm(tmp(name), { force: true }).catch(() => undefined)));
   }
-  return written;
 }
