@@ -16,7 +16,6 @@
  * Negative costs are fine: only the edges out of the row being added can have a negative reduced
  * cost, and Dijkstra starts there; the duals keep every other edge's reduced cost ≥ 0.
  */
-import { MinHeap } from './min-heap.ts';
 
 /** A sparse problem in compressed-row form. */
 export interface SparseProblem {
@@ -33,22 +32,118 @@ export interface SparseProblem {
   missCost: Float64Array;
 }
 
+/**
+ * Working arrays, kept between calls and grown as needed: the tracker solves two problems per
+ * batch, and allocating a dozen arrays of the batch's size each time was a tenth of its garbage.
+ */
+class Scratch {
+  size = 0;
+  u = new Float64Array(0);
+  v = new Float64Array(0);
+  col4row = new Int32Array(0);
+  row4col = new Int32Array(0);
+  dist = new Float64Array(0);
+  path = new Int32Array(0);
+  scanned = new Uint8Array(0);
+  readonly touched: number[] = [];
+  readonly scannedCols: number[] = [];
+  readonly visitedRows: number[] = [];
+  readonly heap = new ColumnHeap();
+
+  /** Room for `n` columns (rows ≤ columns here: every row has its own miss column). */
+  reserve(n: number): void {
+    if (n <= this.size) return;
+    const size = Math.max(n, 2 * this.size, 64);
+    this.size = size;
+    this.u = new Float64Array(size);
+    this.v = new Float64Array(size);
+    this.col4row = new Int32Array(size);
+    this.row4col = new Int32Array(size);
+    this.dist = new Float64Array(size).fill(Infinity);
+    this.path = new Int32Array(size);
+    this.scanned = new Uint8Array(size);
+  }
+}
+
+/**
+ * Binary min-heap of columns on their tentative distances, in typed arrays that keep their room
+ * between rounds (a round pushes a few entries; a general heap of JS arrays reallocated them).
+ */
+class ColumnHeap {
+  private keys = new Float64Array(64);
+  private cols = new Int32Array(64);
+  size = 0;
+
+  clear(): void {
+    this.size = 0;
+  }
+
+  push(key: number, col: number): void {
+    if (this.size === this.keys.length) {
+      const k = new Float64Array(2 * this.size);
+      const c = new Int32Array(2 * this.size);
+      k.set(this.keys);
+      c.set(this.cols);
+      this.keys = k;
+      this.cols = c;
+    }
+    const keys = this.keys;
+    const cols = this.cols;
+    let i = this.size++;
+    while (i > 0) {
+      const up = (i - 1) >> 1;
+      if (keys[up] <= key) break;
+      keys[i] = keys[up];
+      cols[i] = cols[up];
+      i = up;
+    }
+    keys[i] = key;
+    cols[i] = col;
+  }
+
+  /** Smallest key (call only when size > 0). */
+  get minKey(): number {
+    return this.keys[0];
+  }
+
+  /** Removes the entry of the smallest key and returns its column (call only when size > 0). */
+  pop(): number {
+    const keys = this.keys;
+    const cols = this.cols;
+    const top = cols[0];
+    const n = --this.size;
+    const lastK = keys[n];
+    const lastC = cols[n];
+    let i = 0;
+    for (;;) {
+      const l = 2 * i + 1;
+      if (l >= n) break;
+      const c = l + 1 < n && keys[l + 1] < keys[l] ? l + 1 : l;
+      if (keys[c] >= lastK) break;
+      keys[i] = keys[c];
+      cols[i] = cols[c];
+      i = c;
+    }
+    keys[i] = lastK;
+    cols[i] = lastC;
+    return top;
+  }
+}
+
+const scratch = new Scratch();
+
 /** Column taken by each row (−1: its miss column), minimising the total cost. */
 export function solveSparse(p: SparseProblem): Int32Array {
   const { rows, cols, rowStart, edgeCol, edgeCost, missCost } = p;
   // Columns 0..cols−1 are real; column cols + r is row r's miss column.
   const nc = cols + rows;
-  const u = new Float64Array(rows);
-  const v = new Float64Array(nc);
-  const col4row = new Int32Array(rows).fill(-1);
-  const row4col = new Int32Array(nc).fill(-1);
-  const dist = new Float64Array(nc).fill(Infinity);
-  const path = new Int32Array(nc).fill(-1);
-  const scanned = new Uint8Array(nc);
-  const touched: number[] = [];
-  const scannedCols: number[] = [];
-  const visitedRows: number[] = [];
-  const heap = new MinHeap<number>();
+  scratch.reserve(nc);
+  const { u, v, col4row, row4col, dist, path, scanned, touched, scannedCols, visitedRows, heap } = scratch;
+  // dist and scanned are left clean by every round (the touched list); the rest starts afresh.
+  u.fill(0, 0, rows);
+  v.fill(0, 0, nc);
+  col4row.fill(-1, 0, rows);
+  row4col.fill(-1, 0, nc);
 
   for (let cur = 0; cur < rows; cur++) {
     let minVal = 0;
@@ -77,14 +172,18 @@ export function solveSparse(p: SparseProblem): Int32Array {
       let j = -1;
       while (heap.size) {
         const key = heap.minKey;
-        const c = heap.pop()!;
+        const c = heap.pop();
         if (!scanned[c] && key === dist[c]) {
           j = c;
           break;
         }
       }
       // Unreachable: the row's own miss column is always a free column.
-      if (j < 0) throw new Error('sparse assignment: no augmenting path');
+      if (j < 0) {
+        // Only a NaN miss cost gets here; the working arrays are mid-round: start afresh next time.
+        scratch.size = 0;
+        throw new Error('sparse assignment: no augmenting path (a miss cost is not a number)');
+      }
       minVal = dist[j];
       scanned[j] = 1;
       scannedCols.push(j);

@@ -86,3 +86,14 @@ describe('solveSparse', () => {
     expect([...sol]).toEqual(Array.from({ length: n }, (_, r) => r));
   });
 });
+
+describe('solveSparse working arrays', () => {
+  it('gives the same answers when called again on smaller and larger problems (arrays reused between calls)', () => {
+    const first = [30, 5, 60, 12].map((rows, k) => {
+      const p = randomProblem(100 + k, rows, rows, 4);
+      return { p, total: total(p, solveSparse(p)) };
+    });
+    for (const { p, total: t } of first.reverse()) expect(total(p, solveSparse(p))).toBeCloseTo(t, 12);
+    for (const { p } of first) expect(total(p, solveSparse(p))).toBeCloseTo(total(p, solveDense(p.dense, Array.from(p.missCost))), 9);
+  });
+});
