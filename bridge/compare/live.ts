@@ -233,3 +233,79 @@ export class LiveComparison {
     }
   }
 }
+
+/** Name of the path built from positioner samples (the line protocol's `pos` records carry no target). */
+export const POSITIONER_PATH = 'positioner';
+/** Name of a commanded path given without a target. */
+export const DEFAULT_PATH = 'commanded';
+
+/**
+ * Several commanded paths at once, one per positioner or carriage (a session's `cmd` records
+ * with a `target`): each path has its own LiveComparison, so each picks the track that follows
+ * it (follow.ts: the confirmed track nearest its commanded position, with hysteresis) and keeps
+ * its own figures and lag. A track is only ever compared with the path it follows: on a run with
+ * two carriages, the second carriage's track is no longer measured against the first one's path.
+ *
+ *   const live = new MultiPathComparison();
+ *   live.setCommanded(pathA, 'A'); live.setCommanded(pathB, 'B');
+ *   for (const u of output.updates) live.update(u);
+ *   for (const f of live.figures()) send({ type: 'comparison', figures: f });   // f.pathId: 'A' | 'B'
+ */
+export class MultiPathComparison {
+  private readonly byPath = new Map<string, LiveComparison>();
+  /** True once a whole path was given: positioner samples then no longer build one. */
+  private explicit = false;
+
+  constructor(private readonly options: Partial<LiveComparisonOptions> = {}) {}
+
+  /** Set (or replace) the path of one target; `target` absent: the single default path. */
+  setCommanded(path: readonly PathPoint[] | TimedPath, target: string = DEFAULT_PATH): void {
+    if (!this.explicit) this.byPath.delete(POSITIONER_PATH);
+    this.explicit = true;
+    let live = this.byPath.get(target);
+    if (!live) {
+      live = new LiveComparison(this.options);
+      this.byPath.set(target, live);
+    }
+    live.setCommanded(path);
+  }
+
+  /** Positioner samples build one path of their own, unless whole paths were given. */
+  addPositioner(s: PositionerSample): void {
+    if (this.explicit) return;
+    let live = this.byPath.get(POSITIONER_PATH);
+    if (!live) {
+      live = new LiveComparison(this.options);
+      this.byPath.set(POSITIONER_PATH, live);
+    }
+    live.addPositioner(s);
+  }
+
+  /** Every path sees every update; each keeps only its own followed track's. */
+  update(u: TrackUpdate): void {
+    for (const live of this.byPath.values()) live.update(u);
+  }
+
+  /** Names of the paths, in the order they came. */
+  get paths(): string[] {
+    return [...this.byPath.keys()];
+  }
+
+  /** Figures of every path that has compared something, each naming its path. */
+  figures(): ComparisonFigures[] {
+    const out: ComparisonFigures[] = [];
+    for (const [pathId, live] of this.byPath) {
+      const f = live.figures();
+      if (f.samples > 0) out.push({ ...f, pathId });
+    }
+    return out;
+  }
+
+  /** Replay seek: forget figures and followed tracks; keep paths given whole (see LiveComparison.reset). */
+  reset(): void {
+    for (const [id, live] of this.byPath) {
+      live.reset();
+      if (id === POSITIONER_PATH) this.byPath.delete(id);
+    }
+  }
+}

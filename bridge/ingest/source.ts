@@ -15,7 +15,8 @@ export type SourceRecord =
   | { kind: 'track'; update: TrackUpdate }
   | { kind: 'deletion'; deletion: TrackDeletion }
   | { kind: 'fixed-echoes'; echoes: FixedEcho[] }
-  | { kind: 'commanded'; path: PathPointWire[] };
+  /** `target` names whose path it is when a run commands several (one per positioner/carriage); absent for a single path. */
+  | { kind: 'commanded'; path: PathPointWire[]; target?: string };
 
 /** A line that was refused, with enough to find it again. */
 export interface BadLine {

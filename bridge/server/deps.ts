@@ -8,7 +8,7 @@ import type { TrackDeletion, TrackEngine, TrackUpdate, PositionerSample } from '
 import type { ComparisonFigures, PathPointWire } from './protocol.ts';
 import { EchotrailError } from '../errors.ts';
 import { Recorder } from '../session/recorder.ts';
-import { LiveComparison } from '../compare/live.ts';
+import { MultiPathComparison } from '../compare/live.ts';
 import { Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
 import { calibrationApi } from '../calibrate/api.ts';
 
@@ -37,12 +37,13 @@ export interface RecordingRequest {
 
 /** What the pipeline needs from a live comparison. */
 export interface LiveComparisonLike {
-  commanded(path: PathPointWire[]): void;
+  /** A whole commanded path; `target` names it when the run commands several. */
+  commanded(path: PathPointWire[], target?: string): void;
   positioner(sample: PositionerSample): void;
   update(update: TrackUpdate): void;
   deletion(deletion: TrackDeletion): void;
-  /** Latest figures, or null before there is anything to compare. */
-  figures(): ComparisonFigures | null;
+  /** Latest figures of every commanded path that has compared something (empty before). */
+  figures(): ComparisonFigures[];
   /** Forget figures and followed track, keep the commanded path (replay seek). */
   reset(): void;
   /** Forget everything, commanded path included (new source). */
@@ -89,34 +90,27 @@ export function openRecording(req: RecordingRequest): RecorderLike {
 }
 
 /**
- * bridge/compare/live.ts behind the pipeline's small interface. A commanded path sent whole by the
- * source wins; positioner samples only build the path when no whole path came.
+ * bridge/compare/live.ts behind the pipeline's small interface: one comparison per commanded path
+ * (per target), each following its own track. Paths sent whole by the source win; positioner
+ * samples only build a path when no whole path came.
  */
 export function createLiveComparison(log: (line: string) => void): LiveComparisonLike {
-  let live = new LiveComparison();
-  let explicit = false;
+  let live = new MultiPathComparison();
   return {
-    commanded(path) {
+    commanded(path, target) {
       try {
-        live.setCommanded(path);
-        explicit = true;
+        live.setCommanded(path, target);
       } catch (err) {
-        log(`live comparison: commanded path refused: ${(err as Error).message}`);
+        log(`live comparison: commanded path${target ? ` '${target}'` : ''} refused: ${(err as Error).message}`);
       }
     },
-    positioner(sample) {
-      if (!explicit) live.addPositioner(sample);
-    },
+    positioner: (sample) => live.addPositioner(sample),
     update: (u) => live.update(u),
     deletion: () => undefined,
-    figures: () => {
-      const f = live.figures();
-      return f.samples > 0 ? f : null;
-    },
+    figures: () => live.figures(),
     reset: () => live.reset(),
     restart() {
-      live = new LiveComparison();
-      explicit = false;
+      live = new MultiPathComparison();
     },
   };
 }

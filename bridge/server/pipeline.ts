@@ -208,11 +208,12 @@ export class Pipeline extends EventEmitter {
       case 'fixed-echoes':
         this.setFixedEchoes(r.echoes);
         break;
-      case 'commanded':
-        this.state.setCommanded(r.path);
-        this.comparison?.commanded(r.path);
-        this.emitMessage({ type: 'commanded', path: this.state.commanded });
+      case 'commanded': {
+        const path = this.state.setCommanded(r.path, r.target);
+        this.comparison?.commanded(r.path, r.target);
+        this.emitMessage(r.target === undefined ? { type: 'commanded', path } : { type: 'commanded', path, target: r.target });
         break;
+      }
     }
     this.batch.schedule();
   }
@@ -353,8 +354,7 @@ export class Pipeline extends EventEmitter {
   private tickStatus(): void {
     if (this.tracker) this.setFixedEchoes(this.tracker.fixedEchoes());
     this.emitMessage({ type: 'source', source: this.stats.status() });
-    const figures = this.comparison?.figures();
-    if (figures) this.emitMessage({ type: 'comparison', figures });
+    for (const figures of this.comparison?.figures() ?? []) this.emitMessage({ type: 'comparison', figures });
   }
 
   /** Sends the replay state when it changed (or always, after a control). */
@@ -403,6 +403,7 @@ export class Pipeline extends EventEmitter {
       detections: pending.size ? s.recentDetections().filter((d) => !pending.has(d)) : s.recentDetections(),
       fixedEchoes: s.fixedEchoes,
       commanded: s.commanded,
+      ...(s.commandedPaths.length > 1 ? { commandedPaths: s.commandedPaths } : {}),
       replay: this.replayState(),
     };
   }

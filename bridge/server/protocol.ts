@@ -120,6 +120,12 @@ export const comparisonFigures = z.object({
   lagS: finite.nullable(),
   /** Track id compared with the commanded path. */
   trackId: z.number().int().nullable(),
+  /**
+   * Which commanded path these figures are against, when the run commands several (one per
+   * positioner or carriage; 'positioner' for the path built from positioner records). Added
+   * within protocol 1, optional: absent means the one commanded path.
+   */
+  pathId: z.string().optional(),
 });
 export type ComparisonFigures = z.infer<typeof comparisonFigures>;
 
@@ -152,7 +158,10 @@ export const serverMessage = z.discriminatedUnion('type', [
     history: z.array(z.object({ id: z.number().int(), points: z.array(finite), kinematics: z.array(finite).optional() })),
     detections: z.array(detectionWire),
     fixedEchoes: z.array(fixedEchoWire),
+    /** The first (or only) commanded path. */
     commanded: z.array(pathPointWire),
+    /** Every commanded path by target, when the run commands several (optional, within protocol 1). */
+    commandedPaths: z.array(z.object({ target: z.string(), path: z.array(pathPointWire) })).optional(),
     replay: replayState.nullable(),
   }),
   z.object({
@@ -172,7 +181,8 @@ export const serverMessage = z.discriminatedUnion('type', [
   z.object({ type: z.literal('fixed-echoes'), echoes: z.array(fixedEchoWire) }),
   z.object({ type: z.literal('source'), source: sourceStatus }),
   z.object({ type: z.literal('replay'), replay: replayState }),
-  z.object({ type: z.literal('commanded'), path: z.array(pathPointWire) }),
+  /** A commanded path; `target` names it when the run commands several (optional, within protocol 1). */
+  z.object({ type: z.literal('commanded'), path: z.array(pathPointWire), target: z.string().optional() }),
   z.object({ type: z.literal('comparison'), figures: comparisonFigures }),
   z.object({ type: z.literal('sessions'), sessions: z.array(sessionInfo) }),
   z.object({ type: z.literal('error'), code: z.string(), message: z.string() }),

@@ -37,7 +37,7 @@ export async function rebuildAfterSeek(
     } else if (r.kind === 'antenna') {
       state.antennaAzimuthRad = r.sample.azimuthRad;
     } else if (r.kind === 'commanded') {
-      state.setCommanded(r.path);
+      state.setCommanded(r.path, r.target);
     }
     if (++n % CHUNK === 0) {
       await new Promise((res) => setImmediate(res));

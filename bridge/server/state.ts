@@ -68,6 +68,8 @@ export class LiveState {
   private readonly historyMap = new Map<number, Ring<[number, number, number, number, number]>>();
   private readonly detections: Ring<DetectionWire>;
   private commandedPath: PathPointWire[] = [];
+  /** Whole commanded paths by target ('' for one without), in the order they came. */
+  private readonly commandedByTarget = new Map<string, PathPointWire[]>();
   /** True once the source sent a whole commanded path: positioner samples then no longer extend it. */
   private commandedExplicit = false;
   /** Least time between kept positioner points; doubled each time the path hits its cap. */
@@ -90,6 +92,7 @@ export class LiveState {
 
   clearCommanded(): void {
     this.commandedPath = [];
+    this.commandedByTarget.clear();
     this.commandedExplicit = false;
     this.commandedStepS = COMMANDED_MIN_DT_S;
   }
@@ -151,14 +154,27 @@ export class LiveState {
     }
   }
 
-  setCommanded(path: PathPointWire[]): void {
+  /**
+   * A whole commanded path, replacing the one of the same target; returns it as kept (thinned to
+   * the cap). The first target's path is also `commanded`, for clients that know only one.
+   */
+  setCommanded(path: PathPointWire[], target = ''): PathPointWire[] {
+    if (!this.commandedExplicit) this.commandedByTarget.clear();
     this.commandedExplicit = true;
     const step = Math.ceil(path.length / this.options.maxCommandedPoints);
-    this.commandedPath = step > 1 ? path.filter((_, i) => i % step === 0) : path.slice();
+    const kept = step > 1 ? path.filter((_, i) => i % step === 0) : path.slice();
+    this.commandedByTarget.set(target, kept);
+    if (this.commandedByTarget.keys().next().value === target) this.commandedPath = kept;
+    return kept;
   }
 
   get commanded(): PathPointWire[] {
     return this.commandedPath;
+  }
+
+  /** Every whole commanded path by target (empty when the path comes from positioner samples). */
+  get commandedPaths(): { target: string; path: PathPointWire[] }[] {
+    return [...this.commandedByTarget].map(([target, path]) => ({ target, path }));
   }
 
   tracks(): TrackWire[] {

@@ -34,7 +34,7 @@ export const RECORD_KINDS = {
   trk: 'track update: timeS, id, status, x, y, vx, vy, speed, headingRad, pxx, pxy, pyy, quality, moving, hits, misses, measurement?, nis?',
   del: 'track deletion: timeS, id, reason',
   fix: 'fixed-echo map snapshot: timeS, echoes[] of {x, y, rangeM, azimuthRad, seen, amplitude}',
-  cmd: 'commanded path (replaces the previous one): timeS, path[] of {timeS, x, y}',
+  cmd: 'commanded path (replaces the previous one of the same target): timeS, target? (which positioner/carriage, when several), path[] of {timeS, x, y}',
   note: 'operator or program note: timeS, text',
   end: 'clean close: timeS (run duration), summary {detections, tracks, lines, hasCommanded}',
 } as const;
@@ -79,7 +79,7 @@ export const sessionLine = z.discriminatedUnion('k', [
   trackWire.extend({ k: z.literal('trk'), measurement: measurement.optional(), nis: finite.optional() }),
   deletionWire.extend({ k: z.literal('del') }),
   z.object({ k: z.literal('fix'), timeS: finite, echoes: z.array(fixedEchoWire) }),
-  z.object({ k: z.literal('cmd'), timeS: finite, path: z.array(pathPointWire) }),
+  z.object({ k: z.literal('cmd'), timeS: finite, target: z.string().min(1).max(64).optional(), path: z.array(pathPointWire) }),
   z.object({ k: z.literal('note'), timeS: finite, text: z.string() }),
   z.object({ k: z.literal('end'), timeS: finite, summary: sessionSummary }),
 ]);
@@ -107,7 +107,7 @@ export function toLine(rec: StoredRecord, timeS: number): SessionLine {
     case 'track': return { k: 'trk', ...rec.update };
     case 'deletion': return { k: 'del', ...rec.deletion };
     case 'fixed-echoes': return { k: 'fix', timeS, echoes: rec.echoes };
-    case 'commanded': return { k: 'cmd', timeS, path: rec.path };
+    case 'commanded': return rec.target === undefined ? { k: 'cmd', timeS, path: rec.path } : { k: 'cmd', timeS, target: rec.target, path: rec.path };
     case 'note': return { k: 'note', timeS, text: rec.text };
   }
 }
@@ -121,7 +121,7 @@ export function fromLine(l: SessionLine): StoredRecord | null {
     case 'trk': { const { k: _k, ...update } = l; return { kind: 'track', update }; }
     case 'del': return { kind: 'deletion', deletion: { timeS: l.timeS, id: l.id, reason: l.reason } };
     case 'fix': return { kind: 'fixed-echoes', echoes: l.echoes };
-    case 'cmd': return { kind: 'commanded', path: l.path };
+    case 'cmd': return l.target === undefined ? { kind: 'commanded', path: l.path } : { kind: 'commanded', path: l.path, target: l.target };
     case 'note': return { kind: 'note', text: l.text };
     case 'end': return null;
   }

@@ -110,7 +110,7 @@ export class SessionReader {
       else if (k !== 'detection' || r.timeS >= t - this.opts.recentDetectionsS) window.push(r.record);
     }
     const out: StoredRecord[] = [];
-    if (state.commanded.length) out.push({ kind: 'commanded', path: state.commanded });
+    for (const [target, path] of state.commandedByTarget) if (path.length) out.push(target ? { kind: 'commanded', path, target } : { kind: 'commanded', path });
     if (state.fixedEchoes.length) out.push({ kind: 'fixed-echoes', echoes: state.fixedEchoes });
     for (const update of state.tracks.values()) out.push({ kind: 'track', update });
     out.push(...window);

@@ -26,6 +26,8 @@ export class RunState {
   tracks = new Map<number, TrackUpdate>();
   fixedEchoes: FixedEcho[] = [];
   commanded: PathPointWire[] = [];
+  /** Every commanded path by target ('' for a path without one), in the order they first came. */
+  commandedByTarget = new Map<string, PathPointWire[]>();
   antenna: AntennaSample | null = null;
   positioner: PositionerSample | null = null;
 
@@ -34,7 +36,10 @@ export class RunState {
       case 'track': this.tracks.set(rec.update.id, rec.update); break;
       case 'deletion': this.tracks.delete(rec.deletion.id); break;
       case 'fixed-echoes': this.fixedEchoes = rec.echoes; break;
-      case 'commanded': this.commanded = rec.path; break;
+      case 'commanded':
+        this.commandedByTarget.set(rec.target ?? '', rec.path);
+        if (this.commandedByTarget.size === 1 || (rec.target ?? '') === [...this.commandedByTarget.keys()][0]) this.commanded = rec.path;
+        break;
       case 'antenna': this.antenna = rec.sample; break;
       case 'positioner': this.positioner = rec.sample; break;
       default: break;
@@ -47,6 +52,7 @@ export class RunState {
     c.tracks = new Map(this.tracks);
     c.fixedEchoes = this.fixedEchoes;
     c.commanded = this.commanded;
+    c.commandedByTarget = new Map(this.commandedByTarget);
     c.antenna = this.antenna;
     c.positioner = this.positioner;
     return c;

@@ -2,7 +2,7 @@
 // lag.ts); RMSE definition common practice. Inputs: the seeded analytic run of bench-run.ts.
 import { describe, expect, it } from 'vitest';
 import { comparisonFigures } from '../../bridge/server/protocol.ts';
-import { LiveComparison } from '../../bridge/compare/live.ts';
+import { LiveComparison, MultiPathComparison, POSITIONER_PATH } from '../../bridge/compare/live.ts';
 import { deviations } from '../../bridge/compare/deviation.ts';
 import { sampleAt } from '../../bridge/compare/timed-path.ts';
 import type { TrackRow } from '../../bridge/compare/track-rows.ts';
@@ -138,5 +138,43 @@ describe('LiveComparison on a long positioner-fed run', () => {
     feed(live, 600, 60);
     expect(live.pathPoints).toBeLessThanOrEqual(3_000);
     expect(live.figures().samples).toBeGreaterThan(0);
+  });
+});
+
+describe('MultiPathComparison', () => {
+  // Two carriages crossing as in the demo: A (-1.5, 2.4) → (1.5, 3.6), B mirrored, 16 s each.
+  const A = [{ timeS: 0, x: -1.5, y: 2.4 }, { timeS: 16, x: 1.5, y: 3.6 }];
+  const B = [{ timeS: 0, x: 1.5, y: 2.4 }, { timeS: 16, x: -1.5, y: 3.6 }];
+  const at = (p: typeof A, t: number) => ({ x: p[0].x + ((p[1].x - p[0].x) * t) / 16, y: p[0].y + ((p[1].y - p[0].y) * t) / 16 });
+  const upd = (id: number, t: number, p: { x: number; y: number }, dx: number): TrackUpdate => ({
+    timeS: t, id, status: 'confirmed', x: p.x + dx, y: p.y, vx: 0, vy: 0, speed: 0.2, headingRad: 0,
+    pxx: 0.01, pxy: 0, pyy: 0.01, quality: 0.9, moving: true, hits: 3, misses: 0,
+  });
+
+  it('compares each track with the path it follows, one set of figures per path', () => {
+    const live = new MultiPathComparison();
+    live.setCommanded(A, '1');
+    live.setCommanded(B, '2');
+    for (let t = 0; t <= 8; t += 0.25) {
+      live.update(upd(5, t, at(A, t), 0.01));
+      live.update(upd(6, t, at(B, t), -0.03));
+    }
+    const f = live.figures();
+    expect(f.map((x) => [x.pathId, x.trackId])).toEqual([['1', 5], ['2', 6]]);
+    expect(f[0].rmseM).toBeLessThan(0.02);
+    // The second carriage's track is measured against its own path (3 cm), not the first one's (metres).
+    expect(f[1].rmseM).toBeCloseTo(0.03, 2);
+    for (const x of f) expect(comparisonFigures.safeParse(x).success).toBe(true);
+  });
+
+  it('builds one path from positioner samples unless whole paths are given, and forgets it on a reset', () => {
+    const live = new MultiPathComparison();
+    for (let t = 0; t <= 2; t += 0.1) live.addPositioner({ timeS: t, cmdX: at(A, t).x, cmdY: at(A, t).y });
+    expect(live.paths).toEqual([POSITIONER_PATH]);
+    live.reset();
+    expect(live.paths).toEqual([]);
+    live.setCommanded(B, '2');
+    live.addPositioner({ timeS: 3, cmdX: 0, cmdY: 3 });
+    expect(live.paths).toEqual(['2']);
   });
 });

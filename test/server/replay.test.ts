@@ -137,6 +137,32 @@ describe('replay of a recorded session', () => {
     expect(next.replay?.playlist).toEqual({ index: 1, count: 2, loops: true });
   });
 
+  it('a run with two commanded paths (two carriages): both reach the dashboard, each compared with its own track', async () => {
+    const rec = new Recorder({ dir, name: 'two-carriages', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T12:00:00Z') });
+    expect(rec.open()).toBe(true);
+    rec.record({ kind: 'commanded', target: '1', path: [{ timeS: 0, x: -1.5, y: 2.4 }, { timeS: 10, x: 1.5, y: 3.6 }] }, 0);
+    rec.record({ kind: 'commanded', target: '2', path: [{ timeS: 0, x: 1.5, y: 2.4 }, { timeS: 10, x: -1.5, y: 3.6 }] }, 0);
+    for (let i = 0; i <= 100; i++) {
+      const t = i * 0.1, f = t / 10;
+      rec.record({ kind: 'track', update: trackAt(1, t, -1.5 + 3 * f, 2.4 + 1.2 * f) });
+      rec.record({ kind: 'track', update: trackAt(2, t, 1.5 - 3 * f + 0.05, 2.4 + 1.2 * f) });
+    }
+    const file = rec.status().path as string;
+    rec.close();
+    bridge = await startBridge({ port: 0, replay: file, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 5 });
+    const snap = await c.next('snapshot', (s) => s.replay?.positionS === 5);
+    expect(snap.commandedPaths?.map((p) => p.target)).toEqual(['1', '2']);
+    c.send({ type: 'control', action: 'speed', value: 50 });
+    c.send({ type: 'control', action: 'play' });
+    const two = await c.next('comparison', (m) => m.figures.pathId === '2' && m.figures.samples > 5);
+    expect(two.figures.trackId).toBe(2);
+    expect(two.figures.rmseM).toBeLessThan(0.1);
+    const one = await c.next('comparison', (m) => m.figures.pathId === '1' && m.figures.samples > 5);
+    expect(one.figures.trackId).toBe(1);
+  });
+
   it('lists sessions and opens one by id over the WebSocket; refuses unknown ids', async () => {
     bridge = await startBridge({ port: 0, sessionsDir: dir, log: () => undefined });
     const c = await connect(bridge);

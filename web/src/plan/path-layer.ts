@@ -3,12 +3,14 @@
  * positioner's current commanded point, the antenna direction, and the selected track's trail
  * drawn thick. Screen space; the path is rebuilt only when it or the view changes.
  */
-import { Container, Graphics } from 'pixi.js';
+import { Container, Graphics, Text } from 'pixi.js';
 import type { PathPointWire } from '../../../bridge/server/protocol.ts';
 import type { DashboardState } from '../stream/state.ts';
 import { antennaColour, commandedColour, trackColour } from './palette.ts';
 import { type View, toScreen } from './view.ts';
 import { PATH_AHEAD_S, errorBandHalfWidthM, pathWindow } from './path-window.ts';
+import { commandedAt } from '../stream/path-error.ts';
+import { pathLabel } from '../stream/path-match.ts';
 
 const DASH_PX = 8;
 const GAP_PX = 6;
@@ -18,6 +20,8 @@ export class PathLayer {
   private readonly band = new Graphics();
   private readonly path = new Graphics();
   private readonly live = new Graphics();
+  /** One name per path when a run commands several ("path 1", "path 2"), beside its current point. */
+  private readonly names: Text[] = [];
   private pathKey = '';
 
   constructor() {
@@ -30,13 +34,21 @@ export class PathLayer {
     // seconds so the path is rebuilt about once a second, not every frame.
     const from = Number.isFinite(trailFromS) ? Math.floor(trailFromS) : -Infinity;
     const to = Number.isFinite(trailFromS) ? Math.ceil(state.timeS) + PATH_AHEAD_S : Infinity;
-    const bandM = errorBandHalfWidthM(state.comparison?.rmseM ?? null);
-    const key = `${state.commandedVersion},${from},${to},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height},${bandM}`;
+    // Every commanded path (one per carriage or positioner), each with its own error band.
+    const paths = state.commandedPaths;
+    const bands = paths.map((p) => errorBandHalfWidthM((state.comparisons.get(p.target) ?? (paths.length === 1 ? state.comparison : null))?.rmseM ?? null));
+    const key = `${state.commandedVersion},${from},${to},${view.centreX},${view.centreY},${view.scale},${view.width},${view.height},${bands.join('/')}`;
     if (key !== this.pathKey) {
       this.pathKey = key;
-      const window = pathWindow(state.commanded, from, to);
-      drawBand(this.band.clear(), view, window, bandM);
-      drawDashed(this.path.clear(), view, window);
+      this.band.clear();
+      this.path.clear();
+      paths.forEach((p, i) => {
+        const window = pathWindow(p.path, from, to);
+        drawBand(this.band, view, window, bands[i]);
+        drawDashed(this.path, view, window);
+        this.placeName(i, paths.length > 1 ? pathLabel(p.target, paths.length) : '', view, p.path, Math.ceil(state.timeS));
+      });
+      for (let i = paths.length > 1 ? paths.length : 0; i < this.names.length; i++) this.names[i].visible = false;
     }
     const g = this.live.clear();
     const sel = selectedId === null ? undefined : state.tracks.get(selectedId);
@@ -69,6 +81,26 @@ export class PathLayer {
       g.moveTo(o.px, o.py).lineTo(o.px + r * Math.sin(az), o.py - r * Math.cos(az))
         .stroke({ width: 1.5, color: antennaColour, alpha: 0.8 });
     }
+  }
+
+  /** Puts path i's name just below its commanded point at time t (or its end), or hides it. */
+  private placeName(i: number, text: string, view: View, path: readonly PathPointWire[], t: number): void {
+    let label = this.names[i];
+    if (!text) {
+      if (label) label.visible = false;
+      return;
+    }
+    if (!label) {
+      label = new Text({ text, style: { fontFamily: 'system-ui, sans-serif', fontSize: 12, fill: commandedColour } });
+      label.anchor.set(0.5, 0);
+      this.names[i] = label;
+      this.container.addChild(label);
+    }
+    const c = commandedAt(path, t) ?? path[path.length - 1];
+    const s = toScreen(view, c.x, c.y);
+    if (label.text !== text) label.text = text;
+    label.position.set(Math.round(s.px), Math.round(s.py + 10));
+    label.visible = true;
   }
 }
 

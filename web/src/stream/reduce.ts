@@ -31,7 +31,7 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       for (const entry of state.tracks.values()) if (entry.history.length === 0) pushUpdate(entry.history, entry.latest);
       for (const d of msg.detections) addDetection(state, d.timeS, d.azimuthRad, d.rangeM, d.fixed ?? false);
       setFixedEchoes(state, msg.fixedEchoes);
-      setCommanded(state, msg.commanded);
+      setCommandedPaths(state, msg.commandedPaths ?? (msg.commanded.length ? [{ target: '', path: msg.commanded }] : []));
       pruneDetections(state, limits);
       return;
     case 'scan': {
@@ -68,10 +68,12 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       state.replay = msg.replay;
       return;
     case 'commanded':
-      setCommanded(state, msg.path);
+      if (msg.target === undefined) setCommandedPaths(state, [{ target: '', path: msg.path }]);
+      else setCommandedPaths(state, [...state.commandedPaths.filter((p) => p.target !== msg.target && p.target !== ''), { target: msg.target, path: msg.path }]);
       return;
     case 'comparison':
       state.comparison = msg.figures;
+      state.comparisons.set(msg.figures.pathId ?? '', msg.figures);
       state.comparisonHistory.push(msg.figures);
       if (state.comparisonHistory.length > limits.comparisonPoints) state.comparisonHistory.shift();
       return;
@@ -103,6 +105,7 @@ function restart(state: DashboardState, timeS: number): void {
   state.detections.length = 0;
   state.comparison = null;
   state.comparisonHistory.length = 0;
+  state.comparisons.clear();
   state.positioner = null;
   state.timeS = timeS;
   state.epoch++;
@@ -124,8 +127,9 @@ function setFixedEchoes(state: DashboardState, echoes: { x: number; y: number; a
   state.fixedVersion++;
 }
 
-function setCommanded(state: DashboardState, path: DashboardState['commanded']): void {
-  if (path.length === 0 && state.commanded.length === 0) return;
-  state.commanded = path;
+function setCommandedPaths(state: DashboardState, paths: DashboardState['commandedPaths']): void {
+  if (paths.length === 0 && state.commandedPaths.length === 0) return;
+  state.commandedPaths = paths;
+  state.commanded = paths[0]?.path ?? [];
   state.commandedVersion++;
 }

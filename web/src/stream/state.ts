@@ -38,14 +38,20 @@ export interface DashboardState {
   /** Recent detections, oldest first, capped by `detectionLimit`. */
   detections: DetectionDot[];
   fixedEchoes: FixedEchoDot[];
+  /** The first (or only) commanded path. */
   commanded: PathPointWire[];
+  /** Every commanded path, one per target ('' when the run has one path without a name), in arrival order. */
+  commandedPaths: { target: string; path: PathPointWire[] }[];
   antennaAzimuthRad: number | null;
   /** Latest commanded/measured positioner position, metres. */
   positioner: { timeS: number; cmdX: number; cmdY: number; measX?: number; measY?: number } | null;
   replay: ReplayState | null;
+  /** Latest comparison figures of any path (kept for single-path readers). */
   comparison: ComparisonFigures | null;
-  /** Running comparison figures over time for the error chart (capped). */
+  /** Running comparison figures over time for the error chart (capped), all paths. */
   comparisonHistory: ComparisonFigures[];
+  /** Latest figures per commanded path (key: the figures' pathId, '' when absent). */
+  comparisons: Map<string, ComparisonFigures>;
   sessions: SessionInfo[];
   lastError: { code: string; message: string } | null;
   /** Frames refused by the schema (never applied); shown in the status panel. */
@@ -84,8 +90,8 @@ export const defaultLimits: StateLimits = {
 export function createState(): DashboardState {
   return {
     connection: 'connecting', serverName: null, timeS: 0, source: null, tracks: new Map(),
-    detections: [], fixedEchoes: [], commanded: [], antennaAzimuthRad: null, positioner: null,
-    replay: null, comparison: null, comparisonHistory: [], sessions: [], lastError: null,
+    detections: [], fixedEchoes: [], commanded: [], commandedPaths: [], antennaAzimuthRad: null, positioner: null,
+    replay: null, comparison: null, comparisonHistory: [], comparisons: new Map(), sessions: [], lastError: null,
     invalidFrames: 0, lastInvalid: null, epoch: 0, fixedVersion: 0, commandedVersion: 0,
     capture: { active: false, detections: [], limit: 12_000 },
   };
