@@ -45,9 +45,10 @@ class Scratch {
   dist = new Float64Array(0);
   path = new Int32Array(0);
   scanned = new Uint8Array(0);
-  readonly touched: number[] = [];
-  readonly scannedCols: number[] = [];
-  readonly visitedRows: number[] = [];
+  /** Columns given a distance this round, columns scanned, rows visited (each at most `size`). */
+  touched = new Int32Array(0);
+  scannedCols = new Int32Array(0);
+  visitedRows = new Int32Array(0);
   readonly heap = new ColumnHeap();
 
   /** Room for `n` columns (rows ≤ columns here: every row has its own miss column). */
@@ -62,6 +63,9 @@ class Scratch {
     this.dist = new Float64Array(size).fill(Infinity);
     this.path = new Int32Array(size);
     this.scanned = new Uint8Array(size);
+    this.touched = new Int32Array(size);
+    this.scannedCols = new Int32Array(size);
+    this.visitedRows = new Int32Array(size);
   }
 }
 
@@ -149,8 +153,9 @@ export function solveSparse(p: SparseProblem): Int32Array {
     let minVal = 0;
     let i = cur;
     let sink = -1;
-    visitedRows.length = 0;
-    scannedCols.length = 0;
+    let nVisited = 0;
+    let nTouched = 0;
+    let nScanned = 0;
     heap.clear();
     for (;;) {
       // Relax row i's edges, then (one step past its last edge) its own miss column, by the
@@ -162,7 +167,7 @@ export function solveSparse(p: SparseProblem): Int32Array {
         if (scanned[c]) continue;
         const rc = base + (miss ? missCost[i] : edgeCost[e]) - v[c];
         if (rc < dist[c]) {
-          if (dist[c] === Infinity) touched.push(c);
+          if (dist[c] === Infinity) touched[nTouched++] = c;
           dist[c] = rc;
           path[c] = i;
           heap.push(rc, c);
@@ -186,18 +191,18 @@ export function solveSparse(p: SparseProblem): Int32Array {
       }
       minVal = dist[j];
       scanned[j] = 1;
-      scannedCols.push(j);
+      scannedCols[nScanned++] = j;
       if (row4col[j] === -1) {
         sink = j;
         break;
       }
       i = row4col[j];
-      visitedRows.push(i);
+      visitedRows[nVisited++] = i;
     }
     // Dual update (as in Crouse's algorithm), then flip the path.
     u[cur] += minVal;
-    for (const r of visitedRows) u[r] += minVal - dist[col4row[r]];
-    for (const c of scannedCols) v[c] -= minVal - dist[c];
+    for (let k = 0; k < nVisited; k++) u[visitedRows[k]] += minVal - dist[col4row[visitedRows[k]]];
+    for (let k = 0; k < nScanned; k++) v[scannedCols[k]] -= minVal - dist[scannedCols[k]];
     for (let j = sink; ; ) {
       const r = path[j];
       row4col[j] = r;
@@ -206,11 +211,10 @@ export function solveSparse(p: SparseProblem): Int32Array {
       if (r === cur) break;
       j = prev;
     }
-    for (const c of touched) {
-      dist[c] = Infinity;
-      scanned[c] = 0;
+    for (let k = 0; k < nTouched; k++) {
+      dist[touched[k]] = Infinity;
+      scanned[touched[k]] = 0;
     }
-    touched.length = 0;
   }
   const out = new Int32Array(rows);
   for (let r = 0; r < rows; r++) out[r] = col4row[r] < cols ? col4row[r] : -1;
