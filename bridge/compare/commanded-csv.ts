@@ -4,9 +4,8 @@
  * optional `target_id` column holds several targets' paths in one file (as `echotrail simulate
  * --commanded` writes them), each validated on its own.
  */
-import { readFile } from 'node:fs/promises';
 import { EchotrailError } from '../errors.ts';
-import { findColumn, numberCell, parseCsvTable, requireColumn, type CsvTable } from './csv-table.ts';
+import { findColumn, numberCell, parseCsvTable, readInputFile, requireColumn, type CsvTable } from './csv-table.ts';
 import { makeTimedPath, type PathPoint, type TimedPath } from './timed-path.ts';
 import { checkAzimuthDegrees, checkPositions, checkSpeeds, resolveUnitCheckOptions, type UnitCheckOptions } from './units.ts';
 
@@ -89,5 +88,5 @@ function pathFromRows(t: CsvTable, what: string, units: Partial<UnitCheckOptions
 
 /** Read a commanded-path CSV file: every target in it. */
 export async function readCommandedCsv(file: string, units: Partial<UnitCheckOptions> = {}): Promise<CommandedTarget[]> {
-  return parseCommandedTargets(await readFile(file, 'utf8'), `commanded path ${file}`, units);
+  return parseCommandedTargets(await readInputFile(file, 'commanded path'), `commanded path ${file}`, units);
 }

@@ -2,6 +2,8 @@
  * A CSV file as a header plus numbered rows (csv-parse), with column lookup and numeric parsing
  * that name the line on failure. Shared by the commanded-path, waypoint and tracks readers.
  */
+import { readFile } from 'node:fs/promises';
+import { resolve } from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { EchotrailError } from '../errors.ts';
 
@@ -72,4 +74,14 @@ export function optionalNumberCell(table: CsvTable, row: { line: number; cells: 
   const raw = row.cells[col];
   if (raw === undefined || raw === '') return undefined;
   return numberCell(table, row, col);
+}
+
+/** A whole input file as text; a file that cannot be read is an E_PATH error naming its full path. */
+export async function readInputFile(file: string, what: string): Promise<string> {
+  try {
+    return await readFile(file, 'utf8');
+  } catch (err) {
+    const e = err as NodeJS.ErrnoException;
+    throw new EchotrailError('E_PATH', `cannot read ${what} ${resolve(file)}: ${e.code === 'ENOENT' ? 'no such file' : e.message}`, { cause: err });
+  }
 }

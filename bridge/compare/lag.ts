@@ -72,12 +72,19 @@ export function estimateLag(path: TimedPath, all: readonly (Point & { timeS: num
   return { ...second, rmsAtZeroM: first.rmsAtZeroM, outliers: all.length - inliers.length };
 }
 
-function searchLag(path: TimedPath, all: readonly (Point & { timeS: number })[], o: LagOptions): LagEstimate {
+/**
+ * The samples the search uses: those whose shifted time stays on the path for every candidate
+ * (otherwise the clamped ends would reward lags that push samples off the path), or, when under
+ * ten are left, those inside the path's span.
+ */
+export function searchSamples<T extends { timeS: number }>(path: TimedPath, all: readonly T[], maxLagS: number): T[] {
   const { startS, endS } = timeSpan(path);
-  // Only samples whose shifted time stays on the path for every candidate: otherwise the clamped
-  // ends would reward lags that push samples off the path.
-  let samples = all.filter((s) => s.timeS - o.maxLagS >= startS && s.timeS + o.maxLagS <= endS);
-  if (samples.length < 10) samples = all.filter((s) => s.timeS >= startS && s.timeS <= endS);
+  const samples = all.filter((s) => s.timeS - maxLagS >= startS && s.timeS + maxLagS <= endS);
+  return samples.length >= 10 ? samples : all.filter((s) => s.timeS >= startS && s.timeS <= endS);
+}
+
+function searchLag(path: TimedPath, all: readonly (Point & { timeS: number })[], o: LagOptions): LagEstimate {
+  const samples = searchSamples(path, all, o.maxLagS);
   const rmsAtZeroM = samples.length ? Math.sqrt(lagCost(path, samples, 0)) : NaN;
   const moved = samples.length >= 2 &&
     Math.abs(sampleAt(path, samples[samples.length - 1].timeS).alongM - sampleAt(path, samples[0].timeS).alongM) > 1e-3;

@@ -18,6 +18,17 @@ export interface SummaryMeta {
 }
 
 const r6 = (v: number | null) => (v === null || !Number.isFinite(v) ? null : Math.round(v * 1e6) / 1e6);
+/** Lags to 0.1 ms: the estimate is good to a few milliseconds at best. */
+const r4 = (v: number | null | undefined) => (v === null || v === undefined || !Number.isFinite(v) ? null : Math.round(v * 1e4) / 1e4);
+
+/**
+ * Every number of the summary to 1e-6 (µm, µs, 1e-6 m/s, 1e-6°), integers untouched, so that no
+ * figure carries binary float noise (0.23720000000000008). Integer ÷ 1e6 is correctly rounded, so
+ * the value prints as its shortest decimal.
+ */
+export function roundForJson(_key: string, v: unknown): unknown {
+  return typeof v === 'number' && Number.isFinite(v) && !Number.isInteger(v) ? Math.round(v * 1e6) / 1e6 : v;
+}
 
 /** The JSON summary. */
 export function buildSummary(a: Analysis, meta: SummaryMeta): Record<string, unknown> {
@@ -38,7 +49,18 @@ export function buildSummary(a: Analysis, meta: SummaryMeta): Record<string, unk
     tracks: { ids: a.trackIds, followed_rows: a.followed.length, switches: a.switches.map((s) => ({ time_s: s.timeS, from: s.from, to: s.to })),
       released: a.releases.map((r) => ({ time_s: r.timeS, id: r.id, distance_m: r6(r.distanceM) })) },
     coverage: { confirmed_fraction: r6(a.coverage.confirmedFraction), coasting_fraction: r6(a.coverage.coastingFraction), gap_limit_s: r6(a.coverage.gapLimitS) },
-    lag: { lag_s: r6(a.lag.lagS), rms_at_lag_m: r6(a.lag.rmsAtLagM), rms_at_zero_m: r6(a.lag.rmsAtZeroM), samples: a.lag.samples, outliers: a.lag.outliers },
+    lag: {
+      lag_s: r4(a.lag.lagS),
+      // Which track the lag was found on: 'smoothed' (RTS, no filter lag) or 'filtered' (the live track).
+      estimated_on: a.lagSource,
+      ci_low_s: r4(a.lagInterval?.lowS),
+      ci_high_s: r4(a.lagInterval?.highS),
+      ci_level: a.lagInterval?.level ?? null,
+      significant: a.lagInterval ? a.lagInterval.significant : null,
+      undetermined: a.lagInterval ? a.lagInterval.undetermined : null,
+      filtered_track_lag_s: r4(a.filteredLag.lagS),
+      rms_at_lag_m: r6(a.lag.rmsAtLagM), rms_at_zero_m: r6(a.lag.rmsAtZeroM), samples: a.lag.samples, outliers: a.lag.outliers,
+    },
     whole_run: { filtered: a.whole.filtered, smoothed: a.whole.smoothed },
     smoothed_to_filtered_rmse: fRmse && sRmse !== null ? r6(sRmse / fRmse) : null,
     legs: a.perLeg.map((l) => ({

@@ -2,10 +2,9 @@
  * Tracked paths: the rows of a tracks CSV written by `echotrail track`, or TrackUpdates from the
  * live pipeline, reduced to what the comparison needs.
  */
-import { readFile } from 'node:fs/promises';
 import { EchotrailError } from '../errors.ts';
 import type { TrackStatus, TrackUpdate } from '../types.ts';
-import { findColumn, numberCell, optionalNumberCell, parseCsvTable, requireColumn } from './csv-table.ts';
+import { findColumn, numberCell, optionalNumberCell, parseCsvTable, readInputFile, requireColumn } from './csv-table.ts';
 import { headingOf } from './geometry.ts';
 import { resolveUnitCheckOptions, type UnitCheckOptions } from './units.ts';
 
@@ -112,5 +111,5 @@ export function parseTracksCsv(text: string, what = 'tracks CSV', units: Partial
 
 /** Read a tracks CSV file. */
 export async function readTracksCsv(file: string, units: Partial<UnitCheckOptions> = {}): Promise<TrackRow[]> {
-  return parseTracksCsv(await readFile(file, 'utf8'), `tracks ${file}`, units);
+  return parseTracksCsv(await readInputFile(file, 'tracks'), `tracks ${file}`, units);
 }

@@ -9,10 +9,9 @@
  * constant speed (accelerations are treated as instantaneous: at bench speeds they last a few
  * tens of milliseconds, below the radar's update interval).
  */
-import { readFile } from 'node:fs/promises';
 import { z } from 'zod';
 import { EchotrailError } from '../errors.ts';
-import { findColumn, numberCell, optionalNumberCell, parseCsvTable, requireColumn } from './csv-table.ts';
+import { findColumn, numberCell, optionalNumberCell, parseCsvTable, readInputFile, requireColumn } from './csv-table.ts';
 import { makeTimedPath, type PathPoint, type TimedPath } from './timed-path.ts';
 import { checkPositions, resolveUnitCheckOptions, type UnitCheckOptions } from './units.ts';
 
@@ -110,5 +109,5 @@ export function parseWaypoints(text: string, what = 'waypoints', units: Partial<
 
 /** Read a waypoint file (JSON or CSV). */
 export async function readWaypoints(file: string, units: Partial<UnitCheckOptions> = {}): Promise<TimedPath> {
-  return parseWaypoints(await readFile(file, 'utf8'), `waypoints ${file}`, units);
+  return parseWaypoints(await readInputFile(file, 'waypoints'), `waypoints ${file}`, units);
 }

@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import { EchotrailError } from '../errors.ts';
 import type { Analysis } from './analyse.ts';
 import { renderReport, type ReportOptions } from './report/html.ts';
-import { buildSummary, lagCsv, seriesCsv, setsCsv, type SummaryMeta } from './summary.ts';
+import { buildSummary, lagCsv, roundForJson, seriesCsv, setsCsv, type SummaryMeta } from './summary.ts';
 
 /** File names written, relative to the output folder. */
 export const OUTPUT_FILES = {
@@ -27,7 +27,7 @@ export async function writeOutputs(dir: string, a: Analysis, meta: SummaryMeta, 
     throw new EchotrailError('E_OPTION', `cannot create output folder '${dir}': ${(err as Error).message}`, { cause: err });
   }
   const files: [string, string][] = [
-    [OUTPUT_FILES.summary, JSON.stringify(buildSummary(a, meta), null, 2) + '\n'],
+    [OUTPUT_FILES.summary, JSON.stringify(buildSummary(a, meta), roundForJson, 2) + '\n'],
     [OUTPUT_FILES.series, seriesCsv(a)],
     [OUTPUT_FILES.sets, setsCsv(a)],
     [OUTPUT_FILES.lag, lagCsv(a)],

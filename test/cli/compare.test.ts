@@ -1,7 +1,7 @@
 // `echotrail compare` end to end on a small generated run (seeded analytic trajectory and
 // stand-in tracker, test/compare/bench-run.ts): files written, figures consistent with the
 // construction (lag), clear one-line failures on bad input. Exit codes per bridge/cli/main.ts.
-import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
+import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
@@ -109,6 +109,24 @@ describe('echotrail compare', () => {
     expect(errors.trim().split('\n').length).toBe(summary.tracks.followed_rows + 1);
     expect(await readFile(join(out, 'ospa-gospa.csv'), 'utf8')).toMatch(/^time_s,truths,estimates,ospa_m,gospa_m/);
     expect(await readFile(join(out, 'report.html'), 'utf8')).toMatch(/^<!doctype html>/);
+    // The lag with its interval; no number with float noise (0.23720000000000008).
+    expect(summary.lag.estimated_on).toBe('smoothed');
+    expect(summary.lag.ci_low_s).toBeLessThanOrEqual(0.3);
+    expect(summary.lag.ci_high_s).toBeGreaterThanOrEqual(0.3);
+    expect(summary.lag.significant).toBe(true);
+    const text = await readFile(join(out, 'summary.json'), 'utf8');
+    expect(text.match(/-?\d+\.\d{7,}/g)).toBeNull();
+  });
+
+  it('a failed comparison leaves the previous report files as they were', async () => {
+    const out = join(dir, 'out-keep');
+    expect((await capture(['--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'path.csv'), '--out', out])).code).toBe(0);
+    const before = await readFile(join(out, 'summary.json'), 'utf8');
+    const r = await capture(['--tracks', join(dir, 'no-such.csv'), '--commanded', join(dir, 'path.csv'), '--out', out]);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/^echotrail compare: E_\w+: /);
+    expect(await readFile(join(out, 'summary.json'), 'utf8')).toBe(before);
+    expect((await readdir(out)).filter((f) => f.endsWith('.tmp'))).toEqual([]);
   });
 
   it('runs on simulator and tracker output with two targets, comparing the one chosen by --target', async () => {

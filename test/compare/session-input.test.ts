@@ -64,7 +64,9 @@ describe('readSessionInput', () => {
     expect(b.pathSource).toBe('positioner');
     const la = analyse([a.commanded], a.rows).lag.lagS!;
     const lb = analyse([b.commanded], b.rows).lag.lagS!;
-    expect(lb).toBeCloseTo(la, 3);
+    // Within 5 ms: the two paths differ by the positioner's sampling, and the lag (found on the
+    // smoothed track) is only known to a few hundredths of a second anyway (its CI).
+    expect(lb).toBeCloseTo(la, 2);
     expect(la).toBeGreaterThan(0.28); // 0.3 s by construction plus the tracker's own lag
   });
 
