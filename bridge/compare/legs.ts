@@ -12,13 +12,17 @@ export interface LegOptions {
   cornerDeg: number;
   /** Below this speed a segment counts as a hold, m/s. */
   holdSpeedMps: number;
-  /** Legs shorter than this join the leg before (ramps at corners make slivers), seconds. */
+  /**
+   * Legs this short or shorter join the leg before (ramps at corners and the run's last half second
+   * make slivers of a few centimetres, whose one or two samples give no figures worth a table row),
+   * seconds.
+   */
   minLegS: number;
 }
 
 /** Defaults in one place. */
 export function resolveLegOptions(o: Partial<LegOptions> = {}): LegOptions {
-  return { cornerDeg: o.cornerDeg ?? 20, holdSpeedMps: o.holdSpeedMps ?? 1e-3, minLegS: o.minLegS ?? 0.5 };
+  return { cornerDeg: o.cornerDeg ?? 20, holdSpeedMps: o.holdSpeedMps ?? 1e-3, minLegS: o.minLegS ?? 1 };
 }
 
 /** One leg of the commanded path. */
@@ -91,7 +95,8 @@ function mergeSlivers(path: TimedPath, legOfSegment: number[], minLegS: number):
   let prevKept: number | null = null;
   for (const id of ids) {
     const s = span.get(id)!;
-    if (s.end - s.start < minLegS && ids.length > 1) target.set(id, prevKept ?? -1);
+    // ≤ with a margin: path times are decimals (119.5, 120.0) that need not difference exactly.
+    if (s.end - s.start <= minLegS + 1e-9 && ids.length > 1) target.set(id, prevKept ?? -1);
     else {
       target.set(id, id);
       // A leading sliver joins the first kept leg.

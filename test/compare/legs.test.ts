@@ -35,3 +35,16 @@ describe('findLegs', () => {
     expect(legs[0].endS).toBe(2.1);
   });
 });
+
+describe('findLegs: the run\'s last half second', () => {
+  it('folds a 0.5 s, 6 cm tail into the leg before (a report showed it as its own leg)', async () => {
+    const { makeTimedPath: mk } = await import('../../bridge/compare/timed-path.ts');
+    const { findLegs: fl } = await import('../../bridge/compare/legs.ts');
+    const pts = [];
+    for (let k = 0; k <= 30; k++) pts.push({ timeS: 116.5 + k * 0.1, x: 1.5, y: 3 });
+    pts.push({ timeS: 119.6, x: 1.49, y: 3 }, { timeS: 119.8, x: 1.47, y: 3 }, { timeS: 120.0, x: 1.4375, y: 3 });
+    const { legs } = fl(mk(pts));
+    expect(legs).toHaveLength(1);
+    expect(legs[0].endS).toBe(120);
+  });
+});

@@ -43,6 +43,25 @@ function withGaps(points: [number, number][], times: number[], gapS: number): [n
   return out;
 }
 
+/** The lag card's figure: the lag, or "not significant" when its interval holds zero. */
+function lagValue(a: Analysis): string {
+  const i = a.lagInterval;
+  if (a.lag.lagS === null) return '–';
+  if (i?.undetermined) return 'undetermined';
+  if (i && !i.significant) return 'not significant';
+  return `${cell(a.lag.lagS, 2)} s`;
+}
+
+/** Under the lag card's figure: the interval, on which track, and the live track's own lag. */
+function lagNote(a: Analysis): string {
+  if (a.lag.lagS === null) return 'path does not move';
+  const i = a.lagInterval;
+  const ci = i ? `${Math.round(i.level * 100)} % CI ${cell(i.lowS, 2)}…${cell(i.highS, 2)} s` : 'too few samples for an interval';
+  const est = i && !i.significant && !i.undetermined ? `estimate ${cell(a.lag.lagS, 3)} s, ` : '';
+  const live = a.lagSource === 'smoothed' && a.filteredLag.lagS !== null ? `; live track ${cell(a.filteredLag.lagS, 2)} s (with filter lag)` : '';
+  return `${est}${ci}, ${a.lagSource} track${live}`;
+}
+
 /** Render the report. */
 export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): string {
   const rows = a.followed;
@@ -61,7 +80,7 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
   const cards = [
     card('trk', 'position RMSE, filtered', `${cell(wf.noLag.position.rmse)} m`, `lag removed ${cell(wf.aligned.position.rmse)} m`),
     card('smo', 'position RMSE, smoothed', `${cell(ws?.aligned.position.rmse)} m`, ratio !== null ? `× ${cell(ratio, 2)} of filtered (lag removed)` : 'no measurement columns'),
-    card('cmd', 'lag behind command', a.lag.lagS === null ? '–' : `${cell(a.lag.lagS, 3)} s`, a.lag.lagS === null ? 'path does not move' : `RMS ${cell(a.lag.rmsAtZeroM)} → ${cell(a.lag.rmsAtLagM)} m`),
+    card('cmd', 'lag behind command', lagValue(a), lagNote(a)),
     card('', 'max error / p95', `${cell(wf.noLag.position.max, 2)} m`, `p95 ${cell(wf.noLag.position.p95)} m (raw)`),
     card('', 'confirmed track', `${cell(a.coverage.confirmedFraction * 100, 1)} %`, `of the run; coasting ${cell(a.coverage.coastingFraction * 100, 1)} %`),
     card('', 'mean GOSPA', `${cell(a.setSummary.meanGospaM)} m`, `mean OSPA ${cell(a.setSummary.meanOspaM)} m`),
@@ -109,9 +128,14 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
       { name: '√ false part', color: C.fal, points: setPts((s) => Math.sqrt(s.false)), dash: true }],
     { id: 'sets', width: 1038, height: 220, xLabel: 'time, s', yLabel: 'metres' },
   );
+  const lagCurves: Series[] = [{ name: `RMS distance, ${a.lagSource} track`, color: a.lagSource === 'smoothed' ? C.smo : C.trk, points: a.lag.curve.map((c) => [c.lagS, c.rmsM]), width: 2 }];
+  if (a.lagSource === 'smoothed' && a.filteredLag.curve.length) lagCurves.push({ name: 'RMS distance, filtered track', color: C.trk, points: a.filteredLag.curve.map((c) => [c.lagS, c.rmsM]), dash: true });
+  const ci = a.lagInterval;
   const lagPlot = a.lag.curve.length
-    ? timePlot([{ name: 'RMS distance', color: C.cmd, points: a.lag.curve.map((c) => [c.lagS, c.rmsM]), width: 2 }],
-      { id: 'lag', width: 470, height: 260, xLabel: 'candidate lag, s (track behind command +)', yLabel: 'RMS distance, m', markers: a.lag.lagS === null ? [] : [{ x: a.lag.lagS, label: `${a.lag.lagS.toFixed(3)} s` }] })
+    ? timePlot(lagCurves,
+      { id: 'lag', width: 470, height: 260, xLabel: 'candidate lag, s (track behind command +)', yLabel: 'RMS distance, m',
+        markers: a.lag.lagS === null ? [] : [{ x: a.lag.lagS, label: `${a.lag.lagS.toFixed(3)} s` }],
+        band: ci ? { from: ci.lowS, to: ci.highS, label: `${Math.round(ci.level * 100)} % confidence interval of the lag` } : undefined })
     : '<p class="note">The commanded path does not move over the compared samples: no lag can be estimated.</p>';
 
   const warnings = [...meta.warnings];
@@ -131,8 +155,9 @@ ${warnings.length ? `<p class="note warn">${warnings.map(esc).join('<br>')}</p>`
 <h2>Paths in the radar frame</h2>
 <div class="row">${figure('Commanded path, the followed track as the live view showed it, and the smoothed track. Red dots: the followed track changed.', plan,
     [{ name: 'commanded', color: C.cmd }, { name: 'tracked (filtered)', color: C.trk }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
-<div style="flex:1;min-width:300px">${figure('Least-squares lag search: RMS distance between the track and the commanded path shifted by each candidate lag.', lagPlot, [{ name: 'RMS distance', color: C.cmd }])}
-<p class="note">The lag gathers positioner latency, radar update interval and filter lag. “Lag removed” figures compare the track at t with the command at t − lag.</p></div></div>
+<div style="flex:1;min-width:300px">${figure(`Least-squares lag search: RMS distance between the ${a.lagSource} track and the commanded path shifted by each candidate lag; shaded: the lag's ${ci ? Math.round(ci.level * 100) : 95} % confidence interval (moving-block bootstrap over the samples).`, lagPlot,
+    [{ name: `${a.lagSource} track`, color: a.lagSource === 'smoothed' ? C.smo : C.trk }, ...(lagCurves.length > 1 ? [{ name: 'filtered track', color: C.trk, dash: true }] : [])])}
+<p class="note">The lag is estimated on the ${a.lagSource === 'smoothed' ? 'RTS-smoothed track, which has no filter lag: it is the positioner’s latency and timing offset' : 'filtered (live) track: it includes the filter’s own lag on turns and speed changes'}. “Not significant”: the interval holds zero. “Lag removed” figures compare the track at t with the command at t − lag.</p></div></div>
 <h2>Error over time</h2>
 ${figure('Euclidean distance between the estimate and the commanded position.', errPlot, [{ name: 'filtered, raw', color: C.trk }, { name: 'filtered, lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed, lag removed', color: C.smo, dash: true }] : [])])}
 <div class="row" style="margin-top:12px">${figure('Along-track error: positive ahead of the commanded point.', acPlot('alongM', 'along-track, m', 'along'), [{ name: 'filtered, raw', color: C.trk }, { name: 'lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}

@@ -30,6 +30,7 @@ svg .tick { fill: var(--muted); }
 svg .axis-label { fill: var(--ink); font-size: 12px; }
 svg .marker { stroke: var(--bad); stroke-dasharray: 2 3; }
 svg .marker-label { fill: var(--bad); font-size: 10px; }
+svg .band { fill: #6a3fb5; fill-opacity: 0.14; }
 svg .radar { fill: var(--ink); }
 table { border-collapse: collapse; width: 100%; background: var(--card); font-variant-numeric: tabular-nums; font-size: 13px; }
 th, td { border-bottom: 1px solid var(--rule); padding: 4px 8px; text-align: right; }

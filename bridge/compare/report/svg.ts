@@ -30,6 +30,8 @@ export interface ChartOptions {
   markers?: { x: number; label: string }[];
   /** Symmetric y range around 0 (signed errors). */
   symmetric?: boolean;
+  /** A shaded x interval (e.g. a confidence interval), with its tooltip. */
+  band?: { from: number; to: number; label: string };
 }
 
 /** Escape text for HTML/SVG content and attributes. */
@@ -37,12 +39,23 @@ export function esc(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 
-/** Round tick steps 1, 2, 5 × 10^k giving about `n` ticks over [lo, hi]. */
+/**
+ * Round tick steps 1, 2, 5 × 10^k giving about `n` ticks over [lo, hi], and never fewer than three
+ * when the range allows: a symmetric ±194° range with a 200° step would label only 0.
+ */
 export function niceTicks(lo: number, hi: number, n = 6): number[] {
   if (!(hi > lo)) return [lo];
   const raw = (hi - lo) / n;
   const mag = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
+  const steps = [0.1, 0.2, 0.5, 1, 2, 5, 10].map((m) => m * mag);
+  let k = steps.findIndex((s) => s >= raw);
+  if (k < 0) k = steps.length - 1;
+  let out = ticksAt(lo, hi, steps[k]);
+  while (out.length < 3 && k > 0) out = ticksAt(lo, hi, steps[--k]);
+  return out;
+}
+
+function ticksAt(lo: number, hi: number, step: number): number[] {
   const out: number[] = [];
   // Integer multiples, rounded: accumulating the step would print 0.6000000000000001.
   for (let i = Math.ceil(lo / step - 1e-9); i <= Math.floor(hi / step + 1e-9); i++) out.push(i === 0 ? 0 : Number((i * step).toPrecision(12)));
@@ -88,6 +101,38 @@ function pathData(points: [number, number][], sx: (v: number) => number, sy: (v:
 
 const M = { left: 58, right: 14, top: 12, bottom: 40 };
 
+/** Width of a marker label, px: the report's 10 px sans-serif averages under 6 px a character. */
+const LABEL_CHAR_PX = 6;
+
+/**
+ * Which marker lines get a label: left to right, a label only where it clears the one before, so
+ * that a burst of track switches does not print over itself. A labelled marker says how many
+ * unlabelled ones follow before the next label ("+3"); every line keeps its own text as a tooltip.
+ */
+export function placeMarkerLabels(markers: { x: number; label: string }[], sx: (v: number) => number): { x: number; label: string; title: string }[] {
+  const sorted = [...markers].sort((a, b) => a.x - b.x);
+  const out = sorted.map((m) => ({ x: m.x, label: '', title: m.label }));
+  let last = -1;
+  let freeFromPx = -Infinity;
+  let hidden = 0;
+  const closeGroup = () => {
+    if (last >= 0 && hidden > 0) out[last].label += ` +${hidden}`;
+    hidden = 0;
+  };
+  sorted.forEach((m, i) => {
+    const px = sx(m.x);
+    if (px >= freeFromPx) {
+      closeGroup();
+      out[i].label = m.label;
+      last = i;
+      // Room for the label and a possible " +N" suffix.
+      freeFromPx = px + 3 + (m.label.length + 4) * LABEL_CHAR_PX;
+    } else hidden++;
+  });
+  closeGroup();
+  return out;
+}
+
 function frame(o: ChartOptions, xr: [number, number], yr: [number, number], body: (sx: (v: number) => number, sy: (v: number) => number) => string): string {
   const w = o.width - M.left - M.right;
   const h = o.height - M.top - M.bottom;
@@ -100,10 +145,15 @@ function frame(o: ChartOptions, xr: [number, number], yr: [number, number], body
   for (const t of niceTicks(yr[0], yr[1], Math.max(3, Math.round(h / 45)))) {
     parts.push(`<line class="grid" x1="${M.left}" x2="${M.left + w}" y1="${sy(t)}" y2="${sy(t)}"/><text class="tick" x="${M.left - 6}" y="${sy(t) + 4}" text-anchor="end">${fmt(t)}</text>`);
   }
+  if (o.band) {
+    const x0 = sx(Math.max(xr[0], o.band.from));
+    const x1 = sx(Math.min(xr[1], o.band.to));
+    parts.push(`<rect class="band" x="${x0.toFixed(1)}" y="${M.top}" width="${Math.max(1, x1 - x0).toFixed(1)}" height="${h}"><title>${esc(o.band.label)}</title></rect>`);
+  }
   if (o.zeroLine && yr[0] < 0 && yr[1] > 0) parts.push(`<line class="zero" x1="${M.left}" x2="${M.left + w}" y1="${sy(0)}" y2="${sy(0)}"/>`);
-  for (const m of o.markers ?? []) {
-    if (m.x < xr[0] || m.x > xr[1]) continue;
-    parts.push(`<line class="marker" x1="${sx(m.x)}" x2="${sx(m.x)}" y1="${M.top}" y2="${M.top + h}"/><text class="marker-label" x="${sx(m.x) + 3}" y="${M.top + 10}">${esc(m.label)}</text>`);
+  for (const m of placeMarkerLabels((o.markers ?? []).filter((m) => m.x >= xr[0] && m.x <= xr[1]), sx)) {
+    parts.push(`<line class="marker" x1="${sx(m.x)}" x2="${sx(m.x)}" y1="${M.top}" y2="${M.top + h}"><title>${esc(m.title)}</title></line>`);
+    if (m.label) parts.push(`<text class="marker-label" x="${sx(m.x) + 3}" y="${M.top + 10}">${esc(m.label)}</text>`);
   }
   parts.push(`<rect class="plot-border" x="${M.left}" y="${M.top}" width="${w}" height="${h}"/>`);
   parts.push(`<clipPath id="clip-${o.id}"><rect x="${M.left}" y="${M.top}" width="${w}" height="${h}"/></clipPath>`);
