@@ -74,9 +74,16 @@ export function findLegs(path: TimedPath, options: Partial<LegOptions> = {}): { 
     l.endS = pts[i + 1].timeS;
     l.lengthM = path.cumulativeM[i + 1] - path.cumulativeM[l.firstSegment];
   }
+  // A leg is a hold when it spends most of its time holding: a folded sliver (the last half second
+  // of a ramp) must not turn a 3 s dwell into a "move".
+  const holdS = new Array<number>(legs.length).fill(0);
+  for (let i = 0; i < nSeg; i++) {
+    const dt = pts[i + 1].timeS - pts[i].timeS;
+    if (Math.hypot(pts[i + 1].x - pts[i].x, pts[i + 1].y - pts[i].y) / dt < o.holdSpeedMps) holdS[legOfSegment[i]] += dt;
+  }
   for (const l of legs) {
     l.speedMps = l.lengthM / (l.endS - l.startS);
-    l.kind = l.speedMps < o.holdSpeedMps ? 'hold' : 'move';
+    l.kind = l.speedMps < o.holdSpeedMps || holdS[l.index] > (l.endS - l.startS) / 2 ? 'hold' : 'move';
   }
   return { legs, legOfSegment };
 }

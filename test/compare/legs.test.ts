@@ -46,5 +46,6 @@ describe('findLegs: the run\'s last half second', () => {
     const { legs } = fl(mk(pts));
     expect(legs).toHaveLength(1);
     expect(legs[0].endS).toBe(120);
+    expect(legs[0].kind).toBe('hold');
   });
 });
