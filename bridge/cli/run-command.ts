@@ -1,16 +1,22 @@
 /**
  * Shared pieces of the `calibrate` and `tune` commands, on the CLI side: parsing with exit codes,
  * errors in the common `echotrail <command>: E_CODE: message` shape (report-error.ts), and the
- * run inputs with the full skipped-row report. (bridge/calibrate/cli-common.ts holds the earlier
- * versions; these replace them for the commands.)
+ * run inputs with the full skipped-row report.
  */
-import { CommanderError, type Command } from 'commander';
+import { CommanderError, InvalidArgumentError, type Command } from 'commander';
 import { readPathCsv, type TimedPoint } from '../calibrate/path.ts';
 import { readSessionRun } from '../calibrate/session-input.ts';
 import { EchotrailError } from '../errors.ts';
 import { formatSkipDetails, formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
 import type { Detection } from '../types.ts';
 import { reportError } from './report-error.ts';
+
+/** Commander argument parser for a finite number. */
+export const numberArg = (v: string): number => {
+  const n = Number(v);
+  if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('not a number');
+  return n;
+};
 
 /** All detections of a (calibration-sized) CSV, with the skipped-row report on stderr. */
 export async function readAllDetections(path: string, command: string): Promise<Detection[]> {

@@ -10,8 +10,7 @@ import { tuneNoise } from '../calibrate/noise-tuning.ts';
 import type { TimedPoint } from '../calibrate/path.ts';
 import { profilePath, saveTrackerProfile, tunedProfile } from '../calibrate/profile-out.ts';
 import { noiseRecord } from '../calibrate/report.ts';
-import { numberArg } from '../calibrate/cli-common.ts';
-import { readRunInputs, runCommand } from './run-command.ts';
+import { numberArg, readRunInputs, runCommand } from './run-command.ts';
 import { pathArg } from './user-dir.ts';
 import { EchotrailError } from '../errors.ts';
 

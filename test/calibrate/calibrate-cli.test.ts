@@ -1,4 +1,4 @@
-// Tests bridge/cli/calibrate.ts and bridge/calibrate/cli-common.ts.
+// Tests bridge/cli/calibrate.ts and bridge/cli/run-command.ts.
 import { mkdtemp, readFile, stat, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
