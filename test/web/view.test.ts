@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { boundsOf, fitBounds, niceStep, panBy, toScreen, toWorld, visibleBounds, zoomAt, type View } from '../../web/src/plan/view.ts';
+import { boundsOf, fitBounds, niceStep, panBy, toScreen, toWorld, trackFitBounds, visibleBounds, zoomAt, type View } from '../../web/src/plan/view.ts';
 
 const base: View = { centreX: 0, centreY: 0, scale: 100, width: 800, height: 600 };
 
@@ -64,5 +64,27 @@ describe('plan view transform', () => {
     expect(niceStep(100, 300)).toBe(5);
     expect(niceStep(1000, 70)).toBeCloseTo(0.1);
     for (const s of [7, 55, 333, 4100]) expect(niceStep(s, 70) * s).toBeGreaterThanOrEqual(70 - 1e-9);
+  });
+});
+
+describe('fitting with overlays and a minimum extent', () => {
+  it('fits inside the area the insets leave free (a toolbar over the top of the canvas)', () => {
+    const f = fitBounds(base, { minX: -1, minY: -1, maxX: 1, maxY: 1 }, 0, 0.5, { top: 100, right: 0, bottom: 0, left: 0 });
+    expect(f.scale).toBe(250);
+    // The top of the box lands at the bottom of the inset, the bottom at the canvas edge.
+    expect(toScreen(f, 0, 1).py).toBeCloseTo(100, 6);
+    expect(toScreen(f, 0, -1).py).toBeCloseTo(600, 6);
+  });
+
+  it('"Fit tracks" on one track frames at least about a metre, its trail included', () => {
+    const b = trackFitBounds([{ x: 1, y: 3 }, { x: 1.01, y: 3.02 }])!;
+    expect(b.maxX - b.minX).toBeGreaterThanOrEqual(1);
+    expect(b.maxY - b.minY).toBeGreaterThanOrEqual(1);
+    const f = fitBounds(base, b, 60);
+    // Rings at least 10 cm apart, not 5 cm.
+    expect(niceStep(f.scale)).toBeGreaterThanOrEqual(0.1);
+    const long = trackFitBounds([{ x: 0, y: 2 }, { x: 3, y: 2 }, { x: 3, y: 4 }])!;
+    expect(long.minX).toBeLessThan(0);
+    expect(long.maxX).toBeGreaterThan(3);
   });
 });

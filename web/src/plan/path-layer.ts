@@ -9,7 +9,6 @@ import type { DashboardState } from '../stream/state.ts';
 import { antennaColour, commandedColour, trackColour } from './palette.ts';
 import { type View, toScreen } from './view.ts';
 import { PATH_AHEAD_S, errorBandHalfWidthM, pathWindow } from './path-window.ts';
-import { commandedAt } from '../stream/path-error.ts';
 import { pathLabel } from '../stream/path-match.ts';
 
 const DASH_PX = 8;
@@ -46,7 +45,7 @@ export class PathLayer {
         const window = pathWindow(p.path, from, to);
         drawBand(this.band, view, window, bands[i]);
         drawDashed(this.path, view, window);
-        this.placeName(i, paths.length > 1 ? pathLabel(p.target, paths.length) : '', view, p.path, Math.ceil(state.timeS));
+        this.placeName(i, paths.length > 1 ? pathLabel(p.target, paths.length) : '', view, window);
       });
       for (let i = paths.length > 1 ? paths.length : 0; i < this.names.length; i++) this.names[i].visible = false;
     }
@@ -83,8 +82,11 @@ export class PathLayer {
     }
   }
 
-  /** Puts path i's name just below its commanded point at time t (or its end), or hides it. */
-  private placeName(i: number, text: string, view: View, path: readonly PathPointWire[], t: number): void {
+  /**
+   * Puts path i's name just below the start of its drawn stretch (where crossing paths are apart,
+   * unlike their current points), or hides it.
+   */
+  private placeName(i: number, text: string, view: View, path: readonly PathPointWire[]): void {
     let label = this.names[i];
     if (!text) {
       if (label) label.visible = false;
@@ -96,7 +98,11 @@ export class PathLayer {
       this.names[i] = label;
       this.container.addChild(label);
     }
-    const c = commandedAt(path, t) ?? path[path.length - 1];
+    const c = path[0];
+    if (!c) {
+      label.visible = false;
+      return;
+    }
     const s = toScreen(view, c.x, c.y);
     if (label.text !== text) label.text = text;
     label.position.set(Math.round(s.px), Math.round(s.py + 10));

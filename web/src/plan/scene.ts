@@ -13,7 +13,8 @@ import { background } from './palette.ts';
 import { StaticLayer } from './static-layer.ts';
 import { TrackMarkers } from './track-markers.ts';
 import { TrailLayer } from './trails.ts';
-import { type View, boundsOf, fitBounds, panBy, toScreen, zoomAt } from './view.ts';
+import { type Insets, type View, fitBounds, noInsets, panBy, toScreen, trackFitBounds, zoomAt } from './view.ts';
+import type { LabelBox } from './label-placement.ts';
 
 export interface PlanSettings {
   showGrid: boolean;
@@ -58,6 +59,10 @@ export class PlanScene {
   private backdropKey = '';
   private state: DashboardState | null = null;
   private pending = false;
+  /** Screen boxes of the controls laid over the canvas (toolbar, legend): labels keep clear of them. */
+  private covered: LabelBox[] = [];
+  /** True while the view is the reset one: overlays or a new size then re-frame it. */
+  private atReset = false;
 
   private constructor(private readonly app: Application, width: number, height: number) {
     this.view = { centreX: 0, centreY: 0, scale: 50, width, height };
@@ -91,6 +96,7 @@ export class PlanScene {
   resize(width: number, height: number): void {
     this.app.renderer.resize(width, height);
     this.view = { ...this.view, width, height };
+    if (this.atReset) this.reset();
     this.requestRender();
   }
 
@@ -104,33 +110,52 @@ export class PlanScene {
     this.requestRender();
   }
 
+  /** The overlays' boxes, canvas pixels; the toolbar along the top also moves the reset view down. */
+  setCovered(boxes: LabelBox[]): void {
+    if (JSON.stringify(boxes) === JSON.stringify(this.covered)) return;
+    this.covered = boxes;
+    if (this.atReset) this.reset();
+    this.requestRender();
+  }
+
+  /** Space kept free at the top for the toolbar when framing the coverage. */
+  private insets(): Insets {
+    const top = Math.max(0, ...this.covered.filter((b) => b.y < 20 && b.w < this.view.width * 0.9).map((b) => b.y + b.h));
+    return { ...noInsets, top };
+  }
+
   zoomAt(px: number, py: number, factor: number): void { this.setView(zoomAt(this.view, px, py, factor)); }
   panBy(dx: number, dy: number): void { this.setView(panBy(this.view, dx, dy)); }
 
   /** Show the whole coverage with the radar in it. */
   reset(): void {
     const r = this.coverage.maxRangeM;
-    this.setView(fitBounds(this.view, { minX: -r, minY: -r, maxX: r, maxY: r }, 28));
+    this.setView(fitBounds(this.view, { minX: -r, minY: -r, maxX: r, maxY: r }, 28, 0.5, this.insets()));
+    this.atReset = true;
   }
 
-  /** Frame the current tracks and their visible trails; falls back to reset when there are none. */
+  /**
+   * Frame the current tracks and their visible trails (every point), at least FIT_MIN_SPAN_M
+   * across (view.ts); falls back to reset when there are none.
+   */
   fitTracks(): void {
     const s = this.state;
     const pts: { x: number; y: number }[] = [];
     if (s) for (const t of s.tracks.values()) {
       const h = t.history;
       const from = Math.max(h.firstSeq, h.seqAtOrAfter(s.timeS - this.settings.trailSeconds));
-      for (let q = from; q < h.pushed; q += 8) pts.push({ x: h.x[q % h.capacity], y: h.y[q % h.capacity] });
+      for (let q = from; q < h.pushed; q++) pts.push({ x: h.x[q % h.capacity], y: h.y[q % h.capacity] });
       pts.push({ x: t.latest.x, y: t.latest.y });
     }
-    const b = boundsOf(pts);
-    if (b) this.setView(fitBounds(this.view, b, 60)); else this.reset();
+    const b = trackFitBounds(pts);
+    if (b) this.setView(fitBounds(this.view, b, 40, 0.5, this.insets())); else this.reset();
   }
 
   pick(px: number, py: number): number | null { return this.markers.pick(px, py); }
   project(x: number, y: number): { px: number; py: number } { return toScreen(this.view, x, y); }
 
   private setView(v: View): void {
+    this.atReset = false;
     this.view = v;
     this.requestRender();
   }
@@ -145,7 +170,7 @@ export class PlanScene {
   /** The render step: layer updates plus the pixi draw. */
   renderNow(): void {
     const v = this.view, s = this.state, o = this.settings;
-    let backdropChanged = this.staticLayer.update(v, this.coverage, o.showGrid);
+    let backdropChanged = this.staticLayer.update(v, this.coverage, o.showGrid, this.covered);
     this.world.position.set(v.width / 2 - v.centreX * v.scale, v.height / 2 + v.centreY * v.scale);
     this.world.scale.set(v.scale, -v.scale);
     if (s) {

@@ -6,6 +6,7 @@ import { Container, Graphics, Text } from 'pixi.js';
 import { type Coverage, arcPoints, isFullTurn } from './coverage.ts';
 import { coverageColour, gridColour, ringColour, ringLabelColour } from './palette.ts';
 import { type View, niceStep, toScreen, visibleBounds } from './view.ts';
+import { type LabelBox, overlaps } from './label-placement.ts';
 
 const SPOKE_STEP_DEG = 30;
 
@@ -19,9 +20,13 @@ export class StaticLayer {
     this.container.addChild(this.lines);
   }
 
-  /** Redraws when the view, coverage or grid toggle changed; returns whether it did. */
-  update(view: View, coverage: Coverage, showGrid: boolean): boolean {
-    const key = `${view.centreX},${view.centreY},${view.scale},${view.width},${view.height},${showGrid},${JSON.stringify(coverage)}`;
+  /**
+   * Redraws when the view, coverage, grid toggle or overlays changed; returns whether it did.
+   * `covered`: screen boxes of the controls laid over the canvas (toolbar, legend); no label is
+   * placed under one.
+   */
+  update(view: View, coverage: Coverage, showGrid: boolean, covered: readonly LabelBox[] = []): boolean {
+    const key = `${view.centreX},${view.centreY},${view.scale},${view.width},${view.height},${showGrid},${JSON.stringify(coverage)},${JSON.stringify(covered)}`;
     if (key === this.key) return false;
     this.key = key;
     const g = this.lines.clear();
@@ -33,8 +38,10 @@ export class StaticLayer {
     const far = Math.max(coverage.maxRangeM, step);
     // Rings every `step` out to the coverage edge, labelled along a line from the radar towards
     // the middle of the screen (so labels stay in view when zoomed in), offset from any spoke.
-    const labelAz = ringLabelAzimuth(view);
-    for (let r = step; r <= far + 1e-9; r += step) {
+    const radii: number[] = [];
+    for (let r = step; r <= far + 1e-9; r += step) radii.push(r);
+    const labelAz = ringLabelAzimuthClear(view, radii, covered);
+    for (const r of radii) {
       g.circle(o.px, o.py, r * view.scale).stroke({ width: 1, color: ringColour, alpha: 0.55 });
       const p = toScreen(view, r * Math.sin(labelAz), r * Math.cos(labelAz));
       this.placeLabel(label++, `${trimNumber(r)} m`, p.px + 3, p.py - 3, 0, 1);
@@ -44,7 +51,8 @@ export class StaticLayer {
       const az = (deg * Math.PI) / 180;
       const dx = Math.sin(az), dy = -Math.cos(az);
       g.moveTo(o.px + dx * 8, o.py + dy * 8).lineTo(o.px + dx * spokeR, o.py + dy * spokeR);
-      this.placeLabel(label++, `${deg}°`, o.px + dx * (spokeR + 14), o.py + dy * (spokeR + 14), 0.5, 0.5);
+      const d = spokeLabelDistance(o.px, o.py, dx, dy, spokeR + 14, `${deg}°`, covered);
+      this.placeLabel(label++, `${deg}°`, o.px + dx * d, o.py + dy * d, 0.5, 0.5);
     }
     g.stroke({ width: 1, color: ringColour, alpha: 0.35 });
     // The radar itself: a small open square with a tick towards 0°, distinct from track symbols.
@@ -91,6 +99,39 @@ export class StaticLayer {
     t.position.set(Math.round(x), Math.round(y));
     t.visible = true;
   }
+}
+
+/** Approximate screen box of a 12 px label (system-ui digits are about 7 px wide). */
+export function labelBox(text: string, x: number, y: number, ax: number, ay: number): LabelBox {
+  const w = text.length * 7 + 2, h = 15;
+  return { x: x - ax * w, y: y - ay * h, w, h };
+}
+
+/**
+ * Distance from the radar along a spoke for its label: just beyond the coverage edge, or pulled in
+ * along the spoke (up to ~100 px) until it is clear of every overlay; beyond that it stays out.
+ */
+export function spokeLabelDistance(ox: number, oy: number, dx: number, dy: number, outside: number, text: string, covered: readonly LabelBox[]): number {
+  for (let d = outside, k = 0; k <= 8 && d > 20; d -= 14, k++) {
+    const b = labelBox(text, ox + dx * d, oy + dy * d, 0.5, 0.5);
+    if (!covered.some((c) => overlaps(b, c))) return d;
+  }
+  return outside;
+}
+
+/** The ring-label azimuth (ringLabelAzimuth), or the first of its quarter turns whose labels no overlay covers. */
+export function ringLabelAzimuthClear(view: View, radii: readonly number[], covered: readonly LabelBox[]): number {
+  const base = ringLabelAzimuth(view);
+  if (covered.length === 0) return base;
+  for (const turn of [0, -Math.PI / 2, Math.PI / 2, Math.PI]) {
+    const az = base + turn;
+    const clear = radii.every((r) => {
+      const p = toScreen(view, r * Math.sin(az), r * Math.cos(az));
+      return !covered.some((c) => overlaps(labelBox(`${trimNumber(r)} m`, p.px + 3, p.py - 3, 0, 1), c));
+    });
+    if (clear) return az;
+  }
+  return base;
 }
 
 /** Azimuth along which ring labels go: towards the view centre, or 45° when the radar is centred. */

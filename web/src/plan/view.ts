@@ -44,14 +44,39 @@ export function panBy(v: View, dx: number, dy: number): View {
   return { ...v, centreX: v.centreX - dx / v.scale, centreY: v.centreY + dy / v.scale };
 }
 
-/** The view that shows `b` with `marginPx` to spare on every side; tiny boxes get a minimum size. */
-export function fitBounds(v: View, b: Bounds, marginPx = 40, minSpanM = 0.5): View {
+/** Screen space kept clear on each side (toolbars over the canvas), CSS pixels. */
+export interface Insets { top: number; right: number; bottom: number; left: number }
+export const noInsets: Insets = { top: 0, right: 0, bottom: 0, left: 0 };
+
+/**
+ * The view that shows `b` with `marginPx` to spare on every side, inside the part of the canvas
+ * that `insets` leave free; tiny boxes get a minimum size.
+ */
+export function fitBounds(v: View, b: Bounds, marginPx = 40, minSpanM = 0.5, insets: Insets = noInsets): View {
   const spanX = Math.max(b.maxX - b.minX, minSpanM);
   const spanY = Math.max(b.maxY - b.minY, minSpanM);
-  const usableW = Math.max(1, v.width - 2 * marginPx);
-  const usableH = Math.max(1, v.height - 2 * marginPx);
+  const usableW = Math.max(1, v.width - 2 * marginPx - insets.left - insets.right);
+  const usableH = Math.max(1, v.height - 2 * marginPx - insets.top - insets.bottom);
   const scale = clamp(Math.min(usableW / spanX, usableH / spanY), MIN_SCALE, MAX_SCALE);
-  return { ...v, scale, centreX: (b.minX + b.maxX) / 2, centreY: (b.minY + b.maxY) / 2 };
+  // The box's centre goes to the centre of the free area, not of the canvas.
+  const shiftPx = (insets.left - insets.right) / 2, shiftPy = (insets.top - insets.bottom) / 2;
+  return { ...v, scale, centreX: (b.minX + b.maxX) / 2 - shiftPx / scale, centreY: (b.minY + b.maxY) / 2 + shiftPy / scale };
+}
+
+/** Least extent "Fit tracks" zooms to, metres: one track alone must not fill the screen with 5 cm rings. */
+export const FIT_MIN_SPAN_M = 1.2;
+
+/**
+ * The box "Fit tracks" frames: the tracks and their visible trails, grown by 15 % on each side
+ * and to at least FIT_MIN_SPAN_M across, so a single slow track keeps its trail and some
+ * surroundings in view.
+ */
+export function trackFitBounds(points: Iterable<{ x: number; y: number }>, minSpanM = FIT_MIN_SPAN_M): Bounds | null {
+  const b = boundsOf(points);
+  if (!b) return null;
+  const cx = (b.minX + b.maxX) / 2, cy = (b.minY + b.maxY) / 2;
+  const hx = Math.max((b.maxX - b.minX) * 0.65, minSpanM / 2), hy = Math.max((b.maxY - b.minY) * 0.65, minSpanM / 2);
+  return { minX: cx - hx, maxX: cx + hx, minY: cy - hy, maxY: cy + hy };
 }
 
 /** Bounding box of points, or null when there are none. */
