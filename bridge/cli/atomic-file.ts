@@ -3,6 +3,7 @@
  * succeeded, so a failed run leaves the previous result as it was (a rename within one folder is
  * atomic on POSIX file systems). Writers stream into `tmp` as they would into the file itself.
  */
+import { statSync } from 'node:fs';
 import { rename, rm } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { EchotrailError } from '../errors.ts';
@@ -18,8 +19,14 @@ export interface AtomicFile {
   discard(): Promise<void>;
 }
 
-/** A temporary file beside `path`, unique per process and call. */
+/**
+ * A temporary file beside `path`, unique per process and call. Throws E_PATH at once when the
+ * folder is missing: the write would fail anyway, and naming the hidden temporary file in that
+ * message would only confuse.
+ */
 export function atomicFile(path: string): AtomicFile {
+  const dir = dirname(path);
+  if (!statSync(dir, { throwIfNoEntry: false })?.isDirectory()) throw new EchotrailError('E_PATH', `cannot write ${path}: the folder ${dir} does not exist`);
   const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.${(counter++).toString(36)}.tmp`);
   return {
     path,

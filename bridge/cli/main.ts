@@ -45,6 +45,13 @@ async function main(argv: string[]): Promise<number> {
 const here = userDir();
 if (here !== process.cwd()) process.chdir(here);
 
+// Output piped into `head` (or any reader that stops early) closes stdout under us: that is the
+// reader's choice, not a failure, so stop quietly instead of dying on an unhandled EPIPE.
+process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+  if (e.code !== 'EPIPE') throw e;
+  process.exit(0);
+});
+
 main(process.argv.slice(2)).then(
   (code) => {
     process.exitCode = code;
