@@ -1,7 +1,7 @@
 /**
  * Kalman filter, constant-velocity model in 2-D with variable time step.
  *
- * State [x, vx, y, vy]; covariance row-major in a Float64Array(16). The products are written out
+ * State [x, vx, y, vy]; covariance row-major in an array of 16. The products are written out
  * for this structure (F is the identity plus dt on two entries, H picks x and y) because the
  * tracker runs it hundreds of thousands of times a second and a generic matrix library would
  * allocate on every call.
@@ -26,10 +26,15 @@ const PEEK: PositionPrediction = { x: 0, y: 0, pxx: 0, pxy: 0, pyy: 0 };
 
 export class KalmanCv implements TrackFilter {
   timeS: number;
+  // Plain arrays of doubles, not Float64Arrays: a 16-number typed array keeps its numbers in a
+  // separate buffer outside the JS heap, while an array of doubles keeps them on the heap next to
+  // the filter; gating reads a thousand tracks' covariances per batch, and with 800 targets this
+  // was ×1.1–1.25 faster (no change at 100, where everything fits in cache). The 0.5 literal
+  // makes each a double array from the start (overwritten by the constructor).
   /** State [x, vx, y, vy]. */
-  readonly x = new Float64Array(4);
+  readonly x: number[] = [0.5, 0, 0, 0];
   /** Covariance, row-major 4×4. */
-  readonly P = new Float64Array(16);
+  readonly P: number[] = [0.5, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0];
   /** Innovation and its covariance from the last update (IMM likelihoods use them). */
   lastNis = 0;
   lastDetS = 1;
