@@ -18,6 +18,7 @@ import { readWaypoints } from '../compare/waypoints.ts';
 import { writeOutputs } from '../compare/write-outputs.ts';
 import { reportError } from './report-error.ts';
 import { pathArg } from './user-dir.ts';
+import type { LagInterval } from '../compare/lag-interval.ts';
 
 function num(name: string, { min = -Infinity, positive = false } = {}) {
   return (v: string): number => {
@@ -72,6 +73,13 @@ interface Parsed {
   tracks?: string; commanded?: string[]; waypoints?: string; target?: string; calibration?: string; frameRotation?: number; frameTranslation?: [number, number]; session?: string; sessionPath: SessionPathSource; out: string; title?: string;
   followGate: number; release?: number; followStale: number; followMemory: number; switchMargin: number; maxLag: number; lagStep: number; smootherQ: number; corner: number;
   cutoff: number; order: number; setStep: number; maxAge: number; minOverlap: number; maxRange: number; maxSpeed: number;
+}
+
+/** The lag's confidence interval for the summary line: ` (95 % CI −0.023…0.038 s, not significant)`. */
+function lagNote(ci: LagInterval | null): string {
+  if (!ci) return '';
+  const verdict = ci.undetermined ? 'undetermined' : ci.significant ? 'significant' : 'not significant';
+  return ` (${Math.round(ci.level * 100)} % CI ${ci.lowS.toFixed(3)}…${ci.highS.toFixed(3)} s, ${verdict})`;
 }
 
 /** Run the subcommand; returns the exit code. */
@@ -161,7 +169,7 @@ async function compare(o: Parsed): Promise<number> {
   const s = analysis.whole.smoothed;
   const fix = (v: number | null | undefined, d = 3) => (v === null || v === undefined ? '–' : v.toFixed(d));
   process.stdout.write(
-    `lag ${fix(analysis.lag.lagS)} s · position RMSE ${fix(f.noLag.position.rmse)} m raw, ${fix(f.aligned.position.rmse)} m lag removed, ${s ? `${fix(s.aligned.position.rmse)} m smoothed` : 'no smoothing (no measurement columns)'} · ` +
+    `lag ${fix(analysis.lag.lagS)} s${lagNote(analysis.lagInterval)} · position RMSE ${fix(f.noLag.position.rmse)} m raw, ${fix(f.aligned.position.rmse)} m lag removed, ${s ? `${fix(s.aligned.position.rmse)} m smoothed` : 'no smoothing (no measurement columns)'} · ` +
       `confirmed ${fix(analysis.coverage.confirmedFraction * 100, 1)} % · mean GOSPA ${fix(analysis.setSummary.meanGospaM)} m\n`,
   );
   for (const w of warnings) process.stderr.write(`echotrail compare: warning: ${w}\n`);

@@ -22,6 +22,7 @@
 import type { Point } from './geometry.ts';
 import { searchSamples, type LagOptions } from './lag.ts';
 import { sampleAt, type TimedPath } from './timed-path.ts';
+import { mulberry32 } from '../sim/prng.ts';
 
 /** Bootstrap settings. */
 export interface LagIntervalOptions {
@@ -51,18 +52,6 @@ export interface LagInterval {
   /** Samples and block length (samples) used. */
   samples: number;
   blockLength: number;
-}
-
-/** Small seeded PRNG (mulberry32, common practice) so the interval does not change between runs. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 /** Grid minimum refined by the parabola through it and its neighbours. */
@@ -106,7 +95,8 @@ export function lagInterval(path: TimedPath, all: readonly (Point & { timeS: num
   });
   const blockLength = Math.min(n, Math.max(5, Math.ceil(n ** (1 / 3))));
   const blocks = Math.ceil(n / blockLength);
-  const random = rng(o.seed);
+  // Seeded (the simulator's mulberry32), so the interval does not change between runs.
+  const random = mulberry32(o.seed);
   const estimates: number[] = [];
   const cost = new Float64Array(lags.length);
   for (let r = 0; r < o.replicates; r++) {

@@ -97,7 +97,7 @@ describe('echotrail compare', () => {
     const r = await capture(['--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'path.csv'), '--out', out]);
     expect(r.err).toBe('');
     expect(r.code).toBe(0);
-    expect(r.out).toMatch(/^lag 0\.\d{3} s · position RMSE/);
+    expect(r.out).toMatch(/^lag 0\.\d{3} s \(95 % CI -?0\.\d{3}…-?0\.\d{3} s, (significant|not significant|undetermined)\) · position RMSE/);
     const summary = JSON.parse(await readFile(join(out, 'summary.json'), 'utf8'));
     expect(summary.format).toBe('echotrail-compare-summary');
     // Lag by construction 0.3 s plus the stand-in tracker's own lag (about 0.1 s).
