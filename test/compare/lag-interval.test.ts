@@ -4,27 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { estimateLag, resolveLagOptions } from '../../bridge/compare/lag.ts';
 import { lagInterval } from '../../bridge/compare/lag-interval.ts';
-import { sampleAt } from '../../bridge/compare/timed-path.ts';
-import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
-import { gauss, prng } from './bench-run.ts';
-
-const path = waypointsToPath([
-  { x: -1, y: 2, dwellS: 1 },
-  { x: 1, y: 2, speedMps: 0.4 },
-  { x: 1, y: 4, speedMps: 0.3, dwellS: 1 },
-  { x: -1, y: 3, speedMps: 0.5 },
-  { x: -1, y: 2, speedMps: 0.4 },
-]);
-
-function shifted(lagS: number, noiseM: number, seed: number) {
-  const rand = prng(seed);
-  const out = [];
-  for (let t = 0; t <= path.points[path.points.length - 1].timeS; t += 0.25) {
-    const c = sampleAt(path, t - lagS);
-    out.push({ timeS: t, x: c.x + noiseM * gauss(rand), y: c.y + noiseM * gauss(rand) });
-  }
-  return out;
-}
+import { path, shifted } from './lag-fixture.ts';
 
 const o = resolveLagOptions();
 

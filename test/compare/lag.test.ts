@@ -2,27 +2,8 @@
 // a maximum", Proc. AMS 4:502–506, 1953). Acceptance figure from the issue: 0.4 s within 0.02 s.
 import { describe, expect, it } from 'vitest';
 import { estimateLag } from '../../bridge/compare/lag.ts';
-import { sampleAt } from '../../bridge/compare/timed-path.ts';
 import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
-import { gauss, prng } from './bench-run.ts';
-
-const path = waypointsToPath([
-  { x: -1, y: 2, dwellS: 1 },
-  { x: 1, y: 2, speedMps: 0.4 },
-  { x: 1, y: 4, speedMps: 0.3, dwellS: 1 },
-  { x: -1, y: 3, speedMps: 0.5 },
-  { x: -1, y: 2, speedMps: 0.4 },
-]);
-
-function shifted(lagS: number, noiseM: number, seed = 3) {
-  const rand = prng(seed);
-  const out = [];
-  for (let t = 0; t <= path.points[path.points.length - 1].timeS; t += 0.25) {
-    const c = sampleAt(path, t - lagS);
-    out.push({ timeS: t, x: c.x + noiseM * gauss(rand), y: c.y + noiseM * gauss(rand) });
-  }
-  return out;
-}
+import { path, shifted } from './lag-fixture.ts';
 
 describe('estimateLag', () => {
   it('recovers a 0.4 s shift exactly without noise', () => {

@@ -9,38 +9,27 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { buildDashboard, chromiumAvailable, launchChromium, repoRoot, CHROMIUM_PATH } from '../web/fixtures/browser.ts';
-import type { RunningBridge } from '../../bridge/server/bridge.ts';
-import { startSessionBridge } from '../web/fixtures/demo-run.ts';
+import type { Page } from 'playwright-core';
+import { repoRoot } from '../web/fixtures/browser.ts';
+import { dashboardSuiteRuns, openDashboard, type DashboardPage } from '../web/fixtures/dashboard-page.ts';
 
-const inCi = process.env.CI === 'true';
-const haveChromium = chromiumAvailable();
-if (!haveChromium && !inCi) console.warn(`dashboard review e2e skipped: no Chromium at ${CHROMIUM_PATH}`);
 const artifacts = join(repoRoot, 'test-artifacts');
 const session = join(repoRoot, 'replays', 'bay3-crossing-carriages.session.jsonl');
 
-describe.skipIf(!haveChromium && !inCi)('dashboard review findings', () => {
-  let bridge: RunningBridge;
-  let browser: Browser;
+describe.skipIf(!dashboardSuiteRuns('dashboard review e2e'))('dashboard review findings', () => {
+  let dashboard: DashboardPage;
   let page: Page;
-  const pageErrors: string[] = [];
+  let pageErrors: string[] = [];
 
   beforeAll(async () => {
-    if (!haveChromium) throw new Error(`CI=true but no Chromium at ${CHROMIUM_PATH}`);
-    const dist = await buildDashboard();
-    bridge = await startSessionBridge(dist, session, { speed: 2 });
-    browser = await launchChromium();
-    page = await browser.newPage({ viewport: { width: 1600, height: 1000 } });
-    page.on('pageerror', (e) => pageErrors.push(e.message));
-    await page.goto(bridge.url);
+    dashboard = await openDashboard(session, { width: 1600, height: 1000 }, 2);
+    ({ page, pageErrors } = dashboard);
     await page.waitForFunction(() => window.echotrail !== undefined);
     mkdirSync(artifacts, { recursive: true });
   });
 
   afterAll(async () => {
-    await browser?.close();
-    await bridge?.close();
+    await dashboard?.close();
   });
 
   it('says "1 track" in the session picker', async () => {

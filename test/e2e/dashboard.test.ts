@@ -10,36 +10,28 @@ import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { background, trackColour } from '../../web/src/plan/palette.ts';
 import {
-  buildDashboard, chromiumAvailable, colourDistance, launchChromium, repoRoot, rgbOf, samplePixels, CHROMIUM_PATH,
+  colourDistance, repoRoot, rgbOf, samplePixels,
 } from '../web/fixtures/browser.ts';
 import type { RunningBridge } from '../../bridge/server/bridge.ts';
-import { startSessionBridge } from '../web/fixtures/demo-run.ts';
+import { dashboardSuiteRuns, openDashboard, type DashboardPage } from '../web/fixtures/dashboard-page.ts';
 
-const inCi = process.env.CI === 'true';
-const haveChromium = chromiumAvailable();
-if (!haveChromium && !inCi) console.warn(`dashboard e2e skipped: no Chromium at ${CHROMIUM_PATH} (set CHROMIUM_PATH, or run with CI=true to make this a failure)`);
 const artifacts = join(repoRoot, 'test-artifacts');
 const session = join(repoRoot, 'replays', 'bay3-turntable-loop.session.jsonl');
 
-describe.skipIf(!haveChromium && !inCi)('dashboard against a replaying bridge', () => {
+describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a replaying bridge', () => {
+  let dashboard: DashboardPage;
   let bridge: RunningBridge;
   let browser: Browser;
   let page: Page;
-  const pageErrors: string[] = [];
+  let pageErrors: string[] = [];
 
   beforeAll(async () => {
-    if (!haveChromium) throw new Error(`CI=true but no Chromium at ${CHROMIUM_PATH}`);
-    const dist = await buildDashboard();
-    bridge = await startSessionBridge(dist, session);
-    browser = await launchChromium();
-    page = await browser.newPage({ viewport: { width: 1400, height: 860 } });
-    page.on('pageerror', (e) => pageErrors.push(e.message));
-    await page.goto(bridge.url);
+    dashboard = await openDashboard(session, { width: 1400, height: 860 });
+    ({ bridge, browser, page, pageErrors } = dashboard);
   });
 
   afterAll(async () => {
-    await browser?.close();
-    await bridge?.close();
+    await dashboard?.close();
   });
 
   const clock = () => page.locator('[data-testid=replay-clock]').innerText();
