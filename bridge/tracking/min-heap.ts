@@ -1,26 +1,35 @@
 /**
- * Binary min-heap of values on a numeric key (a time): push and pop cost log n. The tracker keeps
- * held detections on their release times and tracks on the end of their gate discs in one.
+ * Binary min-heap of values on a numeric key (a time, a distance): push and pop cost log n. The
+ * tracker keeps held detections on their release times and tracks on the end of their gate discs
+ * in one; the sparse assignment keeps columns on their tentative distances in another.
+ *
+ * The arrays keep their room when the heap empties (`reset`), so a heap that is filled and
+ * emptied thousands of times per batch (the assignment's, once per row) allocates nothing after
+ * the first rounds.
  */
 export class MinHeap<T> {
-  private readonly keys: number[] = [];
-  private readonly values: T[] = [];
+  private keys = new Float64Array(16);
+  private readonly values: (T | undefined)[] = [];
+  private n = 0;
 
   get size(): number {
-    return this.keys.length;
+    return this.n;
   }
 
   /** Smallest key held (Infinity when empty). */
   get minKey(): number {
-    return this.keys.length ? this.keys[0] : Infinity;
+    return this.n ? this.keys[0] : Infinity;
   }
 
   push(key: number, value: T): void {
+    if (this.n === this.keys.length) {
+      const grown = new Float64Array(2 * this.n);
+      grown.set(this.keys);
+      this.keys = grown;
+    }
     const a = this.keys;
     const vs = this.values;
-    let i = a.length;
-    a.push(key);
-    vs.push(value);
+    let i = this.n++;
     while (i > 0) {
       const p = (i - 1) >> 1;
       if (a[p] <= key) break;
@@ -34,13 +43,15 @@ export class MinHeap<T> {
 
   /** Removes and returns the value of the smallest key (undefined when empty). */
   pop(): T | undefined {
+    if (this.n === 0) return undefined;
     const a = this.keys;
     const vs = this.values;
-    if (a.length === 0) return undefined;
     const top = vs[0];
-    const lastA = a.pop()!;
-    const lastV = vs.pop()!;
-    const n = a.length;
+    const n = --this.n;
+    const lastA = a[n];
+    const lastV = vs[n];
+    // Let go of the moved slot's reference: a popped track or detection must not stay reachable.
+    vs[n] = undefined;
     if (n > 0) {
       let i = 0;
       for (;;) {
@@ -60,7 +71,14 @@ export class MinHeap<T> {
 
   /** Removes and returns every value, in no particular order. */
   clear(): T[] {
-    this.keys.length = 0;
-    return this.values.splice(0);
+    const out = this.values.slice(0, this.n) as T[];
+    this.reset();
+    return out;
+  }
+
+  /** Empties the heap, keeping its room. */
+  reset(): void {
+    this.values.fill(undefined, 0, this.n);
+    this.n = 0;
   }
 }

@@ -17,6 +17,8 @@
  * cost, and Dijkstra starts there; the duals keep every other edge's reduced cost ≥ 0.
  */
 
+import { MinHeap } from './min-heap.ts';
+
 /** A sparse problem in compressed-row form. */
 export interface SparseProblem {
   rows: number;
@@ -49,7 +51,7 @@ class Scratch {
   touched = new Int32Array(0);
   scannedCols = new Int32Array(0);
   visitedRows = new Int32Array(0);
-  readonly heap = new ColumnHeap();
+  readonly heap = new MinHeap<number>();
 
   /** Room for `n` columns (rows ≤ columns here: every row has its own miss column). */
   reserve(n: number): void {
@@ -66,71 +68,6 @@ class Scratch {
     this.touched = new Int32Array(size);
     this.scannedCols = new Int32Array(size);
     this.visitedRows = new Int32Array(size);
-  }
-}
-
-/**
- * Binary min-heap of columns on their tentative distances, in typed arrays that keep their room
- * between rounds (a round pushes a few entries; a general heap of JS arrays reallocated them).
- */
-class ColumnHeap {
-  private keys = new Float64Array(64);
-  private cols = new Int32Array(64);
-  size = 0;
-
-  clear(): void {
-    this.size = 0;
-  }
-
-  push(key: number, col: number): void {
-    if (this.size === this.keys.length) {
-      const k = new Float64Array(2 * this.size);
-      const c = new Int32Array(2 * this.size);
-      k.set(this.keys);
-      c.set(this.cols);
-      this.keys = k;
-      this.cols = c;
-    }
-    const keys = this.keys;
-    const cols = this.cols;
-    let i = this.size++;
-    while (i > 0) {
-      const up = (i - 1) >> 1;
-      if (keys[up] <= key) break;
-      keys[i] = keys[up];
-      cols[i] = cols[up];
-      i = up;
-    }
-    keys[i] = key;
-    cols[i] = col;
-  }
-
-  /** Smallest key (call only when size > 0). */
-  get minKey(): number {
-    return this.keys[0];
-  }
-
-  /** Removes the entry of the smallest key and returns its column (call only when size > 0). */
-  pop(): number {
-    const keys = this.keys;
-    const cols = this.cols;
-    const top = cols[0];
-    const n = --this.size;
-    const lastK = keys[n];
-    const lastC = cols[n];
-    let i = 0;
-    for (;;) {
-      const l = 2 * i + 1;
-      if (l >= n) break;
-      const c = l + 1 < n && keys[l + 1] < keys[l] ? l + 1 : l;
-      if (keys[c] >= lastK) break;
-      keys[i] = keys[c];
-      cols[i] = cols[c];
-      i = c;
-    }
-    keys[i] = lastK;
-    cols[i] = lastC;
-    return top;
   }
 }
 
@@ -156,7 +93,7 @@ export function solveSparse(p: SparseProblem): Int32Array {
     let nVisited = 0;
     let nTouched = 0;
     let nScanned = 0;
-    heap.clear();
+    heap.reset();
     for (;;) {
       // Relax row i's edges, then (one step past its last edge) its own miss column, by the
       // reduced cost minVal + c − u[i] − v[j].
@@ -177,7 +114,7 @@ export function solveSparse(p: SparseProblem): Int32Array {
       let j = -1;
       while (heap.size) {
         const key = heap.minKey;
-        const c = heap.pop();
+        const c = heap.pop()!;
         if (!scanned[c] && key === dist[c]) {
           j = c;
           break;

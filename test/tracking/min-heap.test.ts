@@ -28,4 +28,28 @@ describe('MinHeap', () => {
     expect(h.size).toBe(0);
     expect(h.pop()).toBeUndefined();
   });
+
+  it('reset() empties it and it works again, in order, over many fill-and-empty rounds', () => {
+    const rng = createRng(8);
+    const h = new MinHeap<number>();
+    for (let round = 0; round < 50; round++) {
+      const keys: number[] = [];
+      const n = 1 + Math.floor(rng.between(0, 40));
+      for (let i = 0; i < n; i++) {
+        const k = rng.between(-5, 5);
+        keys.push(k);
+        h.push(k, i);
+      }
+      // Take a few, then drop the rest, as the sparse assignment does once per row.
+      const take = Math.min(n, 3);
+      const sorted = [...keys].sort((a, b) => a - b);
+      for (let i = 0; i < take; i++) {
+        expect(h.minKey).toBe(sorted[i]);
+        expect(keys[h.pop()!]).toBe(sorted[i]);
+      }
+      h.reset();
+      expect(h.size).toBe(0);
+      expect(h.minKey).toBe(Infinity);
+    }
+  });
 });
