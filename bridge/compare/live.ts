@@ -262,23 +262,23 @@ export class MultiPathComparison {
   setCommanded(path: readonly PathPoint[] | TimedPath, target: string = DEFAULT_PATH): void {
     if (!this.explicit) this.byPath.delete(POSITIONER_PATH);
     this.explicit = true;
-    let live = this.byPath.get(target);
-    if (!live) {
-      live = new LiveComparison(this.options);
-      this.byPath.set(target, live);
-    }
-    live.setCommanded(path);
+    this.comparisonOf(target).setCommanded(path);
   }
 
   /** Positioner samples build one path of their own, unless whole paths were given. */
   addPositioner(s: PositionerSample): void {
     if (this.explicit) return;
-    let live = this.byPath.get(POSITIONER_PATH);
+    this.comparisonOf(POSITIONER_PATH).addPositioner(s);
+  }
+
+  /** The comparison of one path, made on first use. */
+  private comparisonOf(path: string): LiveComparison {
+    let live = this.byPath.get(path);
     if (!live) {
       live = new LiveComparison(this.options);
-      this.byPath.set(POSITIONER_PATH, live);
+      this.byPath.set(path, live);
     }
-    live.addPositioner(s);
+    return live;
   }
 
   /** Every path sees every update; each keeps only its own followed track's. */
