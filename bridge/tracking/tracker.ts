@@ -73,6 +73,8 @@ export class Tracker implements TrackEngine {
   private readonly waiting = new Map<number, number>();
   /** Detections held back until their release times. */
   private readonly pool = new ReleaseQueue();
+  /** How often each detection now in the pool has been held (see sweep-deferral.ts, REHOLD_LIMIT). */
+  private readonly timesHeld = new Map<Detection, number>();
   /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
   private minGapS = 0;
 
@@ -170,6 +172,7 @@ export class Tracker implements TrackEngine {
       this.lateDecisions(buf);
     }
     const rest = [...this.pool.drain(), ...this.batch].sort((a, b) => a.timeS - b.timeS);
+    this.timesHeld.clear();
     this.batch = [];
     this.waiting.clear();
     if (rest.length) this.closeBatch(out, rest, true);
@@ -257,11 +260,17 @@ export class Tracker implements TrackEngine {
       const last = ms[ms.length - 1];
       const times = ms.map((m) => m.timeS);
       const all = established.length && tentative.length ? established.concat(tentative) : established.length ? established : tentative;
-      const h = heldBack(all, times, this.live, this.waiting, now, Math.atan2(last.x, last.y), gamma, interval, MAX_WAIT_REVOLUTIONS * interval);
+      const heldBefore = this.timesHeld;
+      const counts = dets.map((d) => heldBefore.get(d) ?? 0);
+      const h = heldBack(all, times, this.live, this.waiting, now, Math.atan2(last.x, last.y), gamma, interval, MAX_WAIT_REVOLUTIONS * interval, counts);
       let any = false;
       for (let j = 0; j < h.length; j++) {
-        if (Number.isNaN(h[j])) continue;
+        if (Number.isNaN(h[j])) {
+          if (counts[j]) heldBefore.delete(dets[j]);
+          continue;
+        }
         any = true;
+        heldBefore.set(dets[j], counts[j] + 1);
         this.pool.push(dets[j], h[j]);
       }
       if (any) {

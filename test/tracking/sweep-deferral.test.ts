@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { heldBack } from '../../bridge/tracking/sweep-deferral.ts';
+import { heldBack, REHOLD_LIMIT } from '../../bridge/tracking/sweep-deferral.ts';
 import { Track } from '../../bridge/tracking/track-life.ts';
 import { createFilter, resolveFilterOptions } from '../../bridge/tracking/filter.ts';
 import type { Detection, Measurement } from '../../bridge/types.ts';
@@ -41,5 +41,24 @@ describe('sweep deferral', () => {
     // ...but does when that detection is admitted only by a manoeuvre model, and never past the wait cap.
     const u = heldBack([{ track: 1, det: 0, cost: 1, unlikely: true }], [1], new Map([[1, a]]), new Map(), 1, 0, gamma, 1, 0.01);
     expect(u[0]).toBeCloseTo(1.01, 9);
+  });
+
+  it('holds a cluster whose detection has already been held REHOLD_LIMIT times until its longest wait, in one go', () => {
+    // Two detections (t = 0.9 and t = 1) that two tracks ahead of the beam compete for.
+    const az = (10 * Math.PI) / 180;
+    const a = track(1, 3 * Math.sin(az), 3 * Math.cos(az));
+    const b = track(2, 3 * Math.sin(az) + 0.1, 3 * Math.cos(az));
+    const live = new Map([[1, a], [2, b]]);
+    const pairs = [{ track: 1, det: 0, cost: 1 }, { track: 2, det: 0, cost: 2 }, { track: 2, det: 1, cost: 1 }];
+    const fresh = heldBack(pairs, [0.9, 1], live, new Map(), 1, 0, gamma, 1, 0.5, [0, 0]);
+    // Fresh: released when the beam has passed the gates, well before the cap (0.9 + 0.5).
+    expect(fresh[0]).toBeLessThan(1 + 30 / 360);
+    expect(fresh[1]).toBe(fresh[0]);
+    const under = heldBack(pairs, [0.9, 1], live, new Map(), 1, 0, gamma, 1, 0.5, [REHOLD_LIMIT - 1, 0]);
+    expect(under[0]).toBe(fresh[0]);
+    // The older detection has been held REHOLD_LIMIT times: the whole cluster waits to the cap.
+    const capped = heldBack(pairs, [0.9, 1], live, new Map(), 1, 0, gamma, 1, 0.5, [REHOLD_LIMIT, 0]);
+    expect(capped[0]).toBeCloseTo(1.4, 12);
+    expect(capped[1]).toBeCloseTo(1.4, 12);
   });
 });
