@@ -65,6 +65,11 @@ export interface TrackUpdate {
   hits: number;
   /** Consecutive scans without a detection. */
   misses: number;
+  /**
+   * Time of the track's first detection, s: where its age counts from, even for a client that
+   * joins late or a replay that seeks (absent in sessions recorded before it was added).
+   */
+  startS?: number;
   /** The measurement used in this update, absent on a coast. */
   measurement?: Measurement;
   /** Normalised innovation squared of this update (ν'S⁻¹ν), absent on a coast. */

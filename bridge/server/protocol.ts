@@ -29,6 +29,8 @@ export const trackWire = z.object({
   moving: z.boolean(),
   hits: z.number().int().nonnegative(),
   misses: z.number().int().nonnegative(),
+  /** Time of the track's first detection, s (optional within protocol 1: older sessions lack it). */
+  startS: finite.optional(),
 });
 export type TrackWire = z.infer<typeof trackWire>;
 

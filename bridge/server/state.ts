@@ -36,7 +36,7 @@ export function toTrackWire(u: TrackUpdate): TrackWire {
   return {
     timeS: u.timeS, id: u.id, status: u.status, x: u.x, y: u.y, vx: u.vx, vy: u.vy, speed: u.speed,
     headingRad: u.headingRad, pxx: u.pxx, pxy: u.pxy, pyy: u.pyy, quality: u.quality, moving: u.moving,
-    hits: u.hits, misses: u.misses,
+    hits: u.hits, misses: u.misses, ...(u.startS !== undefined ? { startS: u.startS } : {}),
   };
 }
 

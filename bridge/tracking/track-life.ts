@@ -266,6 +266,7 @@ export class Track {
       moving: this.moved,
       hits: this.hits,
       misses: this.misses,
+      startS: this.createdS,
     };
     if (withMeasurement && this.lastMeasurement) {
       u.measurement = this.lastMeasurement;

@@ -35,6 +35,15 @@ describe('track life', () => {
     expect(t.quality).toBeLessThan(0.5);
   });
 
+  it('reports its start (first detection) on every update, for the age shown by the dashboard', () => {
+    const m0 = meas(3.25, 0.1);
+    const t = new Track(4, new KalmanCv(m0, { model: 'dwna', sigmaAccel: 0.3, sigmaVel0: 0.75 }), m0, det(3.25), { m: 1, n: 1 });
+    hit(t, meas(4.25, 0.2));
+    t.onMiss();
+    expect(t.update(true).startS).toBe(3.25);
+    expect(t.update(false).startS).toBe(3.25);
+  });
+
   it('fails a tentative track that cannot reach M of N', () => {
     const t = newTrack(0);
     t.onMiss();

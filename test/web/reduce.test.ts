@@ -70,6 +70,20 @@ describe('applyMessage', () => {
     expect(s.timeS).toBe(2);
   });
 
+  it('counts a track\'s age from its start when the bridge sends it, not from the history a seek re-sends', () => {
+    const s = createState();
+    // After a seek to 40 s the snapshot holds only the last seconds of a track that began at 12 s.
+    applyMessage(s, {
+      type: 'snapshot', timeS: 40, source, tracks: [{ ...track(3, 40, 0, 2), startS: 12 }],
+      history: [{ id: 3, points: [38, 0, 1.9, 39, 0, 1.95, 40, 0, 2] }], detections: [], fixedEchoes: [], commanded: [],
+      replay: { sessionId: 'a', durationS: 60, positionS: 40, speed: 1, playing: true, loop: false },
+    });
+    expect(s.tracks.get(3)!.firstSeenS).toBe(12);
+    // A track first met in a scan also takes its start from the wire.
+    applyMessage(s, scan(41, [{ ...track(7, 41), startS: 30.5 }]));
+    expect(s.tracks.get(7)!.firstSeenS).toBe(30.5);
+  });
+
   it('treats a scan far behind the latest time as a jump back', () => {
     const s = createState();
     applyMessage(s, scan(10, [track(1, 10)]));

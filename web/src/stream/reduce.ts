@@ -25,7 +25,7 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
         const entry = state.tracks.get(h.id);
         if (!entry) continue;
         loadFlatHistory(entry.history, h.points, h.kinematics);
-        if (entry.history.length > 0) entry.firstSeenS = entry.history.timeS[entry.history.slot(entry.history.firstSeq)];
+        if (entry.history.length > 0 && entry.latest.startS === undefined) entry.firstSeenS = entry.history.timeS[entry.history.slot(entry.history.firstSeq)];
       }
       // Tracks without sent history still get their current point, so a trail can start.
       for (const entry of state.tracks.values()) if (entry.history.length === 0) pushUpdate(entry.history, entry.latest);

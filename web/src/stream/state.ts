@@ -98,7 +98,9 @@ export function createState(): DashboardState {
 }
 
 export function newTrack(wire: TrackWire, limits: StateLimits): TrackEntry {
-  return { id: wire.id, latest: wire, firstSeenS: wire.timeS, history: new HistoryRing(limits.historyPoints) };
+  // The track's own start when the bridge sends it: a late join or a seek sees only part of the
+  // history, and the age must not count from there.
+  return { id: wire.id, latest: wire, firstSeenS: wire.startS ?? wire.timeS, history: new HistoryRing(limits.historyPoints) };
 }
 
 /** Range and azimuth of a track's latest position (radar at the origin, azimuth clockwise from +y). */
