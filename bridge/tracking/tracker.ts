@@ -3,13 +3,14 @@
  * map behind the TrackEngine contract (bridge/types.ts).
  *
  * Flow: detections are held for a short warm-up (antenna kind, interval, noise are inferred from
- * them), then assigned one by one as they come (rotating antenna; a cluster of tracks and
+ * them), then assigned one by one as they come (rotating antenna, live; a cluster of tracks and
  * detections whose gates the beam has not yet swept past waits for it, see sweep-deferral.ts)
- * or in batches of `batchS` (staring). Each batch is gated against the tracks found in
- * the grid cell of each detection, solved by global nearest neighbour, and leftovers become seeds
- * (or pair with an earlier seed into a tentative track) unless a fixed echo or a confirmed track
- * already claims them. Misses are
- * counted against each track's expected next detection (one interval after its last hit).
+ * or in batches of `batchS` (staring: half the update interval; rotating with
+ * `revolutionBatches`, files: half a revolution). Each batch is gated against the tracks whose
+ * gate discs hold each detection (gate-index.ts), solved by global nearest neighbour
+ * (assignment.ts), and leftovers become seeds (or pair with an earlier seed into a tentative
+ * track) unless a fixed echo or a confirmed track already claims them. Misses are counted
+ * against each track's expected next detection (one interval after its last hit).
  */
 import type { Detection, FixedEcho, Measurement, TrackDeletion, TrackEngine, TrackerOutput, TrackUpdate } from '../types.ts';
 import { assign } from './assignment.ts';
