@@ -27,17 +27,33 @@ export function* wireRecords(sc: ResolvedScenario, offsetS = 0, antennaRateHz = 
   let nextAntenna = 0;
   const cmd = new Map<number, { x: number; y: number }>();
   const first = sc.targets[0]?.id;
+  // The run yields a target's truth sample just before the commanded point of the same instant:
+  // the encoder sample waits for it, so that a positioner record pairs the command and the
+  // position of one instant (pairing it with the previous command made every positioner record
+  // a sample period late, which `compare` then read as positioner lag).
+  let pending: { timeS: number; x: number; y: number } | null = null;
+  const positioner = (p: { timeS: number; x: number; y: number }, c: { x: number; y: number }): WireRecord => ({
+    kind: 'positioner',
+    sample: { timeS: p.timeS + offsetS, cmdX: c.x, cmdY: c.y, measX: p.x, measY: p.y },
+  });
   for (const r of iterateRun(sc)) {
     const t = simTime(r);
+    if (pending && t > pending.timeS) {
+      yield positioner(pending, cmd.get(first) ?? pending);
+      pending = null;
+    }
     if (sc.antenna.mode === 'rotating' && antennaRateHz > 0) {
       for (; nextAntenna <= t; nextAntenna += 1 / antennaRateHz)
         yield { kind: 'antenna', sample: { timeS: nextAntenna + offsetS, azimuthRad: beamAzimuth(sc.antenna.periodS, sc.antenna.startAzimuthRad, nextAntenna) } };
     }
     if (r.kind === 'detection') yield { kind: 'detection', detection: { ...r.detection, timeS: t + offsetS } };
-    else if (r.kind === 'commanded') cmd.set(r.targetId, r.point);
-    else if (r.sample.targetId === first) {
-      const c = cmd.get(first) ?? r.sample;
-      yield { kind: 'positioner', sample: { timeS: t + offsetS, cmdX: c.x, cmdY: c.y, measX: r.sample.x, measY: r.sample.y } };
-    }
+    else if (r.kind === 'commanded') {
+      cmd.set(r.targetId, r.point);
+      if (pending && r.targetId === first && r.point.timeS === pending.timeS) {
+        yield positioner(pending, r.point);
+        pending = null;
+      }
+    } else if (r.sample.targetId === first) pending = { timeS: t, x: r.sample.x, y: r.sample.y };
   }
+  if (pending) yield positioner(pending, cmd.get(first) ?? pending);
 }
