@@ -76,6 +76,35 @@ export interface OffsetFit {
   sigmaAzimuthRad: number;
   reflectors: ReflectorResidual[];
   detectionsUsed: number;
+  /**
+   * What the fit cannot vouch for (see offsetWarnings): a spot whose mean residual is far beyond
+   * its noise (a mis-measured or mislabelled position), or too few spots to check the fit at all.
+   * The standard errors above assume the tape-measured positions are right.
+   */
+  warnings: string[];
+}
+
+/** Smallest mean residuals worth a warning: tape placement errors below these are common practice. */
+const SPOT_RANGE_FLOOR_M = 0.03;
+const SPOT_AZIMUTH_FLOOR_RAD = 0.5 * (Math.PI / 180);
+
+/**
+ * Warnings for a fit: each spot's mean residual against 3 standard errors of its own detections
+ * (and a floor for ordinary tape error), and the redundancy left to check the fit with.
+ */
+export function offsetWarnings(reflectors: readonly ReflectorResidual[], scaleFitted: boolean): string[] {
+  const out: string[] = [];
+  for (const r of reflectors) {
+    const k = 3 / Math.sqrt(Math.max(r.detections, 1));
+    const dr = r.meanRangeResidualM;
+    const da = r.meanAzimuthResidualRad;
+    if (Math.abs(dr) > Math.max(k * r.stdRangeResidualM, SPOT_RANGE_FLOOR_M)) out.push(`spot ${r.label}: mean range residual ${(dr * 1000).toFixed(0)} mm, beyond its noise: check its tape-measured position and label`);
+    if (Math.abs(da) > Math.max(k * r.stdAzimuthResidualRad, SPOT_AZIMUTH_FLOOR_RAD)) out.push(`spot ${r.label}: mean azimuth residual ${(da / DEG).toFixed(2)}°, beyond its noise: check its tape-measured position and label`);
+  }
+  const distances = new Set(reflectors.map((r) => r.trueRangeM.toFixed(2))).size;
+  if (reflectors.length < 2) out.push('one spot fits the offsets exactly and cannot check them: measure at two or more spots');
+  else if (scaleFitted && distances <= 2) out.push(`range scale and offset from ${distances} distances fit them exactly, with nothing left to check them: add a spot at a third distance`);
+  return out;
 }
 
 const wrapPi = (a: number) => a - 2 * Math.PI * Math.floor((a + Math.PI) / (2 * Math.PI));
@@ -146,5 +175,6 @@ export function fitRadarOffsets(positions: ReflectorPosition[], detections: Iter
     sigmaAzimuthRad: Math.sqrt(azFit.sigma2),
     reflectors,
     detectionsUsed: all.length,
+    warnings: offsetWarnings(reflectors, scaleFitted),
   };
 }

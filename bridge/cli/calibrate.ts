@@ -83,6 +83,7 @@ async function offsets(o: Record<string, unknown>): Promise<number> {
   for (const r of fit.reflectors) {
     process.stdout.write(`  ${r.label}: ${r.detections} detections at ${r.trueRangeM.toFixed(3)} m, residual range ${(r.meanRangeResidualM * 1000).toFixed(1)} ± ${(r.stdRangeResidualM * 1000).toFixed(1)} mm, azimuth ${(r.meanAzimuthResidualRad / DEG).toFixed(3)} ± ${(r.stdAzimuthResidualRad / DEG).toFixed(3)}°\n`);
   }
+  for (const w of fit.warnings) process.stderr.write(`echotrail calibrate offsets: warning: ${w}\n`);
   process.stdout.write(`tracker corrections (added to measurements): rangeOffsetM ${(-fit.rangeOffsetM).toFixed(4)}, azimuthOffsetDeg ${(-fit.azimuthOffsetRad / DEG).toFixed(3)}${fit.scaleFitted ? ' (the tracker has no range scale)' : ''}\n`);
   if (o.dryRun) return 0;
   const now = new Date().toISOString();

@@ -38,6 +38,19 @@ describe('fitRadarOffsets on a simulated bench', () => {
     expect(fit.sigmaRangeM).toBeLessThan(0.06);
   });
 
+  it('warns about a mis-measured spot and about too few spots, and not on a good three-spot run', () => {
+    const good = fitRadarOffsets(SPOTS, simulateRun(bench(1)).detections);
+    expect(good.warnings).toEqual([]);
+    // Spot B entered 0.2 m off across the beam (at 3.2 m: about 3.6°): only B is flagged.
+    const wrong = SPOTS.map((p) => (p.label === 'B' ? { ...p, x: p.x + 0.2 } : p));
+    const bad = fitRadarOffsets(wrong, simulateRun(bench(1)).detections);
+    expect(bad.warnings.some((w) => w.startsWith('spot B:') && w.includes('azimuth'))).toBe(true);
+    // Two spots: scale and offset fit the two distances exactly.
+    const two = fitRadarOffsets(SPOTS.slice(0, 2), simulateRun(bench(1)).detections);
+    expect(two.scaleFitted).toBe(true);
+    expect(two.warnings.some((w) => w.includes('nothing left to check'))).toBe(true);
+  });
+
   it('a large scale error (5%) does not make the robust gate drop the far reflector', () => {
     const fit = fitRadarOffsets(SPOTS, simulateRun(bench(6, { rangeScale: 1.05 })).detections);
     expect(Math.abs(fit.rangeScale - 1.05)).toBeLessThan(3 * fit.rangeScaleSe);
