@@ -8,11 +8,17 @@
  * While live it also checks now and then that the device path still exists: a driver that
  * reports the loss only as a read error, or not at all, must not leave the source showing 'live'
  * with nothing coming in.
+ *
+ * Line times are checked by clock-guard.ts: one old line is refused as a bad line ("time went
+ * back"), and only several consecutive earlier lines pass on as a restart of the hardware's clock
+ * (which the pipeline then records as a new run).
  */
 import { EventEmitter } from 'node:events';
 import { existsSync } from 'node:fs';
 import { SerialPort } from 'serialport';
-import type { BadLine, Source, SourceState } from './source.ts';
+import type { BadLine, Source, SourceRecord, SourceState } from './source.ts';
+import { ClockGuard, type Timed } from './clock-guard.ts';
+import { recordTime } from '../session/record-time.ts';
 import { parseLine } from './line-protocol.ts';
 import { LineSplitter } from './line-splitter.ts';
 import { resolveSerialOptions, type SerialSourceOptions } from './serial-options.ts';
@@ -29,6 +35,14 @@ export interface SerialCounters {
   lastBad: BadLine | null;
   /** Times the device was (re)opened. */
   opens: number;
+}
+
+/** A parsed line on its way through the clock guard. */
+interface GuardedLine {
+  record: SourceRecord;
+  line: number;
+  text: string;
+  receivedAtMs: number;
 }
 
 /** Distinct port errors reported per state before the rest are only counted. */
@@ -49,6 +63,8 @@ export class SerialSource extends EventEmitter implements Source {
   private readonly counters: SerialCounters = { lines: 0, badLines: 0, lastBad: null, opens: 0 };
   /** Port errors reported in the current state, and those held back (repeats, or over the cap). */
   private errors = { reported: new Set<string>(), held: 0 };
+  /** Kept across reopens: a device reset while unplugged still has to prove its new clock. */
+  private readonly clock = new ClockGuard<GuardedLine>();
 
   constructor(options: Partial<SerialSourceOptions> & { path: string }) {
     super();
@@ -162,6 +178,7 @@ export class SerialSource extends EventEmitter implements Source {
     if (this.port !== port) return;
     this.port = null;
     this.stopPresenceCheck();
+    this.refuseStale(this.clock.drain(), this.clock.latestS);
     const cut = this.splitter.reset();
     if (cut) {
       this.counters.lines = cut.line;
@@ -192,8 +209,21 @@ export class SerialSource extends EventEmitter implements Source {
       }
       if (l.text === '' || l.text === '\r') continue; // blank lines separate bursts; not an error
       const r = parseLine(l.text, l.line);
-      if (r.ok) this.emit('record', r.record, receivedAtMs);
+      if (r.ok) this.pass({ record: r.record, line: l.line, text: l.text, receivedAtMs });
       else this.refuse(r.bad);
+    }
+  }
+
+  /** Passes a good line through the clock guard: on, held, or refused as out of order. */
+  private pass(g: GuardedLine): void {
+    const step = this.clock.push(g, recordTime(g.record));
+    this.refuseStale(step.refused, step.refusedFromS);
+    for (const a of step.accepted) this.emit('record', a.record, a.receivedAtMs);
+  }
+
+  private refuseStale(lines: Timed<GuardedLine>[], fromS: number): void {
+    for (const { item, timeS } of lines) {
+      this.refuse({ line: item.line, reason: `time went back from ${fromS.toFixed(3)} s to ${timeS.toFixed(3)} s`, text: item.text.slice(0, 200) });
     }
   }
 

@@ -21,6 +21,7 @@ import { SourceStats } from './source-stats.ts';
 import { ScanBatch, type ScanMessage } from './scan-batch.ts';
 import { rebuildAfterSeek } from './rebuild.ts';
 import { recordTime as recordTimeOf } from '../session/record-time.ts';
+import { CLOCK_BACK_S } from '../ingest/clock-guard.ts';
 
 export type SnapshotMessage = Extract<ServerMessage, { type: 'snapshot' }>;
 
@@ -49,8 +50,12 @@ export interface PipelineOptions {
 /** How often source status, replay state, fixed echoes and comparison figures are refreshed, ms. */
 const STATUS_MS = 1000;
 const REPLAY_MS = 250;
-/** A live record this much older than the run's latest time means the hardware's clock restarted, s. */
-const CLOCK_RESET_S = 2;
+/**
+ * A live record this much older than the run's latest time means the hardware's clock restarted,
+ * s. The serial source passes such a record on only once several lines in a row confirmed the
+ * restart (ingest/clock-guard.ts); a single stale line is refused there as a bad line.
+ */
+const CLOCK_RESET_S = CLOCK_BACK_S;
 
 export class Pipeline extends EventEmitter {
   readonly state: LiveState;

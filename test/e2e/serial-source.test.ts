@@ -147,6 +147,26 @@ describe.skipIf(!haveSocat)('SerialSource over a socat pty pair', () => {
     expect(records[records.length - 1].kind).toBe('antenna');
   });
 
+  it('refuses one old line as a bad line and keeps the good lines around it; three earlier lines in a row restart the clock', async () => {
+    await waitFor(() => source.state === 'live', "state 'live'");
+    const det = (t: number) => encodeLine({ kind: 'detection', detection: { timeS: t, azimuthRad: (10 * Math.PI) / 180, rangeM: 3, amplitude: 100 } });
+    const n = records.length;
+    const nb = bad.length;
+    const firstLine = source.stats().lines + 1;
+    // The line of the field report: valid, checksum right, but from long before 81.6 s.
+    expect(det(1)).toBe('det 1.000000 10.0000 3.0000 100|C9DE');
+    send(`${det(81.5)}\n${det(81.6)}\n${det(1)}\n${det(81.7)}\n`);
+    await waitFor(() => records.length >= n + 3 && bad.length > nb, 'three records and the old line refused');
+    const times = () => records.slice(n).map((r) => (r.kind === 'detection' ? r.detection.timeS : NaN));
+    expect(times()).toEqual([81.5, 81.6, 81.7]);
+    expect(bad.slice(nb)).toEqual([{ line: firstLine + 2, reason: 'time went back from 81.600 s to 1.000 s', text: det(1) }]);
+    // A real restart: every line of the new clock passes on, in order, none refused.
+    send(`${det(0.1)}\n${det(0.2)}\n${det(0.3)}\n${det(0.4)}\n`);
+    await waitFor(() => records.length >= n + 7, 'the restarted lines');
+    expect(times()).toEqual([81.5, 81.6, 81.7, 0.1, 0.2, 0.3, 0.4]);
+    expect(bad.length).toBe(nb + 1);
+  });
+
   it('waits for a device that is not there yet and goes live when it appears', async () => {
     const late = join(dir, 'late');
     const lateFar = join(dir, 'late-far');
