@@ -69,6 +69,20 @@ function positive(v: string): number {
   return n;
 }
 
+/** Writes one line; waits for 'drain' when the port buffers, but not past an abort (a lost port never drains). */
+function writeOrAbort(port: SerialPort, line: string, signal: AbortSignal): Promise<void> {
+  return new Promise((res) => {
+    if (port.write(line) || signal.aborted) return res();
+    const done = (): void => {
+      port.off('drain', done);
+      signal.removeEventListener('abort', done);
+      res();
+    };
+    port.once('drain', done);
+    signal.addEventListener('abort', done, { once: true });
+  });
+}
+
 export async function run(argv: string[]): Promise<number> {
   const cmd = new Command('echotrail feed')
     .description('Play a simulated bench run into a serial port in the line protocol, in real time (a stand-in for the acquisition hardware).')
@@ -90,10 +104,26 @@ export async function run(argv: string[]): Promise<number> {
     return 0;
   }
   const port = new SerialPort({ path: options.port, baudRate: options.baudRate, autoOpen: false });
+  // The feed stands in for hardware that can be unplugged: losing the port (socat killed, a write
+  // failing with EIO) ends the feed with E_SERIAL, never with an unhandled 'error' event. The
+  // listener is there before the port opens, so no error can come without one.
+  let lost: Error | null = null;
+  port.on('error', (err: Error) => {
+    lost ??= err;
+    abort.abort();
+  });
   await new Promise<void>((res, rej) => port.open((err) => (err ? rej(new EchotrailError('E_SERIAL', `cannot open '${options.port}': ${err.message}`)) : res())));
-  port.on('close', () => abort.abort());
+  port.on('close', (err?: Error) => {
+    if (err) lost ??= err;
+    abort.abort();
+  });
   process.stderr.write(`echotrail feed: scenario ${options.scenario} → ${options.port} at ${options.speed}× (Ctrl-C stops)\n`);
-  const n = await feed(options, (line) => new Promise((res) => (port.write(line) ? res() : port.once('drain', () => res()))), abort.signal);
+  const n = await feed(options, (line) => writeOrAbort(port, line, abort.signal), abort.signal);
+  if (lost) {
+    if (port.isOpen) port.close(() => undefined);
+    const e = lost as Error;
+    throw new EchotrailError('E_SERIAL', `lost '${options.port}' after ${n} lines: ${e.message}; start the feed again when the port is back`, { cause: e });
+  }
   await new Promise<void>((res) => port.drain(() => res()));
   if (port.isOpen) await new Promise<void>((res) => port.close(() => res()));
   process.stderr.write(`echotrail feed: ${n} lines written\n`);

@@ -6,7 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { startBridge, type RunningBridge } from '../../bridge/server/bridge.ts';
@@ -51,5 +51,33 @@ describe.skipIf(!socatAvailable())('echotrail feed → serial → bridge → Web
     const source = client.of('source').at(-1)!.source;
     expect(source.badLines).toBe(0);
     expect(source.recording).toMatch(/\.session\.jsonl$/);
+  });
+});
+
+describe.skipIf(!socatAvailable())('echotrail feed when the port goes away', () => {
+  it('ends with one E_SERIAL line and exit code 1, not an unhandled error event', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'et-feed-lost-'));
+    const pty = new PtyPair(dir);
+    await pty.start();
+    const feeder = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'bridge/cli/main.ts'), 'feed', '--port', pty.hardware, '--scenario', 'turntable', '--loop'], { cwd: ROOT, stdio: ['ignore', 'ignore', 'pipe'] });
+    let stderr = '';
+    feeder.stderr!.on('data', (d: Buffer) => (stderr += d.toString()));
+    const exited = new Promise<number | null>((res) => feeder.once('exit', (code) => res(code)));
+    try {
+      // The timeout only stops a hung test.
+      for (let i = 0; i < 1000 && !stderr.includes('Ctrl-C stops'); i++) await new Promise((r) => setTimeout(r, 20));
+      expect(stderr).toContain('Ctrl-C stops');
+      await pty.stop();
+      const code = await exited;
+      expect(code).toBe(1);
+      const lines = stderr.trim().split('\n');
+      expect(lines).toHaveLength(2);
+      expect(lines[1]).toMatch(/^echotrail feed: E_SERIAL: lost '.*hw-end' after \d+ lines: /);
+      expect(stderr).not.toMatch(/Unhandled|    at /);
+    } finally {
+      if (feeder.exitCode === null) feeder.kill('SIGKILL');
+      await pty.stop();
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
