@@ -1,5 +1,7 @@
 /**
  * `echotrail sessions`: lists recorded sessions as a table (or JSON with --json), newest first.
+ * The folder is named `--sessions DIR` as in `echotrail start`, so one flag carries over between
+ * recording and listing; `--dir` stays for the scripts that already use it.
  */
 import { Command } from 'commander';
 import { join } from 'node:path';
@@ -27,7 +29,8 @@ export function sessionsTable(sessions: SessionInfo[]): string {
 export async function run(argv: string[]): Promise<number> {
   const cmd = new Command('echotrail sessions')
     .description('List recorded sessions (newest first). "commanded" says whether the session holds a commanded path.')
-    .option('--dir <folder...>', 'session folders to list (default: <repo>/sessions, where npm start records)')
+    .option('--sessions <folder...>', 'session folders to list, as given to `start --sessions` (default: <repo>/sessions, where live runs are recorded)')
+    .option('--dir <folder...>', 'the same as --sessions (older name)')
     .option('--demo', 'also list the demo sessions in replays/')
     .option('--json', 'print JSON instead of a table')
     .exitOverride();
@@ -36,8 +39,9 @@ export async function run(argv: string[]): Promise<number> {
   } catch (err) {
     return (err as { exitCode?: number }).exitCode === 0 ? 0 : 2;
   }
-  const f = cmd.opts<{ dir?: string[]; demo?: boolean; json?: boolean }>();
-  const dirs = [...(f.dir ?? [join(REPO_ROOT, 'sessions')]), ...(f.demo ? [join(REPO_ROOT, 'replays')] : [])];
+  const f = cmd.opts<{ sessions?: string[]; dir?: string[]; demo?: boolean; json?: boolean }>();
+  const given = [...(f.sessions ?? []), ...(f.dir ?? [])];
+  const dirs = [...(given.length ? given : [join(REPO_ROOT, 'sessions')]), ...(f.demo ? [join(REPO_ROOT, 'replays')] : [])];
   const sessions = await listSessions(dirs);
   if (f.json) process.stdout.write(JSON.stringify(sessions, null, 2) + '\n');
   else if (!sessions.length) process.stdout.write(`no sessions in ${dirs.join(', ')}\n`);

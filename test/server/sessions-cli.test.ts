@@ -1,5 +1,9 @@
-import { describe, expect, it } from 'vitest';
-import { sessionsTable } from '../../bridge/cli/sessions.ts';
+import { afterAll, describe, expect, it, vi } from 'vitest';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { run, sessionsTable } from '../../bridge/cli/sessions.ts';
+import { Recorder } from '../../bridge/session/recorder.ts';
 
 describe('echotrail sessions table', () => {
   it('aligns one row per session with readable durations', () => {
@@ -14,5 +18,49 @@ describe('echotrail sessions table', () => {
     expect(lines[2]).toMatch(/^short\s+2026-12-02 10:00:00\s+42\.3s\s+7\s+0\s+no$/);
     // Right-aligned numbers end in the same column.
     expect(lines[1].indexOf('120000') + 6).toBe(lines[2].indexOf(' 7 ') + 2);
+  });
+});
+
+describe('echotrail sessions folders', () => {
+  const root = mkdtempSync(join(tmpdir(), 'echotrail-sessions-cli-'));
+  afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+  function record(dir: string, name: string): void {
+    const r = new Recorder({ dir, name, startUtc: new Date('2026-12-02T09:00:00Z') });
+    r.open();
+    r.record({ kind: 'detection', detection: { timeS: 0.5, azimuthRad: 1, rangeM: 2, amplitude: 3 } });
+    r.closeSync();
+  }
+
+  /** Runs the command in-process; returns its exit code and the names it listed. */
+  async function list(argv: string[]): Promise<{ code: number; names: string[] }> {
+    let out = '';
+    const spy = vi.spyOn(process.stdout, 'write').mockImplementation((s: string | Uint8Array) => ((out += String(s)), true));
+    try {
+      const code = await run([...argv, '--json']);
+      return { code, names: code === 0 ? (JSON.parse(out) as { name: string }[]).map((x) => x.name).sort() : [] };
+    } finally {
+      spy.mockRestore();
+    }
+  }
+
+  const a = join(root, 'a');
+  const b = join(root, 'b');
+  record(a, 'first');
+  record(b, 'second');
+
+  it('takes --sessions DIR as `start --sessions` does, and still --dir', async () => {
+    expect(await list(['--sessions', a])).toEqual({ code: 0, names: ['first'] });
+    expect(await list(['--dir', b])).toEqual({ code: 0, names: ['second'] });
+    expect(await list(['--sessions', a, '--dir', b])).toEqual({ code: 0, names: ['first', 'second'] });
+  });
+
+  it('refuses an unknown option with the usage exit code, as every command does', async () => {
+    const err = vi.spyOn(process.stderr, 'write').mockImplementation(() => true);
+    try {
+      expect((await list(['--session', a])).code).toBe(2);
+    } finally {
+      err.mockRestore();
+    }
   });
 });
