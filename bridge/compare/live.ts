@@ -66,6 +66,12 @@ export function resolveLiveComparisonOptions(o: Partial<LiveComparisonOptions> =
  */
 const LATE_SLACK_S = 10;
 
+/**
+ * After a reset, a positioner sample at most this long after the kept path's end extends it; a
+ * later one (a seek forward) starts a new path rather than bridge the gap with a straight line.
+ */
+const RESUME_GAP_S = 1;
+
 export class LiveComparison {
   private readonly o: LiveComparisonOptions;
   private path: TimedPath | null = null;
@@ -84,6 +90,8 @@ export class LiveComparison {
   private fromPositioner = false;
   /** Time of the newest update compared, any track: later ones (time order) never look further back. */
   private newestS: number | null = null;
+  /** A positioner-built path kept through a reset, until the next sample shows it still fits (reset). */
+  private onProbation = false;
 
   constructor(options: Partial<LiveComparisonOptions> = {}) {
     this.o = resolveLiveComparisonOptions(options);
@@ -106,6 +114,16 @@ export class LiveComparison {
 
   /** Append one positioner record to the commanded path (resends and repeated holds are folded). */
   addPositioner(s: PositionerSample): void {
+    if (this.onProbation) {
+      this.onProbation = false;
+      const first = this.raw[0];
+      const end = this.endS();
+      if (!first || s.timeS < first.timeS || s.timeS > end + RESUME_GAP_S) {
+        this.path = null;
+        this.raw = [];
+        this.fromPositioner = false;
+      }
+    }
     const last = this.raw[this.raw.length - 1];
     if (last && s.timeS <= last.timeS) return;
     const prev = this.raw[this.raw.length - 2];
@@ -156,17 +174,16 @@ export class LiveComparison {
   }
 
   /**
-   * Forget the figures, the followed track and pending updates; keep a commanded path given whole.
-   * A path built from positioner samples is forgotten too: only its recent tail is kept
-   * (trimPath), so after a seek back it would not cover the new position; the samples that
-   * follow the seek build it again.
+   * Forget the figures, the followed track and pending updates; keep the commanded path.
+   * A path built from positioner samples is kept too, on probation: a replay re-sends the
+   * tracks of the window before the new position at once but positioner samples only as it
+   * plays, so forgetting the path left a paused replay without figures after every seek. The
+   * first sample after the reset decides (addPositioner): inside the kept span, or just after
+   * it, the path goes on; before its (trimmed) head or past a gap, it is built again from there.
    */
   reset(): void {
-    if (this.fromPositioner || !this.path) {
-      this.path = null;
-      this.raw = [];
-      this.fromPositioner = false;
-    }
+    if (!this.path) this.raw = [];
+    this.onProbation = this.fromPositioner;
     this.follower = new TrackFollower(this.o.follow);
     this.pending = [];
     this.window = [];
@@ -301,11 +318,8 @@ export class MultiPathComparison {
     return out;
   }
 
-  /** Replay seek: forget figures and followed tracks; keep paths given whole (see LiveComparison.reset). */
+  /** Replay seek: forget figures and followed tracks; keep the paths (see LiveComparison.reset). */
   reset(): void {
-    for (const [id, live] of this.byPath) {
-      live.reset();
-      if (id === POSITIONER_PATH) this.byPath.delete(id);
-    }
+    for (const live of this.byPath.values()) live.reset();
   }
 }

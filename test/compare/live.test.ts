@@ -133,6 +133,30 @@ describe('LiveComparison on a long positioner-fed run', () => {
     expect(seeked.figures()).toEqual(fresh.figures());
   });
 
+  it('after a seek while paused, compares the re-sent tracks on the kept path before any new sample', () => {
+    // The replay re-sends the window's track updates at once; positioner samples come only on Play.
+    const live = new LiveComparison();
+    feed(live, 60);
+    live.reset();
+    for (let t = 40; t <= 50; t += 0.25) {
+      const p = commandAt(t - 0.3);
+      live.update(toUpdate({ timeS: t, id: 1, status: 'confirmed', x: p.x, y: p.y, vx: 0, vy: 0.4, speed: 0.4, headingRad: 0 }));
+    }
+    expect(live.figures().samples).toBe(41);
+    // Play resumes inside the kept span: the path goes on without a new start.
+    live.addPositioner({ timeS: 50.05, cmdX: commandAt(50.05).x, cmdY: commandAt(50.05).y });
+    expect(live.pathPoints).toBeGreaterThan(100);
+  });
+
+  it('after a seek forward past the kept path, starts the path again instead of bridging the gap', () => {
+    const live = new LiveComparison();
+    feed(live, 30);
+    live.reset();
+    const c = commandAt(200);
+    live.addPositioner({ timeS: 200, cmdX: c.x, cmdY: c.y });
+    expect(live.pathPoints).toBe(1);
+  });
+
   it('stays bounded when the followed track is lost for long', () => {
     const live = new LiveComparison({ maxPathPoints: 3_000, trimChunk: 256 });
     feed(live, 600, 60);
@@ -167,12 +191,12 @@ describe('MultiPathComparison', () => {
     for (const x of f) expect(comparisonFigures.safeParse(x).success).toBe(true);
   });
 
-  it('builds one path from positioner samples unless whole paths are given, and forgets it on a reset', () => {
+  it('builds one path from positioner samples unless whole paths are given, and keeps it through a reset', () => {
     const live = new MultiPathComparison();
     for (let t = 0; t <= 2; t += 0.1) live.addPositioner({ timeS: t, cmdX: at(A, t).x, cmdY: at(A, t).y });
     expect(live.paths).toEqual([POSITIONER_PATH]);
     live.reset();
-    expect(live.paths).toEqual([]);
+    expect(live.paths).toEqual([POSITIONER_PATH]);
     live.setCommanded(B, '2');
     live.addPositioner({ timeS: 3, cmdX: 0, cmdY: 3 });
     expect(live.paths).toEqual(['2']);

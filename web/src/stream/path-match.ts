@@ -16,6 +16,11 @@ export const MATCH_GATE_M = 1.0;
 /** Recent points judged. */
 const RECENT_POINTS = 12;
 
+/** The bridge's name for the path built from positioner records (compare/live.ts POSITIONER_PATH). */
+export const POSITIONER_PATH_ID = 'positioner';
+/** The bridge's name for a path given whole without a target (compare/live.ts DEFAULT_PATH). */
+const DEFAULT_PATH_ID = 'commanded';
+
 export interface PathMatch {
   /** The path's target ('' for a run's one unnamed path), or null when none matches. */
   target: string | null;
@@ -38,7 +43,10 @@ export function matchPath(state: Pick<DashboardState, 'commandedPaths' | 'compar
   if (paths.length === 0) return { target: null, path: null, how: null, reason: 'no commanded path' };
   for (const [pathId, f] of state.comparisons) {
     if (f.trackId !== trackId) continue;
-    const p = paths.find((q) => q.target === pathId) ?? (paths.length === 1 && pathId === '' ? paths[0] : undefined);
+    // The dashboard holds a run's one path unnamed (''), while the bridge's figures name it
+    // 'commanded' or 'positioner': the same path, so the followed track is measured on it.
+    const unnamed = pathId === '' || pathId === DEFAULT_PATH_ID || pathId === POSITIONER_PATH_ID;
+    const p = paths.find((q) => q.target === pathId) ?? (paths.length === 1 && unnamed ? paths[0] : undefined);
     if (p) return { target: p.target, path: p.path, how: 'followed', reason: null };
   }
   let best: { p: (typeof paths)[number]; d: number } | null = null;

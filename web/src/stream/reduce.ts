@@ -4,6 +4,8 @@
  */
 import type { ServerMessage, TrackWire } from '../../../bridge/server/protocol.ts';
 import type { HistoryRing } from './ring.ts';
+import { POSITIONER_PATH_ID } from './path-match.ts';
+import { extendPositionerPath } from './positioner-path.ts';
 import {
   type DashboardState, type StateLimits, defaultLimits, loadFlatHistory, newTrack, pruneDetections,
 } from './state.ts';
@@ -31,7 +33,9 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       for (const entry of state.tracks.values()) if (entry.history.length === 0) pushUpdate(entry.history, entry.latest);
       for (const d of msg.detections) addDetection(state, d.timeS, d.azimuthRad, d.rangeM, d.fixed ?? false);
       setFixedEchoes(state, msg.fixedEchoes);
-      setCommandedPaths(state, msg.commandedPaths ?? (msg.commanded.length ? [{ target: '', path: msg.commanded }] : []));
+      // A snapshot's single unnamed path may be a positioner-built one: later samples extend it.
+      state.commandedExplicit = msg.commandedPaths !== undefined;
+      setCommandedPaths(state, msg.commandedPaths ?? (msg.commanded.length ? [{ target: '', path: msg.commanded.slice() }] : []));
       pruneDetections(state, limits);
       return;
     case 'scan': {
@@ -55,6 +59,7 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       for (const del of msg.deletions) state.tracks.delete(del.id);
       if (msg.antennaAzimuthRad !== null) state.antennaAzimuthRad = msg.antennaAzimuthRad;
       if (msg.positioner.length > 0) state.positioner = msg.positioner[msg.positioner.length - 1];
+      if (extendPositionerPath(state, msg.positioner)) state.commandedVersion++;
       pruneDetections(state, limits);
       return;
     }
@@ -68,12 +73,15 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       state.replay = msg.replay;
       return;
     case 'commanded':
+      state.commandedExplicit = true;
       if (msg.target === undefined) setCommandedPaths(state, [{ target: '', path: msg.path }]);
       else setCommandedPaths(state, [...state.commandedPaths.filter((p) => p.target !== msg.target && p.target !== ''), { target: msg.target, path: msg.path }]);
       return;
     case 'comparison':
       state.comparison = msg.figures;
       state.comparisons.set(msg.figures.pathId ?? '', msg.figures);
+      // Figures against a path given whole: positioner samples must not extend it.
+      if (msg.figures.pathId !== undefined && msg.figures.pathId !== POSITIONER_PATH_ID) state.commandedExplicit = true;
       state.comparisonHistory.push(msg.figures);
       if (state.comparisonHistory.length > limits.comparisonPoints) state.comparisonHistory.shift();
       return;

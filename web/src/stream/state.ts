@@ -42,6 +42,12 @@ export interface DashboardState {
   commanded: PathPointWire[];
   /** Every commanded path, one per target ('' when the run has one path without a name), in arrival order. */
   commandedPaths: { target: string; path: PathPointWire[] }[];
+  /**
+   * True once the run gave its commanded paths whole (`commanded` messages, several targets, or
+   * figures against a named path); false while the path may be built from positioner samples,
+   * which then extend it (positioner-path.ts).
+   */
+  commandedExplicit: boolean;
   antennaAzimuthRad: number | null;
   /** Latest commanded/measured positioner position, metres. */
   positioner: { timeS: number; cmdX: number; cmdY: number; measX?: number; measY?: number } | null;
@@ -90,7 +96,7 @@ export const defaultLimits: StateLimits = {
 export function createState(): DashboardState {
   return {
     connection: 'connecting', serverName: null, timeS: 0, source: null, tracks: new Map(),
-    detections: [], fixedEchoes: [], commanded: [], commandedPaths: [], antennaAzimuthRad: null, positioner: null,
+    detections: [], fixedEchoes: [], commanded: [], commandedPaths: [], commandedExplicit: false, antennaAzimuthRad: null, positioner: null,
     replay: null, comparison: null, comparisonHistory: [], comparisons: new Map(), sessions: [], lastError: null,
     invalidFrames: 0, lastInvalid: null, epoch: 0, fixedVersion: 0, commandedVersion: 0,
     capture: { active: false, detections: [], limit: 12_000 },
