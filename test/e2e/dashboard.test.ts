@@ -99,10 +99,24 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
   });
 
   it('shows the commanded-path comparison the session carries', async () => {
-    const panel = page.locator('[data-testid=comparison]');
+    // The panel stands (with a word) before the first figures; wait for the figures themselves.
+    const panel = page.locator('[data-testid=comparison]', { hasText: 'RMSE (running)' });
     await panel.waitFor();
     expect(await panel.innerText()).toMatch(/RMSE \(running\)\s+\d+\.\d{3} m/);
-    expect(await panel.innerText()).toMatch(/Lag behind command\s+(−|-)?\d+ (ms|s)/);
+    // Negative lags carry the minus sign, as every other signed figure does.
+    expect(await panel.innerText()).toMatch(/Lag behind command\s+(—|−?\d+(\.\d+)? (ms|s))/);
+  });
+
+  it('keeps the comparison after a seek while paused', async () => {
+    await page.mouse.move(5, 5);
+    await page.keyboard.press(' ');
+    await page.locator('[data-testid=source-status] [data-state=replay-paused]').waitFor();
+    await page.keyboard.press('ArrowLeft');
+    // The bridge compares the re-sent tracks on the kept path at once; the panel never goes away.
+    await page.locator('[data-testid=comparison]', { hasText: 'RMSE (running)' }).waitFor({ timeout: 10_000 });
+    expect(await page.locator('[data-testid=source-status]').innerText()).toContain('n/a (replay)');
+    await page.keyboard.press(' ');
+    await page.locator('[data-testid=source-status] [data-state=replay-playing]').waitFor();
   });
 
   it('opens the safety note and the shortcut list from the keyboard', async () => {

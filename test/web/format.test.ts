@@ -13,6 +13,10 @@ describe('formatting with units', () => {
     expect(formatQuality(0.634)).toBe('63 %');
     expect(formatShortTime(0.12)).toBe('120 ms');
     expect(formatShortTime(1.5)).toBe('1.50 s');
+    // Negative lags use the minus sign like every other signed figure, never a hyphen.
+    expect(formatShortTime(-0.001)).toBe('−1 ms');
+    expect(formatShortTime(-1.25)).toBe('−1.25 s');
+    expect(formatShortTime(-0.0001)).toBe('0 ms');
   });
 
   it('shows a dash for missing values instead of NaN or null', () => {

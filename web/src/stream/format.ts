@@ -75,7 +75,9 @@ export function formatSpeedFactor(f: number | null | undefined): string {
 /** Short times (lags, steps): milliseconds below one second, seconds above. */
 export function formatShortTime(s: number | null | undefined): string {
   if (!ok(s)) return DASH;
-  return Math.abs(s) < 1 ? `${(s * 1000).toFixed(0)} ms` : `${s.toFixed(2)} s`;
+  // The minus sign (U+2212), as in every other signed figure; "-0 ms" reads as "0 ms".
+  const text = Math.abs(s) < 1 ? `${(Math.abs(s) * 1000).toFixed(0)} ms` : `${Math.abs(s).toFixed(2)} s`;
+  return s < 0 && !/^0 ms$/.test(text) ? `−${text}` : text;
 }
 
 /** Compact age for table cells: "42 s", "76 s", "12 min". */
