@@ -108,15 +108,16 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
   });
 
   it('keeps the comparison after a seek while paused', async () => {
+    // The replay is still paused from the seek test above.
     await page.mouse.move(5, 5);
-    await page.keyboard.press(' ');
     await page.locator('[data-testid=source-status] [data-state=replay-paused]').waitFor();
+    const before = await page.locator('[data-testid=replay-clock]').innerText();
     await page.keyboard.press('ArrowLeft');
+    await page.waitForFunction((b) => document.querySelector('[data-testid=replay-clock]')?.textContent !== b, before);
     // The bridge compares the re-sent tracks on the kept path at once; the panel never goes away.
     await page.locator('[data-testid=comparison]', { hasText: 'RMSE (running)' }).waitFor({ timeout: 10_000 });
     expect(await page.locator('[data-testid=source-status]').innerText()).toContain('n/a (replay)');
-    await page.keyboard.press(' ');
-    await page.locator('[data-testid=source-status] [data-state=replay-playing]').waitFor();
+    expect(await page.locator('[data-testid=source-status] [data-state=replay-paused]').count()).toBe(1);
   });
 
   it('opens the safety note and the shortcut list from the keyboard', async () => {
