@@ -18,8 +18,8 @@ function duration(s: number): string {
 
 /** A plain text table: one header row, one row per session. */
 export function sessionsTable(sessions: SessionInfo[]): string {
-  const head = ['id', 'start (UTC)', 'duration', 'detections', 'tracks', 'commanded'];
-  const rows = sessions.map((s) => [s.id, s.startUtc.replace('T', ' ').replace(/\.\d+Z$|Z$/, ''), duration(s.durationS), String(s.detections), String(s.tracks), s.hasCommanded ? 'yes' : 'no']);
+  const head = ['id', 'start (UTC)', 'duration', 'detections', 'tracks', 'commanded', 'closed'];
+  const rows = sessions.map((s) => [s.id, s.startUtc.replace('T', ' ').replace(/\.\d+Z$|Z$/, ''), duration(s.durationS), String(s.detections), String(s.tracks), s.hasCommanded ? 'yes' : 'no', s.closed === false ? 'no (cut off)' : 'yes']);
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const right = new Set([2, 3, 4]);
   const fmt = (r: string[]): string => r.map((c, i) => (right.has(i) ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join('  ').trimEnd();
@@ -28,7 +28,7 @@ export function sessionsTable(sessions: SessionInfo[]): string {
 
 export async function run(argv: string[]): Promise<number> {
   const cmd = new Command('echotrail sessions')
-    .description('List recorded sessions (newest first). "commanded" says whether the session holds a commanded path.')
+    .description('List recorded sessions (newest first). "commanded" says whether the session holds a commanded path (cmd or positioner records); "closed" says whether it ends with its summary (no: cut off by a kill or a power loss, or still recording; it replays up to where it stops).')
     .option('--sessions <folder...>', 'session folders to list, as given to `start --sessions` (default: <repo>/sessions, where live runs are recorded)')
     .option('--dir <folder...>', 'the same as --sessions (older name)')
     .option('--demo', 'also list the demo sessions in replays/')

@@ -139,6 +139,8 @@ export const sessionInfo = z.object({
   detections: z.number().int().nonnegative(),
   tracks: z.number().int().nonnegative(),
   hasCommanded: z.boolean(),
+  /** False when the file has no closing summary: the recording was cut off (kill -9, power) or is still going. */
+  closed: z.boolean().optional(),
 });
 export type SessionInfo = z.infer<typeof sessionInfo>;
 

@@ -36,7 +36,7 @@ export const RECORD_KINDS = {
   fix: 'fixed-echo map snapshot: timeS, echoes[] of {x, y, rangeM, azimuthRad, seen, amplitude}',
   cmd: 'commanded path (replaces the previous one of the same target): timeS, target? (which positioner/carriage, when several), path[] of {timeS, x, y}',
   note: 'operator or program note: timeS, text',
-  end: 'clean close: timeS (run duration), summary {detections, tracks, lines, hasCommanded}',
+  end: 'clean close: timeS (run duration), summary {detections, tracks, lines, hasCommanded (cmd or pos records)}',
 } as const;
 
 export const sessionHeader = z.object({

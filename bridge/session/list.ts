@@ -93,7 +93,7 @@ async function scanFrom(path: string, head: string, headBytes: number): Promise<
           /* counted in durationS only */
         } else if (r.record.kind === 'detection') sc.detections++;
         else if (r.record.kind === 'track') sc.trackIds.add(r.record.update.id);
-        else if (r.record.kind === 'commanded') sc.hasCommanded = true;
+        else if (r.record.kind === 'commanded' || r.record.kind === 'positioner') sc.hasCommanded = true;
       }
       // The counts so far are kept in `sc`, so the scan resumes correctly whoever runs next.
       if (++n % SCAN_YIELD_LINES === 0) await new Promise((res) => setImmediate(res));
@@ -124,12 +124,12 @@ export async function sessionInfo(path: string): Promise<SessionInfo | null> {
     const base = { id: sessionIdOf(path), name: h.data.name, startUtc: h.data.startUtc };
     if (end.success && end.data.k === 'end') {
       const s = end.data.summary;
-      info = { ...base, durationS: end.data.timeS, detections: s.detections, tracks: s.tracks, hasCommanded: s.hasCommanded };
+      info = { ...base, durationS: end.data.timeS, detections: s.detections, tracks: s.tracks, hasCommanded: s.hasCommanded, closed: true };
       scans.delete(path);
     } else {
       // No summary (kill -9, or still recording): count the lines, continuing where the last call stopped.
       const sc = await scanOn(path, head, headBytes + 1);
-      info = { ...base, durationS: sc.durationS, detections: sc.detections, tracks: sc.trackIds.size, hasCommanded: sc.hasCommanded };
+      info = { ...base, durationS: sc.durationS, detections: sc.detections, tracks: sc.trackIds.size, hasCommanded: sc.hasCommanded, closed: false };
     }
   } catch {
     return null;

@@ -149,7 +149,8 @@ export class Recorder extends EventEmitter {
     if (t > this.lastTimeS) this.lastTimeS = t;
     if (rec.kind === 'detection') this.detections++;
     else if (rec.kind === 'track') this.trackIds.add(rec.update.id);
-    else if (rec.kind === 'commanded') this.hasCommanded = true;
+    // Positioner samples carry the command too (cmdX, cmdY): compare and the live view use them.
+    else if (rec.kind === 'commanded' || rec.kind === 'positioner') this.hasCommanded = true;
     this.writeLine(JSON.stringify(toLine(rec, t)));
   }
 

@@ -14,6 +14,8 @@ function run(dir: string, name: string, start: string, seconds: number, close: b
   const r = new Recorder({ dir, name, startUtc: new Date(start) });
   r.open();
   if (name.includes('cmd')) r.record({ kind: 'commanded', path: [{ timeS: 0, x: 0, y: 1 }] });
+  // A live run's positioner samples carry the command too.
+  if (name.includes('pos')) r.record({ kind: 'positioner', sample: { timeS: 0, cmdX: 0, cmdY: 1, measX: 0.01, measY: 1 } });
   for (let i = 0; i <= seconds * 10; i++) {
     const t = i / 10;
     r.record({ kind: 'detection', detection: { timeS: t, azimuthRad: 1, rangeM: 2, amplitude: 3 } });
@@ -38,10 +40,10 @@ describe('listSessions', () => {
     const list = await listSessions([a, b, join(root, 'missing')]);
     for (const info of list) sessionInfoSchema.parse(info);
     expect(list.map((s) => s.name)).toEqual(['killed', 'clean-cmd']);
-    expect(list[1]).toMatchObject({ startUtc: '2026-12-02T01:00:00.000Z', durationS: 4, detections: 41, tracks: 3, hasCommanded: true });
+    expect(list[1]).toMatchObject({ startUtc: '2026-12-02T01:00:00.000Z', durationS: 4, detections: 41, tracks: 3, hasCommanded: true, closed: true });
     // The killed run has no summary line: its figures come from reading it, up to the last full line.
     expect(readFileSync(killed, 'utf8')).not.toContain('"k":"end"');
-    expect(list[0]).toMatchObject({ durationS: 2.5, detections: 26, tracks: 3, hasCommanded: false });
+    expect(list[0]).toMatchObject({ durationS: 2.5, detections: 26, tracks: 3, hasCommanded: false, closed: false });
   });
 
   it('a clean session read by scanning agrees with its summary', async () => {
@@ -51,7 +53,17 @@ describe('listSessions', () => {
     const list = await listSessions(b);
     const copy = list.find((s) => s.id === '20261202-010000-copy')!;
     const original = (await listSessions(a))[0];
-    expect({ ...copy, id: original.id }).toEqual(original);
+    expect(copy.closed).toBe(false);
+    expect({ ...copy, id: original.id, closed: true }).toEqual(original);
+  });
+
+  it('counts positioner commands as a commanded path, closed or cut off', async () => {
+    const c = join(root, 'c');
+    mkdirSync(c);
+    run(c, 'live-pos', '2026-12-02T03:00:00Z', 1, true);
+    run(c, 'live-pos-killed', '2026-12-02T04:00:00Z', 1, false);
+    const list = await listSessions(c);
+    expect(list.map((x) => [x.name, x.hasCommanded, x.closed])).toEqual([['live-pos-killed', true, false], ['live-pos', true, true]]);
   });
 
   it('follows a session that is still being recorded, reading on from where it stopped', async () => {
