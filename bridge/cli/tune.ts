@@ -47,6 +47,9 @@ async function body(o: Record<string, unknown>): Promise<number> {
     `process noise: ${JSON.stringify(r.filter)}`,
     `tuned:    ${describeNis(r.nisTuned)}`,
     `defaults: ${describeNis(r.nisDefault)}`,
+    // The tuned figure is measured on the run it was tuned on, so it is consistent by
+    // construction: only another run can confirm the profile.
+    `(the tuned NIS is measured on this same run; check the profile on another run: echotrail track --profile …, then compare)`,
   ];
   process.stdout.write(lines.join('\n') + '\n');
   const now = new Date().toISOString();
