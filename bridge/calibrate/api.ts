@@ -67,7 +67,7 @@ export type CalibrationRequest = z.infer<typeof requestSchema>;
 
 export type CalibrationResponse =
   | { ok: true; action: 'steps'; steps: string[] }
-  | { ok: true; action: 'offsets'; summary: Record<string, number>; reflectors: Record<string, number | string>[]; config: BenchConfig }
+  | { ok: true; action: 'offsets'; summary: Record<string, number>; reflectors: Record<string, number | string>[]; warnings: string[]; config: BenchConfig }
   | { ok: true; action: 'frame'; summary: Record<string, number>; config: BenchConfig }
   | { ok: true; action: 'tune'; summary: Record<string, number | string | boolean>; profile: unknown; warnings: string[]; config: BenchConfig }
   | { ok: true; action: 'nis-bounds'; lower: number; upper: number }
@@ -94,7 +94,7 @@ export function calibrationApi(request: unknown): CalibrationResponse {
         const config = req.config ?? defaultBenchConfig();
         const fit = fitRadarOffsets(req.positions, req.detections.map(toDetection), { fitScale: req.fitScale, gateRangeM: req.gateRangeM, gateAzimuthDeg: req.gateAzimuthDeg });
         const next = withCalibration(config, { radar: { ...config.radar, rangeOffsetM: fit.rangeOffsetM, rangeScale: fit.rangeScale, azimuthOffsetDeg: fit.azimuthOffsetRad / DEG } }, offsetsRecord(fit, req.measuredBy ?? 'dashboard', now, req.positions.length));
-        return { ok: true, action: 'offsets', summary: offsetsSummary(fit), reflectors: fit.reflectors.map((r) => ({ label: r.label, trueRangeM: r.trueRangeM, trueAzimuthDeg: r.trueAzimuthRad / DEG, detections: r.detections, meanRangeResidualM: r.meanRangeResidualM, stdRangeResidualM: r.stdRangeResidualM, meanAzimuthResidualDeg: r.meanAzimuthResidualRad / DEG, stdAzimuthResidualDeg: r.stdAzimuthResidualRad / DEG })), config: next };
+        return { ok: true, action: 'offsets', summary: offsetsSummary(fit), reflectors: fit.reflectors.map((r) => ({ label: r.label, trueRangeM: r.trueRangeM, trueAzimuthDeg: r.trueAzimuthRad / DEG, detections: r.detections, meanRangeResidualM: r.meanRangeResidualM, stdRangeResidualM: r.stdRangeResidualM, meanAzimuthResidualDeg: r.meanAzimuthResidualRad / DEG, stdAzimuthResidualDeg: r.stdAzimuthResidualRad / DEG })), warnings: fit.warnings, config: next };
       }
       case 'frame': {
         const config = req.config ?? defaultBenchConfig();

@@ -18,6 +18,11 @@ describe('calibrationApi', () => {
     const cfg = parseBenchConfig(res.config);
     expect(cfg.history[0]).toMatchObject({ kind: 'offsets', measuredBy: 'panel test' });
     expect(cfg.radar.azimuthOffsetDeg).toBe(res.summary.azimuthOffsetDeg);
+    // The panel shows the fit's warnings: none for three good spots, one for a mis-entered spot.
+    expect(res.warnings).toEqual([]);
+    const wrong = calibrationApi({ action: 'offsets', positions: [{ x: 0.5, y: 1.5, label: 'A' }, { x: -1.3, y: 3, label: 'B' }, { x: 1.2, y: 4.8 }], detections: wire(tape.detections) });
+    if (!wrong.ok || wrong.action !== 'offsets') throw new Error(JSON.stringify(wrong));
+    expect(wrong.warnings.some((w) => w.startsWith('spot B:'))).toBe(true);
   });
 
   it('frame and tune, chained through the returned config', () => {
