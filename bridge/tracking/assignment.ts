@@ -36,6 +36,7 @@ export function assign(pairs: readonly GatedPair[] | GatedPair[], missCost: (tra
   const miss: number[] = [];
   let nDet = 0;
   const keep: number[] = [];
+  const rowOfPair = new Int32Array(pairs.length);
   for (let k = 0; k < pairs.length; k++) {
     const p = pairs[k];
     let r = rowOf.get(p.track);
@@ -45,20 +46,21 @@ export function assign(pairs: readonly GatedPair[] | GatedPair[], missCost: (tra
       tracks.push(p.track);
       miss.push(missCost(p.track));
     }
+    rowOfPair[k] = r;
     if (p.cost > miss[r]) continue;
     keep.push(k);
     if (p.det >= nDet) nDet = p.det + 1;
   }
   const rows = tracks.length;
   const rowStart = new Int32Array(rows + 1);
-  for (const k of keep) rowStart[rowOf.get(pairs[k].track)! + 1]++;
+  for (const k of keep) rowStart[rowOfPair[k] + 1]++;
   for (let r = 0; r < rows; r++) rowStart[r + 1] += rowStart[r];
   const fill = rowStart.slice(0, rows);
   const edgeCol = new Int32Array(keep.length);
   const edgeCost = new Float64Array(keep.length);
   for (const k of keep) {
     const p = pairs[k];
-    const e = fill[rowOf.get(p.track)!]++;
+    const e = fill[rowOfPair[k]]++;
     edgeCol[e] = p.det;
     edgeCost[e] = p.cost;
   }

@@ -29,9 +29,7 @@ export interface IndexedTrack {
   readonly lastRMax: number;
   /** Its latest hits, the last one last (the speed bound starts there). */
   readonly recent: readonly Measurement[];
-  /** The disc written into the grid (kept here so that gating can test it cheaply). */
-  readonly reach: GateDisc;
-  /** Time up to which `reach` holds the gate, s. */
+  /** Time up to which its disc in the index holds its gate, s (written by the index). */
   reachUntilS: number;
 }
 
@@ -58,15 +56,15 @@ function farther(r: number): number {
 
 export class GateIndex<T extends IndexedTrack = IndexedTrack> {
   /**
-   * The grid holds slot numbers, not tracks, and each slot's disc is also kept packed here
-   * (x, y, r² in `discs`): a query tests every candidate the grid returns against its disc, and
+   * The grid holds slot numbers, not tracks, and each slot's disc is kept packed here
+   * (x, y, r in `discs`): a query tests every candidate the grid returns against its disc, and
    * reading those from one typed array instead of from each track object is what keeps a query
    * cheap when a detection's cell holds dozens of candidates (measured: 45 candidates per query
    * on the crowded benchmark, 10 of them inside their discs).
    */
   private readonly grid: SpatialGrid<number>;
   private discs = new Float64Array(3 * 256);
-  private bySlot: (T | undefined)[] = [];
+  private readonly bySlot: (T | undefined)[] = [];
   private readonly slotOf = new Map<T, number>();
   private readonly freeSlots: number[] = [];
   private readonly found: T[] = [];
@@ -114,15 +112,12 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
       d = this.disc(t, t0, t1, h, noise);
       if (k >= 4) break;
     }
-    t.reach.x = d.x;
-    t.reach.y = d.y;
-    t.reach.r = d.r;
     t.reachUntilS = t1;
     const slot = this.slotFor(t);
     const k = 3 * slot;
     this.discs[k] = d.x;
     this.discs[k + 1] = d.y;
-    this.discs[k + 2] = d.r * d.r;
+    this.discs[k + 2] = d.r;
     this.grid.set(slot, d.x, d.y, d.r);
     this.due.push(t1, t);
   }
@@ -192,6 +187,14 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
     this.freeSlots.push(slot);
   }
 
+  /** The disc the track is placed with (null if it is not in the index). */
+  discOf(t: T): GateDisc | null {
+    const slot = this.slotOf.get(t);
+    if (slot === undefined) return null;
+    const k = 3 * slot;
+    return { x: this.discs[k], y: this.discs[k + 1], r: this.discs[k + 2] };
+  }
+
   /** Tracks whose disc holds (x, y); the array is reused by the next call. */
   query(x: number, y: number): readonly T[] {
     const out = this.found;
@@ -202,7 +205,8 @@ export class GateIndex<T extends IndexedTrack = IndexedTrack> {
       const k = 3 * cand[i];
       const dx = x - discs[k];
       const dy = y - discs[k + 1];
-      if (dx * dx + dy * dy <= discs[k + 2]) out.push(this.bySlot[cand[i]]!);
+      const r = discs[k + 2];
+      if (dx * dx + dy * dy <= r * r) out.push(this.bySlot[cand[i]]!);
     }
     return out;
   }

@@ -4,7 +4,7 @@
  */
 import type { Detection, Measurement, TrackStatus, TrackUpdate } from '../types.ts';
 import { EchotrailError } from '../errors.ts';
-import { lambdaMax, mahalanobis2, type GateDisc, type TrackFilter } from './filter-types.ts';
+import { lambdaMax, mahalanobis2, type TrackFilter } from './filter-types.ts';
 import { MofN } from './m-of-n.ts';
 
 export interface DeletionOptions {
@@ -63,9 +63,7 @@ export class Track {
   lastMeasurement: Measurement | undefined;
   /** The latest hits, oldest first (at most RECENT_HITS), kept through coasts, for the left-behind test. */
   readonly recent: Measurement[] = [];
-  /** Disc the gate reaches until `reachUntilS` (kept by the tracker's gate index, gate-index.ts). */
-  readonly reach: GateDisc = { x: 0, y: 0, r: Infinity };
-  /** Until when `reach` holds the gate, s (see gate-index.ts). */
+  /** Until when its disc in the tracker's gate index holds its gate, s (see gate-index.ts). */
   reachUntilS = -Infinity;
   private readonly mofn: MofN;
   private ax: number;

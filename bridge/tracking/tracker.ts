@@ -261,17 +261,13 @@ export class Tracker implements TrackEngine {
       const last = ms[ms.length - 1];
       const times = ms.map((m) => m.timeS);
       const all = established.length && tentative.length ? established.concat(tentative) : established.length ? established : tentative;
-      const heldBefore = this.timesHeld;
-      const counts = dets.map((d) => heldBefore.get(d) ?? 0);
+      const counts = dets.map((d) => this.timesHeld.get(d) ?? 0);
       const h = heldBack(all, times, this.live, this.waiting, now, Math.atan2(last.x, last.y), gamma, interval, MAX_WAIT_REVOLUTIONS * interval, counts);
       let any = false;
       for (let j = 0; j < h.length; j++) {
-        if (Number.isNaN(h[j])) {
-          if (counts[j]) heldBefore.delete(dets[j]);
-          continue;
-        }
+        if (Number.isNaN(h[j])) continue;
         any = true;
-        heldBefore.set(dets[j], counts[j] + 1);
+        this.timesHeld.set(dets[j], counts[j] + 1);
         this.pool.push(dets[j], h[j]);
       }
       if (any) {
@@ -281,6 +277,9 @@ export class Tracker implements TrackEngine {
         tentative = tentative.filter((p) => Number.isNaN(h[p.det]));
       }
     }
+    // Detections decided now leave the hold counts, whatever path brought them here (a released
+    // detection whose tracks are gone has no pairs and never reaches heldBack).
+    if (this.timesHeld.size) for (let j = 0; j < dets.length; j++) if (!held || Number.isNaN(held[j])) this.timesHeld.delete(dets[j]);
     const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
     const hitNow = new Set<number>();
     const miss = (id: number) => missCost.get(id)!;

@@ -1,10 +1,9 @@
 /**
  * Clusters of gated pairs: tracks and detections linked by gates, found with a disjoint-set
- * forest (union by size, path halving) over dense indices in typed arrays. Each cluster's
- * assignment is solved on its own small cost matrix (assignment.ts), and a contested cluster waits
- * for the beam as a whole (sweep-deferral.ts).
+ * forest (union by size, path halving) over dense indices in typed arrays. A contested cluster
+ * waits for the beam as a whole (sweep-deferral.ts).
  *
- * Why dense indices: a batch has a few thousand pairs and this runs once or twice per batch, so
+ * Why dense indices: a batch has a few thousand pairs and this runs for every batch held back, so
  * the keyed maps of a general union-find were a tenth of the tracker's time.
  */
 
@@ -18,8 +17,6 @@ export interface PairClusters {
   /** Cluster of each pair, 0..count−1, numbered in order of first appearance. */
   label: Int32Array;
   count: number;
-  /** Pairs in each cluster. */
-  size: Int32Array;
   /** Local index of each pair's track, 0..tracks.length−1. */
   trackIndex: Int32Array;
   /** Track id of each local index, in order of first appearance. */
@@ -74,19 +71,5 @@ export function clusterPairs(pairs: readonly PairLink[], nDet: number): PairClus
     if (labelOf[r] < 0) labelOf[r] = count++;
     label[i] = labelOf[r];
   }
-  const size = new Int32Array(count);
-  for (let i = 0; i < n; i++) size[label[i]]++;
-  return { label, count, size, trackIndex, tracks };
-}
-
-/** The pairs of each cluster, as index lists into `pairs` in their original order. */
-export function pairsByCluster(c: PairClusters): Int32Array[] {
-  const out: Int32Array[] = [];
-  for (let k = 0; k < c.count; k++) out.push(new Int32Array(c.size[k]));
-  const fill = new Int32Array(c.count);
-  for (let i = 0; i < c.label.length; i++) {
-    const k = c.label[i];
-    out[k][fill[k]++] = i;
-  }
-  return out;
+  return { label, count, trackIndex, tracks };
 }

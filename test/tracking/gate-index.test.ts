@@ -17,7 +17,7 @@ const meas = (t: number, r: number, theta: number): Measurement => convertUnbias
 const noise = (r: number) => noiseAtRange(r, SIGMAS);
 
 function track(id: number, m: Measurement, filter: IndexedTrack['filter']): IndexedTrack {
-  return { id, filter, lastRMax: lambdaMax(m.rxx, m.rxy, m.ryy), recent: [m], reach: { x: 0, y: 0, r: Infinity }, reachUntilS: -Infinity };
+  return { id, filter, lastRMax: lambdaMax(m.rxx, m.rxy, m.ryy), recent: [m], reachUntilS: -Infinity };
 }
 
 /** What gating.ts admits: the speed bound from the last hit and the χ² gate. */
@@ -65,7 +65,8 @@ describe('GateIndex', () => {
         for (const t of live.values()) {
           if (!admits(t, m)) continue;
           admitted++;
-          const inDisc = Math.hypot(m.x - t.reach.x, m.y - t.reach.y) <= t.reach.r;
+          const d = index.discOf(t)!;
+          const inDisc = Math.hypot(m.x - d.x, m.y - d.y) <= d.r;
           if (!found.has(t) || !inDisc) missed.push(`track ${t.id} at ${now} s: (${m.x.toFixed(2)}, ${m.y.toFixed(2)})`);
         }
       }
@@ -83,10 +84,11 @@ describe('GateIndex', () => {
     // 1.5 m/s for 10 s plus 3σ of two detections' noise: the last hit's and that of a detection
     // at the disc's far edge (the disc is centred on the last hit), which it must cover.
     const bound = (far: number) => MAX_SPEED * 10 + 3 * Math.sqrt(Math.max(m0.rxx, m0.ryy) + noise(far));
-    const edge = Math.hypot(m0.x, m0.y) + t.reach.r;
-    expect(t.reach.r).toBeGreaterThanOrEqual(bound(edge));
-    expect(t.reach.r).toBeLessThanOrEqual(bound(2 * edge));
-    expect(t.reach.x).toBe(m0.x);
+    const d = index.discOf(t)!;
+    const edge = Math.hypot(m0.x, m0.y) + d.r;
+    expect(d.r).toBeGreaterThanOrEqual(bound(edge));
+    expect(d.r).toBeLessThanOrEqual(bound(2 * edge));
+    expect(d.x).toBe(m0.x);
     expect(t.reachUntilS).toBe(10);
   });
 
