@@ -84,8 +84,6 @@ function lagNote(ci: LagInterval | null): string {
 
 /** Run the subcommand; returns the exit code. */
 export async function run(argv: string[]): Promise<number> {
-  // `echotrail compare --help | head`: a closed pipe is not an error worth a stack trace.
-  if (process.stdout.listenerCount('error') === 0) process.stdout.on('error', (e: NodeJS.ErrnoException) => { if (e.code !== 'EPIPE') throw e; });
   const cmd = program().exitOverride().configureOutput({ writeErr: (s) => process.stderr.write(s) });
   let o: Parsed;
   try {

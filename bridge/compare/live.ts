@@ -14,7 +14,7 @@
  * dropped once no lookup can reach it (trimPath). rmseM, maxErrorM, alongTrackM and crossTrackM are
  * raw (track at t against command at t): what the operator sees; lagS is reported beside them.
  */
-import type { ComparisonFigures } from '../server/protocol.ts';
+import { DEFAULT_PATH_ID, POSITIONER_PATH_ID, type ComparisonFigures } from '../server/protocol.ts';
 import type { PositionerSample, TrackUpdate } from '../types.ts';
 import { deviationAt } from './deviation.ts';
 import { TrackFollower, type FollowOptions } from './follow.ts';
@@ -251,11 +251,6 @@ export class LiveComparison {
   }
 }
 
-/** Name of the path built from positioner samples (the line protocol's `pos` records carry no target). */
-export const POSITIONER_PATH = 'positioner';
-/** Name of a commanded path given without a target. */
-export const DEFAULT_PATH = 'commanded';
-
 /**
  * Several commanded paths at once, one per positioner or carriage (a session's `cmd` records
  * with a `target`): each path has its own LiveComparison, so each picks the track that follows
@@ -276,8 +271,8 @@ export class MultiPathComparison {
   constructor(private readonly options: Partial<LiveComparisonOptions> = {}) {}
 
   /** Set (or replace) the path of one target; `target` absent: the single default path. */
-  setCommanded(path: readonly PathPoint[] | TimedPath, target: string = DEFAULT_PATH): void {
-    if (!this.explicit) this.byPath.delete(POSITIONER_PATH);
+  setCommanded(path: readonly PathPoint[] | TimedPath, target: string = DEFAULT_PATH_ID): void {
+    if (!this.explicit) this.byPath.delete(POSITIONER_PATH_ID);
     this.explicit = true;
     this.comparisonOf(target).setCommanded(path);
   }
@@ -285,7 +280,7 @@ export class MultiPathComparison {
   /** Positioner samples build one path of their own, unless whole paths were given. */
   addPositioner(s: PositionerSample): void {
     if (this.explicit) return;
-    this.comparisonOf(POSITIONER_PATH).addPositioner(s);
+    this.comparisonOf(POSITIONER_PATH_ID).addPositioner(s);
   }
 
   /** The comparison of one path, made on first use. */

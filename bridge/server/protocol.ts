@@ -124,11 +124,17 @@ export const comparisonFigures = z.object({
   trackId: z.number().int().nullable(),
   /**
    * Which commanded path these figures are against, when the run commands several (one per
-   * positioner or carriage; 'positioner' for the path built from positioner records). Added
-   * within protocol 1, optional: absent means the one commanded path.
+   * positioner or carriage; POSITIONER_PATH_ID for the path built from positioner records,
+   * DEFAULT_PATH_ID for one given whole without a target). Added within protocol 1, optional:
+   * absent means the one commanded path.
    */
   pathId: z.string().optional(),
 });
+
+/** `pathId` of the path built from positioner samples (the line protocol's `pos` records carry no target). */
+export const POSITIONER_PATH_ID = 'positioner';
+/** `pathId` of a commanded path given without a target. */
+export const DEFAULT_PATH_ID = 'commanded';
 export type ComparisonFigures = z.infer<typeof comparisonFigures>;
 
 export const sessionInfo = z.object({

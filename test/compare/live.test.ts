@@ -1,8 +1,8 @@
 // The live figures must agree with the offline computation on the same data (deviation.ts,
 // lag.ts); RMSE definition common practice. Inputs: the seeded analytic run of bench-run.ts.
 import { describe, expect, it } from 'vitest';
-import { comparisonFigures } from '../../bridge/server/protocol.ts';
-import { LiveComparison, MultiPathComparison, POSITIONER_PATH } from '../../bridge/compare/live.ts';
+import { comparisonFigures, POSITIONER_PATH_ID } from '../../bridge/server/protocol.ts';
+import { LiveComparison, MultiPathComparison } from '../../bridge/compare/live.ts';
 import { deviations } from '../../bridge/compare/deviation.ts';
 import { sampleAt } from '../../bridge/compare/timed-path.ts';
 import type { TrackRow } from '../../bridge/compare/track-rows.ts';
@@ -194,9 +194,9 @@ describe('MultiPathComparison', () => {
   it('builds one path from positioner samples unless whole paths are given, and keeps it through a reset', () => {
     const live = new MultiPathComparison();
     for (let t = 0; t <= 2; t += 0.1) live.addPositioner({ timeS: t, cmdX: at(A, t).x, cmdY: at(A, t).y });
-    expect(live.paths).toEqual([POSITIONER_PATH]);
+    expect(live.paths).toEqual([POSITIONER_PATH_ID]);
     live.reset();
-    expect(live.paths).toEqual([POSITIONER_PATH]);
+    expect(live.paths).toEqual([POSITIONER_PATH_ID]);
     live.setCommanded(B, '2');
     live.addPositioner({ timeS: 3, cmdX: 0, cmdY: 3 });
     expect(live.paths).toEqual(['2']);

@@ -6,7 +6,7 @@
  * follows; otherwise there is no figure, and the reason is given instead of a distance to some
  * other carriage's path (the reviewer's "3.029 m against the first carriage's path").
  */
-import type { PathPointWire } from '../../../bridge/server/protocol.ts';
+import { DEFAULT_PATH_ID, POSITIONER_PATH_ID, type PathPointWire } from '../../../bridge/server/protocol.ts';
 import type { HistoryRing } from './ring.ts';
 import type { DashboardState } from './state.ts';
 import { commandedAt } from './path-error.ts';
@@ -16,10 +16,6 @@ export const MATCH_GATE_M = 1.0;
 /** Recent points judged. */
 const RECENT_POINTS = 12;
 
-/** The bridge's name for the path built from positioner records (compare/live.ts POSITIONER_PATH). */
-export const POSITIONER_PATH_ID = 'positioner';
-/** The bridge's name for a path given whole without a target (compare/live.ts DEFAULT_PATH). */
-const DEFAULT_PATH_ID = 'commanded';
 
 export interface PathMatch {
   /** The path's target ('' for a run's one unnamed path), or null when none matches. */
@@ -33,8 +29,8 @@ export interface PathMatch {
 
 /** How a path is named on screen: "commanded path" when it is the only one, else "path 2", "positioner path". */
 export function pathLabel(target: string, count: number): string {
-  if (count <= 1 || target === '' || target === 'commanded') return 'commanded path';
-  if (target === 'positioner') return 'positioner path';
+  if (count <= 1 || target === '' || target === DEFAULT_PATH_ID) return 'commanded path';
+  if (target === POSITIONER_PATH_ID) return 'positioner path';
   return `path ${target}`;
 }
 

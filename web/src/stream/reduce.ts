@@ -4,7 +4,7 @@
  */
 import type { ServerMessage, TrackWire } from '../../../bridge/server/protocol.ts';
 import type { HistoryRing } from './ring.ts';
-import { POSITIONER_PATH_ID } from './path-match.ts';
+import { POSITIONER_PATH_ID } from '../../../bridge/server/protocol.ts';
 import { extendPositionerPath } from './positioner-path.ts';
 import {
   type DashboardState, type StateLimits, defaultLimits, loadFlatHistory, newTrack, pruneDetections,
