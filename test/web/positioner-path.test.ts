@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { ServerMessage } from '../../bridge/server/protocol.ts';
 import { applyMessage } from '../../web/src/stream/reduce.ts';
-import { createState } from '../../web/src/stream/state.ts';
+import { createState, firstCommandedPath } from '../../web/src/stream/state.ts';
 import { matchPath } from '../../web/src/stream/path-match.ts';
 import { errorSeries } from '../../web/src/stream/path-error.ts';
 
@@ -46,7 +46,7 @@ describe('positioner-built commanded path', () => {
     applyMessage(s, snapshot([]));
     applyMessage(s, scan(1, { positioner: [pos(1), pos(1.01), pos(1.06)] }));
     expect(s.commandedPaths).toHaveLength(1);
-    expect(s.commanded.map((p) => p.timeS)).toEqual([1, 1.06]);
+    expect(firstCommandedPath(s).map((p) => p.timeS)).toEqual([1, 1.06]);
   });
 
   it('never extends a path given whole', () => {
@@ -56,7 +56,7 @@ describe('positioner-built commanded path', () => {
     applyMessage(s, { type: 'commanded', path: whole });
     const v = s.commandedVersion;
     applyMessage(s, scan(4));
-    expect(s.commanded.at(-1)!.timeS).toBe(3);
+    expect(firstCommandedPath(s).at(-1)!.timeS).toBe(3);
     expect(s.commandedVersion).toBe(v);
   });
 
@@ -65,7 +65,7 @@ describe('positioner-built commanded path', () => {
     applyMessage(s, snapshot([{ timeS: 0, x: 0, y: 2 }, { timeS: 3, x: 0.6, y: 2 }]));
     applyMessage(s, { type: 'comparison', figures: { ...fig, pathId: 'commanded' } });
     applyMessage(s, scan(4));
-    expect(s.commanded.at(-1)!.timeS).toBe(3);
+    expect(firstCommandedPath(s).at(-1)!.timeS).toBe(3);
     expect(matchPath(s, 3, s.tracks.get(3)!.history).how).toBe('followed');
   });
 });

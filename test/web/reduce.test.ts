@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { ServerMessage, TrackWire } from '../../bridge/server/protocol.ts';
 import { applyFrame } from '../../web/src/stream/client.ts';
 import { applyMessage } from '../../web/src/stream/reduce.ts';
-import { createState, defaultLimits, loadFlatHistory } from '../../web/src/stream/state.ts';
+import { createState, defaultLimits, firstCommandedPath, loadFlatHistory } from '../../web/src/stream/state.ts';
 import { HistoryRing } from '../../web/src/stream/ring.ts';
 import { trackRows } from '../../web/src/stream/sort.ts';
 
@@ -113,7 +113,7 @@ describe('applyMessage', () => {
     applyMessage(s, scan(1, [], { antennaAzimuthRad: 1.2, positioner: [{ timeS: 1, cmdX: 0.5, cmdY: 1 }] }));
     expect(s.comparison).toEqual(figures);
     expect(s.comparisonHistory).toHaveLength(1);
-    expect(s.commanded).toHaveLength(2);
+    expect(firstCommandedPath(s)).toHaveLength(2);
     expect(s.commandedVersion).toBe(1);
     expect(s.antennaAzimuthRad).toBe(1.2);
     expect(s.positioner?.cmdX).toBe(0.5);

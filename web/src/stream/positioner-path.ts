@@ -34,6 +34,5 @@ export function extendPositionerPath(state: DashboardState, samples: readonly Po
     changed = true;
   }
   if (path.length > POSITIONER_MAX_POINTS) path.splice(0, path.length - POSITIONER_MAX_POINTS);
-  if (changed) state.commanded = path;
   return changed;
 }

@@ -138,6 +138,5 @@ function setFixedEchoes(state: DashboardState, echoes: { x: number; y: number; a
 function setCommandedPaths(state: DashboardState, paths: DashboardState['commandedPaths']): void {
   if (paths.length === 0 && state.commandedPaths.length === 0) return;
   state.commandedPaths = paths;
-  state.commanded = paths[0]?.path ?? [];
   state.commandedVersion++;
 }

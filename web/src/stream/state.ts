@@ -38,8 +38,6 @@ export interface DashboardState {
   /** Recent detections, oldest first, capped by `detectionLimit`. */
   detections: DetectionDot[];
   fixedEchoes: FixedEchoDot[];
-  /** The first (or only) commanded path. */
-  commanded: PathPointWire[];
   /** Every commanded path, one per target ('' when the run has one path without a name), in arrival order. */
   commandedPaths: { target: string; path: PathPointWire[] }[];
   /**
@@ -96,11 +94,16 @@ export const defaultLimits: StateLimits = {
 export function createState(): DashboardState {
   return {
     connection: 'connecting', serverName: null, timeS: 0, source: null, tracks: new Map(),
-    detections: [], fixedEchoes: [], commanded: [], commandedPaths: [], commandedExplicit: false, antennaAzimuthRad: null, positioner: null,
+    detections: [], fixedEchoes: [], commandedPaths: [], commandedExplicit: false, antennaAzimuthRad: null, positioner: null,
     replay: null, comparison: null, comparisonHistory: [], comparisons: new Map(), sessions: [], lastError: null,
     invalidFrames: 0, lastInvalid: null, epoch: 0, fixedVersion: 0, commandedVersion: 0,
     capture: { active: false, detections: [], limit: 12_000 },
   };
+}
+
+/** The first (or only) commanded path; empty when there is none. */
+export function firstCommandedPath(state: Pick<DashboardState, 'commandedPaths'>): readonly PathPointWire[] {
+  return state.commandedPaths[0]?.path ?? [];
 }
 
 export function newTrack(wire: TrackWire, limits: StateLimits): TrackEntry {
