@@ -6,7 +6,7 @@
  */
 import { Command, InvalidArgumentError } from 'commander';
 import { parseOrExit } from './parse.ts';
-import { writeAtomically } from './atomic-file.ts';
+import { writeAtomically } from '../atomic-file.ts';
 import { reportError } from './report-error.ts';
 import { pathArg } from './user-dir.ts';
 import { CsvSink, COMMANDED_CSV_HEADER, TRUTH_CSV_HEADER, commandedCsvLine, truthCsvLine } from '../sim/csv-sink.ts';

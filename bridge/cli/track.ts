@@ -12,7 +12,7 @@ import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 import { Command, InvalidArgumentError } from 'commander';
 import { parseOrExit } from './parse.ts';
-import { writeAtomically } from './atomic-file.ts';
+import { writeAtomically } from '../atomic-file.ts';
 import { reportError } from './report-error.ts';
 import { pathArg } from './user-dir.ts';
 import { EchotrailError } from '../errors.ts';

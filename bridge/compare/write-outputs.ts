@@ -1,10 +1,11 @@
 /**
  * Writes the comparison's files into one folder: summary.json, the CSV series and report.html.
  * Every file is written under a temporary name first and the set renamed into place only when all
- * were written, so a failure (full disk, no permission) leaves the previous report whole.
+ * were written (atomic-file.ts), so a failure (full disk, no permission) leaves the previous report whole.
  */
-import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
+import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { writeAtomically } from '../atomic-file.ts';
 import { EchotrailError } from '../errors.ts';
 import type { Analysis } from './analyse.ts';
 import { renderReport, type ReportOptions } from './report/html.ts';
@@ -33,26 +34,15 @@ export async function writeOutputs(dir: string, a: Analysis, meta: SummaryMeta, 
     [OUTPUT_FILES.lag, lagCsv(a)],
     [OUTPUT_FILES.report, renderReport(a, meta, report)],
   ];
-  const tmp = (name: string) => join(dir, `.${name}.${process.pid}.tmp`);
-  try {
-    for (const [name, text] of files) {
+  const finals = files.map(([name]) => join(dir, name));
+  return writeAtomically(finals, async (tmps) => {
+    for (let i = 0; i < files.length; i++) {
       try {
-        await writeFile(tmp(name), text);
+        await writeFile(tmps[i], files[i][1]);
       } catch (err) {
-        throw new EchotrailError('E_PATH', `cannot write '${join(dir, name)}': ${(err as Error).message}`, { cause: err });
+        throw new EchotrailError('E_PATH', `cannot write '${finals[i]}': ${(err as Error).message}`, { cause: err });
       }
     }
-    const written: string[] = [];
-    for (const [name] of files) {
-      const p = join(dir, name);
-      await rename(tmp(name), p).catch((err: Error) => {
-        throw new EchotrailError('E_PATH', `cannot write '${p}': ${err.message}`, { cause: err });
-      });
-      written.push(p);
-    }
-    return written;
-  } finally {
-    // Left over only after a failure: renamed files are gone from these names.
-    await Promise.all(files.map(([name]) => rm(tmp(name), { force: true }).catch(() => undefined)));
-  }
+    return finals;
+  });
 }

@@ -6,7 +6,7 @@
 import { statSync } from 'node:fs';
 import { rename, rm } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
-import { EchotrailError } from '../errors.ts';
+import { EchotrailError } from './errors.ts';
 
 export interface AtomicFile {
   /** The final path. */

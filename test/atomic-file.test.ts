@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { atomicFile, writeAtomically } from '../../bridge/cli/atomic-file.ts';
-import { EchotrailError } from '../../bridge/errors.ts';
+import { atomicFile, writeAtomically } from '../bridge/atomic-file.ts';
+import { EchotrailError } from '../bridge/errors.ts';
 
 const dir = () => mkdtempSync(join(tmpdir(), 'echotrail-atomic-'));
 
