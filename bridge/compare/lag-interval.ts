@@ -20,7 +20,7 @@
  * (common practice), so a few hundred replicates cost less than the search itself.
  */
 import type { Point } from './geometry.ts';
-import { searchSamples, type LagOptions } from './lag.ts';
+import { inliersAt, searchSamples, type LagOptions } from './lag.ts';
 import { sampleAt, type TimedPath } from './timed-path.ts';
 import { mulberry32 } from '../sim/prng.ts';
 
@@ -74,10 +74,7 @@ export function lagInterval(path: TimedPath, all: readonly (Point & { timeS: num
   let samples = searchSamples(path, all, lag.maxLagS);
   // The same outlier rule as the estimate's second pass.
   if (Number.isFinite(lag.inlierM)) {
-    const inliers = samples.filter((s) => {
-      const c = sampleAt(path, s.timeS - lagS);
-      return Math.hypot(s.x - c.x, s.y - c.y) <= lag.inlierM;
-    });
+    const inliers = inliersAt(path, samples, lagS, lag.inlierM);
     if (inliers.length >= 10) samples = inliers;
   }
   const n = samples.length;

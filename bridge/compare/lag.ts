@@ -62,14 +62,18 @@ export function estimateLag(path: TimedPath, all: readonly (Point & { timeS: num
   const o = resolveLagOptions(options);
   const first = searchLag(path, all, o);
   if (!Number.isFinite(o.inlierM) || first.lagS === null) return first;
-  const lag = first.lagS;
-  const inliers = all.filter((s) => {
-    const c = sampleAt(path, s.timeS - lag);
-    return Math.hypot(s.x - c.x, s.y - c.y) <= o.inlierM;
-  });
+  const inliers = inliersAt(path, all, first.lagS, o.inlierM);
   if (inliers.length === all.length || inliers.length < 10) return first;
   const second = searchLag(path, inliers, o);
   return { ...second, rmsAtZeroM: first.rmsAtZeroM, outliers: all.length - inliers.length };
+}
+
+/** The samples within `inlierM` of the commanded point `lagS` earlier: the outlier rule of the second pass. */
+export function inliersAt<T extends Point & { timeS: number }>(path: TimedPath, samples: readonly T[], lagS: number, inlierM: number): T[] {
+  return samples.filter((s) => {
+    const c = sampleAt(path, s.timeS - lagS);
+    return Math.hypot(s.x - c.x, s.y - c.y) <= inlierM;
+  });
 }
 
 /**
