@@ -28,8 +28,8 @@ export interface SkipReport {
   rows: number;
   accepted: number;
   skipped: number;
-  /** The first skipped row: its 1-based line in the file and why. */
-  firstSkipped: { line: number; reason: string } | null;
+  /** The first skipped row: its 1-based line in the file and why (the head of skippedLines). */
+  readonly firstSkipped: { line: number; reason: string } | null;
   /** Skipped rows counted by kind of fault. */
   reasons: Map<string, number>;
   /**
@@ -142,15 +142,19 @@ function num(cell: string | undefined): number {
  */
 export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options?: DetectionsCsvOptions): DetectionsCsvReader {
   const opts = resolveDetectionsCsvOptions(options);
-  const report: SkipReport = { rows: 0, accepted: 0, skipped: 0, firstSkipped: null, reasons: new Map(), skippedLines: [] };
+  const kept: SkipReport['skippedLines'] = [];
+  const report: SkipReport = {
+    rows: 0, accepted: 0, skipped: 0, reasons: new Map(), skippedLines: kept,
+    get firstSkipped() {
+      return kept[0] ?? null;
+    },
+  };
   const name = typeof input === 'string' ? input : 'input';
-  const kept = report.skippedLines;
   const skip = (line: number, kind: string, detail: string) => {
     report.skipped++;
     report.reasons.set(kind, (report.reasons.get(kind) ?? 0) + 1);
-    // csv-parse reports malformed records as it parses ahead of us, so keep the earliest line.
-    if (!report.firstSkipped || line < report.firstSkipped.line) report.firstSkipped = { line, reason: detail };
-    // Insert in line order (the parser's reports can come early), keeping only the earliest ones.
+    // Insert in line order (csv-parse reports malformed records as it parses ahead of us, so they
+    // can come early), keeping only the earliest ones.
     if (kept.length <= SKIP_DETAIL_LIMIT || line < kept[kept.length - 1].line) {
       let i = kept.length;
       while (i > 0 && kept[i - 1].line > line) i--;
