@@ -10,9 +10,10 @@
  *   for the same file, against a naive writer (`toFixed` per cell, one `write()` per row) and
  *   against writing the already-formatted bytes in 64 kB pieces (the file system's floor);
  * - end to end: detections/s of the command's own code path (`run()` of bridge/cli/track.ts,
- *   in-process, so Node and tsx start-up are not counted), against the Tracker alone on the same
- *   detections in memory with the same options: the ratio is what file I/O costs on top of
- *   tracking. One spawned `node --import tsx bridge/cli/main.ts track` per file is also timed,
+ *   in-process, so Node and tsx start-up are not counted; files this size are read and written in
+ *   worker threads), against the same run with `--io-threads never` (everything in one thread),
+ *   and against the Tracker alone on the same detections in memory with the same options: the
+ *   last ratio is what file I/O still costs on top of tracking. One spawned `node --import tsx bridge/cli/main.ts track` per file is also timed,
  *   start-up included, for scale.
  *
  * Each figure is the best of a few runs after a warm-up, per second of wall time and, in
@@ -146,12 +147,12 @@ async function writeBytes(chunks: Buffer[], rows: number, path: string): Promise
 }
 
 /** `track` in-process through its exported run(), stderr captured (the inference lines). */
-async function trackInProcess(input: string, output: string): Promise<{ code: number; err: string }> {
+async function trackInProcess(input: string, output: string, ...extra: string[]): Promise<{ code: number; err: string }> {
   const write = process.stderr.write;
   let err = '';
   process.stderr.write = ((s: string | Uint8Array) => ((err += String(s)), true)) as typeof process.stderr.write;
   try {
-    return { code: await trackCommand(['--in', input, '--out', output, ...NOISE_ARGS]), err };
+    return { code: await trackCommand(['--in', input, '--out', output, ...NOISE_ARGS, ...extra]), err };
   } finally {
     process.stderr.write = write;
   }
@@ -243,8 +244,15 @@ async function bench(label: string, dets: Detection[], dir: string, prefix: numb
   // Same options, same rows out: the two figures time the same tracking work.
   const written = readFileSync(output, 'utf8').split('\n').length - 2;
   if (written !== updates.length) throw new Error(`track wrote ${written} rows, the Tracker alone made ${updates.length}`);
-  console.log(`  track  end to end, in-process run(): ${fig(e2e, 'det')}, ${e2e.ms.toFixed(0)} ms, ${said.trim().split('\n').length} stderr lines`);
-  console.log(`         baseline: the Tracker alone on the same detections in memory, ${fig(tr, 'det')}: track ${x(e2e, tr)}`);
+  const threaded = readFileSync(output);
+  const oneThread = await best(2, async () => {
+    const r = await trackInProcess(input, output, '--io-threads', 'never');
+    if (r.code !== 0) throw new Error(`track exited ${r.code}: ${r.err}`);
+    return dets.length;
+  });
+  if (!readFileSync(output).equals(threaded)) throw new Error('track wrote other bytes with --io-threads never');
+  console.log(`  track  end to end, in-process run() (reading and writing in worker threads): ${fig(e2e, 'det')}, ${e2e.ms.toFixed(0)} ms, ${said.trim().split('\n').length} stderr lines`);
+  console.log(`         baselines: all in one thread (--io-threads never) ${fig(oneThread, 'det')}: track ${x(e2e, oneThread)}; the Tracker alone on the same detections in memory, ${fig(tr, 'det')}: track ${x(e2e, tr)}`);
 
   const t0 = performance.now();
   const sp = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'bridge/cli/main.ts'), 'track', '--in', input, '--out', output, ...NOISE_ARGS], { cwd: root, encoding: 'utf8' });

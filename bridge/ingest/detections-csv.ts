@@ -132,6 +132,16 @@ function num(cell: string | undefined): number {
   return t !== cell ? decimal(t) : NaN;
 }
 
+/** A report of nothing read yet. */
+export function newSkipReport(): SkipReport {
+  return {
+    rows: 0, accepted: 0, skipped: 0, reasons: new Map(), skippedLines: [],
+    get firstSkipped() {
+      return this.skippedLines[0] ?? null;
+    },
+  };
+}
+
 /**
  * Reads a detections CSV from a path ('-' for stdin) or a stream.
  *
@@ -142,13 +152,8 @@ function num(cell: string | undefined): number {
  */
 export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options?: DetectionsCsvOptions): DetectionsCsvReader {
   const opts = resolveDetectionsCsvOptions(options);
-  const kept: SkipReport['skippedLines'] = [];
-  const report: SkipReport = {
-    rows: 0, accepted: 0, skipped: 0, reasons: new Map(), skippedLines: kept,
-    get firstSkipped() {
-      return kept[0] ?? null;
-    },
-  };
+  const report = newSkipReport();
+  const kept = report.skippedLines;
   const name = typeof input === 'string' ? input : 'input';
   const skip = (line: number, kind: string, detail: string) => {
     report.skipped++;

@@ -95,6 +95,29 @@ describe('echotrail track', () => {
     expect(rows(out).length).toBeGreaterThan(20);
   });
 
+  it('reads and writes in worker threads with the same output bytes and the same report as in one thread', async () => {
+    const lines = rows(good);
+    lines.splice(150, 0, '9.5,abc,3.0,10');
+    lines.splice(250, 0, '"broken,1,2');
+    const bad = join(dir, 'threads-bad.csv');
+    writeFileSync(bad, lines.join('\n') + '\n');
+    const one = await track(['--in', bad, '--out', join(dir, 'one.csv'), '--io-threads', 'never']);
+    const two = await track(['--in', bad, '--out', join(dir, 'two.csv'), '--io-threads', 'always']);
+    expect(one.code).toBe(0);
+    expect(two.code).toBe(0);
+    expect(readFileSync(join(dir, 'two.csv'), 'utf8')).toBe(readFileSync(join(dir, 'one.csv'), 'utf8'));
+    expect(two.err).toBe(one.err);
+    expect(two.err).toMatch(/2 rows skipped: first at line 151: /);
+
+    // Errors read the same too, and a failed threaded run leaves no file behind.
+    const empty = join(dir, 'threads-empty.csv');
+    writeFileSync(empty, '');
+    const failedOne = await track(['--in', empty, '--out', join(dir, 'never.csv'), '--io-threads', 'never']);
+    const failedTwo = await track(['--in', empty, '--out', join(dir, 'never.csv'), '--io-threads', 'always']);
+    expect(failedTwo).toEqual(failedOne);
+    expect(readdirSync(dir).filter((f) => f.includes('never.csv'))).toEqual([]);
+  });
+
   it('lists at most 20 further skipped rows, then how many more', async () => {
     const lines = rows(good);
     for (let k = 0; k < 30; k++) lines[100 + 5 * k] = 'garbage,1,2,3';
@@ -192,7 +215,7 @@ describe('echotrail track', () => {
     } finally {
       spy.mockRestore();
     }
-    for (const opt of ['--in', '--out', '--profile', '--sigma-range', '--sigma-azimuth', '--filter', '--gate-probability', '--confirm', '--no-fixed-echoes', '--interval']) {
+    for (const opt of ['--in', '--out', '--profile', '--sigma-range', '--sigma-azimuth', '--filter', '--gate-probability', '--confirm', '--no-fixed-echoes', '--interval', '--io-threads']) {
       expect(out).toContain(opt);
     }
     expect(out).toMatch(/\(default: 0\.99\)/);
