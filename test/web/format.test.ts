@@ -7,6 +7,9 @@ import {
 describe('formatting with units', () => {
   it('puts the unit on every number', () => {
     expect(formatMetres(2.345)).toBe('2.35 m');
+    // Coordinates left of or below the radar: the minus sign (U+2212), never a hyphen; no "−0.00".
+    expect(formatMetres(-1.5)).toBe('−1.50 m');
+    expect(formatMetres(-0.001)).toBe('0.00 m');
     expect(formatSpeed(0.6)).toBe('0.60 m/s');
     expect(formatMs(1.84)).toBe('1.8 ms');
     expect(formatMs(42.4)).toBe('42 ms');

@@ -21,8 +21,11 @@ export function normaliseDegrees(deg: number): number {
   return d >= 359.99995 || Object.is(d, -0) ? 0 : d;
 }
 
+/** Metres; a negative value (a coordinate) takes the minus sign, as every signed figure here does; "-0.00" reads "0.00". */
 export function formatMetres(m: number | null | undefined, digits = 2): string {
-  return ok(m) ? `${m.toFixed(digits)} m` : DASH;
+  if (!ok(m)) return DASH;
+  const text = Math.abs(m).toFixed(digits);
+  return m < 0 && Number(text) !== 0 ? `−${text} m` : `${text} m`;
 }
 
 /** Signed metres keep an explicit "+" so cross/along-track errors read unambiguously. */
