@@ -19,7 +19,7 @@ import { SeekGate } from './seek-gate.ts';
 import { LiveState } from './state.ts';
 import { SourceStats } from './source-stats.ts';
 import { ScanBatch, type ScanMessage } from './scan-batch.ts';
-import { rebuildAfterSeek } from './rebuild.ts';
+import { rebuildAfterSeek, rebuildComparison } from './rebuild.ts';
 import { recordTime as recordTimeOf } from '../session/record-time.ts';
 import { CLOCK_BACK_S } from '../ingest/clock-guard.ts';
 
@@ -65,6 +65,8 @@ export class Pipeline extends EventEmitter {
   private readonly recording: RecordingSlot;
   private readonly seek = new SeekGate();
   private comparison: LiveComparisonLike | null;
+  /** True from a session seek until its comparison is rebuilt: the figures meanwhile cover only the re-sent window. */
+  private comparisonStale = false;
   private readonly batch: ScanBatch;
   private readonly timers: NodeJS.Timeout[] = [];
   private lastReplayJson = '';
@@ -320,6 +322,7 @@ export class Pipeline extends EventEmitter {
     this.batch.hold();
     this.state.reset();
     this.comparison?.reset();
+    this.comparisonStale = !retrack && this.comparison !== null;
     this.fixedSignature = '';
     setImmediate(() => this.finishSeek(epoch, timeS, retrack).catch((err: unknown) => this.options.log(`seek to ${timeS} s: ${(err as Error).message}`)));
   }
@@ -331,14 +334,28 @@ export class Pipeline extends EventEmitter {
     if (retrack && src && isReplayControl(src)) {
       try {
         this.tracker = await this.options.createTracker();
-        await rebuildAfterSeek(src, this.tracker, this.state, timeS, () => !this.seek.isCurrent(epoch));
+        await rebuildAfterSeek(src, this.tracker, this.state, timeS, () => !this.seek.isCurrent(epoch), this.comparison);
       } catch (err) {
         // The replay goes on from the new position; only the picture before it is missing.
         this.options.log(`rebuilding state after seek to ${timeS} s: ${(err as Error).message}`);
       }
       if (!this.seek.isCurrent(epoch)) return;
       for (const [r, at] of this.seek.drain()) this.onRecord(r, at);
+    } else if (src && isReplayControl(src) && this.options.createComparison && typeof src.recordsUntil === 'function') {
+      // A session: its re-sent state (handled by now) rebuilt the picture but holds only the last
+      // window of track history, so the comparison is built again from the start of the run,
+      // while what the replay plays meanwhile waits in the queue (in time order after it).
+      this.seek.queueFromNow();
+      const fresh = this.options.createComparison();
+      try {
+        if (await rebuildComparison(src, fresh, timeS, () => !this.seek.isCurrent(epoch))) this.comparison = fresh;
+      } catch (err) {
+        this.options.log(`rebuilding the comparison after seek to ${timeS} s: ${(err as Error).message}`);
+      }
+      if (!this.seek.isCurrent(epoch)) return;
+      for (const [r, at] of this.seek.drain()) this.onRecord(r, at);
     }
+    this.comparisonStale = false;
     this.state.timeS = Math.max(this.state.timeS, timeS);
     this.batch.discard();
     this.batch.release();
@@ -359,7 +376,7 @@ export class Pipeline extends EventEmitter {
   private tickStatus(): void {
     if (this.tracker) this.setFixedEchoes(this.tracker.fixedEchoes());
     this.emitMessage({ type: 'source', source: this.stats.status() });
-    for (const figures of this.comparison?.figures() ?? []) this.emitMessage({ type: 'comparison', figures });
+    if (!this.comparisonStale) for (const figures of this.comparison?.figures() ?? []) this.emitMessage({ type: 'comparison', figures });
   }
 
   /** Sends the replay state when it changed (or always, after a control). */

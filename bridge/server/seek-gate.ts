@@ -27,6 +27,11 @@ export class SeekGate {
     return ++this.epoch;
   }
 
+  /** Starts queueing now, within the current seek (records already handled stay handled). */
+  queueFromNow(): void {
+    this.queue ??= [];
+  }
+
   isCurrent(epoch: number): boolean {
     return epoch === this.epoch;
   }

@@ -11,6 +11,8 @@ import { Recorder } from '../../bridge/session/recorder.ts';
 import { benchCsv, resolveBenchRunOptions, trackerOptionsFor } from '../helpers/bench-run.ts';
 import { trackAt } from '../helpers/scripted-source.ts';
 import { TestClient } from '../helpers/ws-client.ts';
+import { createLiveComparison } from '../../bridge/server/deps.ts';
+import type { SourceRecord } from '../../bridge/ingest/source.ts';
 
 let bridge: RunningBridge | null = null;
 const clients: TestClient[] = [];
@@ -119,6 +121,40 @@ describe('replay of a recorded session', () => {
     expect(m.figures.trackId).toBe(1);
     expect(m.figures.rmseM).toBeLessThan(1e-6);
     expect(Math.abs(m.figures.crossTrackM ?? 1)).toBeLessThan(1e-6);
+  });
+
+  it('after a seek, the running figures cover the run from its start, not only the re-sent window', async () => {
+    // 30 s along x = 0.2·t, y = 2: the track is 0.2 m off the line for its first 10 s, on it after.
+    const rec = new Recorder({ dir, name: 'offset', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T12:00:00Z') });
+    expect(rec.open()).toBe(true);
+    const records: SourceRecord[] = [{ kind: 'commanded', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 30, x: 6, y: 2 }] }];
+    for (let i = 0; i <= 300; i++) {
+      const t = i * 0.1;
+      records.push({ kind: 'detection', detection: { timeS: t, azimuthRad: 0.3, rangeM: 2.2, amplitude: 40 } });
+      records.push({ kind: 'track', update: trackAt(1, t, 0.2 * t, t < 10 ? 2.2 : 2) });
+    }
+    rec.record(records[0], 0);
+    for (const r of records.slice(1)) rec.record(r);
+    const file = rec.status().path as string;
+    rec.close();
+    // What playing the run through to 25 s gives: the whole run's figures, the offset included.
+    const through = createLiveComparison(() => undefined);
+    for (const r of records) {
+      if (r.kind === 'commanded') through.commanded(r.path, r.target);
+      if (r.kind === 'track' && r.update.timeS <= 25) through.update(r.update);
+    }
+    const [expected] = through.figures();
+    expect(expected.rmseM).toBeGreaterThan(0.1);
+
+    bridge = await startBridge({ port: 0, replay: file, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 25 });
+    await c.next('snapshot', (x) => x.replay?.positionS === 25);
+    const m = await c.next('comparison', (x) => x.figures.samples > 0);
+    // The re-sent window (the last 10 s) alone would give 100 samples and an RMSE of 0.
+    expect(m.figures.samples).toBe(expected.samples);
+    expect(m.figures.rmseM).toBeCloseTo(expected.rmseM!, 9);
+    expect(m.figures.maxErrorM).toBeCloseTo(0.2, 9);
   });
 
   it('a list of sessions (the demo) keeps the speed chosen on the dashboard when it moves on, and says where it is', async () => {
