@@ -22,7 +22,8 @@
  *   offsets    → { ok, action, summary: { rangeOffsetM, rangeOffsetSeM, rangeScale, rangeScaleSe,
  *                 azimuthOffsetDeg, azimuthOffsetSeDeg, sigmaRangeM, sigmaAzimuthDeg, detectionsUsed },
  *                 reflectors: [{ label, trueRangeM, trueAzimuthDeg, detections, meanRangeResidualM,
- *                 stdRangeResidualM, meanAzimuthResidualDeg, stdAzimuthResidualDeg }], config }
+ *                 stdRangeResidualM, meanAzimuthResidualDeg, stdAzimuthResidualDeg, rangeBeyondNoise,
+ *                 azimuthBeyondNoise }], warnings: string[], config }
  *   frame      → { ok, action, summary: { rotationDeg, rotationSeDeg, translationXM, translationYM,
  *                 translationSeXM, translationSeYM, rmsM, maxM, pairs, candidates }, config }
  *   tune       → { ok, action, summary: { samples, sigmaRangeM, sigmaAzimuthDeg, rangeBiasM,
@@ -40,7 +41,7 @@ import { benchConfigSchema, correctDetection, defaultBenchConfig, withCalibratio
 import { alignFrame } from './frame-align.ts';
 import { nisBounds } from './nis.ts';
 import { tuneNoise } from './noise-tuning.ts';
-import { fitRadarOffsets } from './offsets.ts';
+import { fitRadarOffsets, spotBeyondNoise, type ReflectorResidual } from './offsets.ts';
 import { tunedProfile } from './profile-out.ts';
 import { GUIDE_STEPS, frameRecord, offsetsRecord, offsetsSummary, frameSummary, noiseRecord } from './report.ts';
 
@@ -67,11 +68,22 @@ export type CalibrationRequest = z.infer<typeof requestSchema>;
 
 export type CalibrationResponse =
   | { ok: true; action: 'steps'; steps: string[] }
-  | { ok: true; action: 'offsets'; summary: Record<string, number>; reflectors: Record<string, number | string>[]; warnings: string[]; config: BenchConfig }
+  | { ok: true; action: 'offsets'; summary: Record<string, number>; reflectors: Record<string, number | string | boolean>[]; warnings: string[]; config: BenchConfig }
   | { ok: true; action: 'frame'; summary: Record<string, number>; config: BenchConfig }
   | { ok: true; action: 'tune'; summary: Record<string, number | string | boolean>; profile: unknown; warnings: string[]; config: BenchConfig }
   | { ok: true; action: 'nis-bounds'; lower: number; upper: number }
   | { ok: false; code: string; message: string };
+
+/** One spot's residuals for the answer, degrees at this edge, with the verdicts of offsetWarnings. */
+function reflectorRow(r: ReflectorResidual): Record<string, number | string | boolean> {
+  const beyond = spotBeyondNoise(r);
+  return {
+    label: r.label, trueRangeM: r.trueRangeM, trueAzimuthDeg: r.trueAzimuthRad / DEG, detections: r.detections,
+    meanRangeResidualM: r.meanRangeResidualM, stdRangeResidualM: r.stdRangeResidualM,
+    meanAzimuthResidualDeg: r.meanAzimuthResidualRad / DEG, stdAzimuthResidualDeg: r.stdAzimuthResidualRad / DEG,
+    rangeBeyondNoise: beyond.range, azimuthBeyondNoise: beyond.azimuth,
+  };
+}
 
 const toDetection = (d: z.infer<typeof det>): Detection => ({ timeS: d.timeS, azimuthRad: ((((d.azimuthDeg % 360) + 360) % 360) * DEG) % (2 * Math.PI), rangeM: d.rangeM, amplitude: d.amplitude ?? 1 });
 const sorted = (v: Detection[]) => [...v].sort((a, b) => a.timeS - b.timeS);
@@ -94,7 +106,7 @@ export function calibrationApi(request: unknown): CalibrationResponse {
         const config = req.config ?? defaultBenchConfig();
         const fit = fitRadarOffsets(req.positions, req.detections.map(toDetection), { fitScale: req.fitScale, gateRangeM: req.gateRangeM, gateAzimuthDeg: req.gateAzimuthDeg });
         const next = withCalibration(config, { radar: { ...config.radar, rangeOffsetM: fit.rangeOffsetM, rangeScale: fit.rangeScale, azimuthOffsetDeg: fit.azimuthOffsetRad / DEG } }, offsetsRecord(fit, req.measuredBy ?? 'dashboard', now, req.positions.length));
-        return { ok: true, action: 'offsets', summary: offsetsSummary(fit), reflectors: fit.reflectors.map((r) => ({ label: r.label, trueRangeM: r.trueRangeM, trueAzimuthDeg: r.trueAzimuthRad / DEG, detections: r.detections, meanRangeResidualM: r.meanRangeResidualM, stdRangeResidualM: r.stdRangeResidualM, meanAzimuthResidualDeg: r.meanAzimuthResidualRad / DEG, stdAzimuthResidualDeg: r.stdAzimuthResidualRad / DEG })), warnings: fit.warnings, config: next };
+        return { ok: true, action: 'offsets', summary: offsetsSummary(fit), reflectors: fit.reflectors.map(reflectorRow), warnings: fit.warnings, config: next };
       }
       case 'frame': {
         const config = req.config ?? defaultBenchConfig();

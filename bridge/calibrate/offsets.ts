@@ -89,17 +89,27 @@ const SPOT_RANGE_FLOOR_M = 0.03;
 const SPOT_AZIMUTH_FLOOR_RAD = 0.5 * (Math.PI / 180);
 
 /**
- * Warnings for a fit: each spot's mean residual against 3 standard errors of its own detections
- * (and a floor for ordinary tape error), and the redundancy left to check the fit with.
+ * Whether a spot's mean residuals lie beyond 3 standard errors of its own detections (and a floor
+ * for ordinary tape error): a mis-measured or mislabelled position.
+ */
+export function spotBeyondNoise(r: ReflectorResidual): { range: boolean; azimuth: boolean } {
+  const k = 3 / Math.sqrt(Math.max(r.detections, 1));
+  return {
+    range: Math.abs(r.meanRangeResidualM) > Math.max(k * r.stdRangeResidualM, SPOT_RANGE_FLOOR_M),
+    azimuth: Math.abs(r.meanAzimuthResidualRad) > Math.max(k * r.stdAzimuthResidualRad, SPOT_AZIMUTH_FLOOR_RAD),
+  };
+}
+
+/**
+ * Warnings for a fit: each spot beyond its noise (spotBeyondNoise), and the redundancy left to
+ * check the fit with.
  */
 export function offsetWarnings(reflectors: readonly ReflectorResidual[], scaleFitted: boolean): string[] {
   const out: string[] = [];
   for (const r of reflectors) {
-    const k = 3 / Math.sqrt(Math.max(r.detections, 1));
-    const dr = r.meanRangeResidualM;
-    const da = r.meanAzimuthResidualRad;
-    if (Math.abs(dr) > Math.max(k * r.stdRangeResidualM, SPOT_RANGE_FLOOR_M)) out.push(`spot ${r.label}: mean range residual ${(dr * 1000).toFixed(0)} mm, beyond its noise: check its tape-measured position and label`);
-    if (Math.abs(da) > Math.max(k * r.stdAzimuthResidualRad, SPOT_AZIMUTH_FLOOR_RAD)) out.push(`spot ${r.label}: mean azimuth residual ${(da / DEG).toFixed(2)}°, beyond its noise: check its tape-measured position and label`);
+    const beyond = spotBeyondNoise(r);
+    if (beyond.range) out.push(`spot ${r.label}: mean range residual ${(r.meanRangeResidualM * 1000).toFixed(0)} mm, beyond its noise: check its tape-measured position and label`);
+    if (beyond.azimuth) out.push(`spot ${r.label}: mean azimuth residual ${(r.meanAzimuthResidualRad / DEG).toFixed(2)}°, beyond its noise: check its tape-measured position and label`);
   }
   const distances = new Set(reflectors.map((r) => r.trueRangeM.toFixed(2))).size;
   if (reflectors.length < 2) out.push('one spot fits the offsets exactly and cannot check them: measure at two or more spots');
@@ -175,6 +185,10 @@ export function fitRadarOffsets(positions: ReflectorPosition[], detections: Iter
     sigmaAzimuthRad: Math.sqrt(azFit.sigma2),
     reflectors,
     detectionsUsed: all.length,
-    warnings: offsetWarnings(reflectors, scaleFitted),
+    warnings: [
+      ...offsetWarnings(reflectors, scaleFitted),
+      // Auto mode left the scale out: say so, or the scale of 1 reads as a measured one.
+      ...(o.fitScale === 'auto' && !scaleFitted && reflectors.length > 1 ? [`range scale not fitted (held at 1): the spots' distances span ${(span * 100).toFixed(0)} cm, less than ${(o.minScaleSpanM * 100).toFixed(0)} cm; add a spot at another distance to fit it`] : []),
+    ],
   };
 }

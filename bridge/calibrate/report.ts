@@ -18,9 +18,10 @@ export const GUIDE_STEPS: string[] = [
   'Tuning: with offsets and frame in place, tune on a run with manoeuvres like the ones you will test; the profile makes the tracker consistent (mean NIS inside its bounds).',
 ];
 
+/** The fit's figures; a scale held at 1 has no standard error to show (it was not measured). */
 export function offsetsSummary(f: OffsetFit): Record<string, number> {
   return {
-    rangeOffsetM: f.rangeOffsetM, rangeOffsetSeM: f.rangeOffsetSeM, rangeScale: f.rangeScale, rangeScaleSe: f.rangeScaleSe,
+    rangeOffsetM: f.rangeOffsetM, rangeOffsetSeM: f.rangeOffsetSeM, rangeScale: f.rangeScale, ...(f.scaleFitted ? { rangeScaleSe: f.rangeScaleSe } : {}),
     azimuthOffsetDeg: f.azimuthOffsetRad / DEG, azimuthOffsetSeDeg: f.azimuthOffsetSeRad / DEG,
     sigmaRangeM: f.sigmaRangeM, sigmaAzimuthDeg: f.sigmaAzimuthRad / DEG, detectionsUsed: f.detectionsUsed,
   };

@@ -23,6 +23,11 @@ describe('calibrationApi', () => {
     const wrong = calibrationApi({ action: 'offsets', positions: [{ x: 0.5, y: 1.5, label: 'A' }, { x: -1.3, y: 3, label: 'B' }, { x: 1.2, y: 4.8 }], detections: wire(tape.detections) });
     if (!wrong.ok || wrong.action !== 'offsets') throw new Error(JSON.stringify(wrong));
     expect(wrong.warnings.some((w) => w.startsWith('spot B:'))).toBe(true);
+    // Each spot's row says whether it is beyond its noise, as the warnings do (the panel marks it).
+    expect(res.reflectors.map((r) => [r.rangeBeyondNoise, r.azimuthBeyondNoise])).toEqual([[false, false], [false, false], [false, false]]);
+    const b = wrong.reflectors.find((r) => r.label === 'B')!;
+    expect(b.rangeBeyondNoise || b.azimuthBeyondNoise).toBe(true);
+    expect(wrong.reflectors.filter((r) => r.rangeBeyondNoise || r.azimuthBeyondNoise).length).toBe(new Set(wrong.warnings.filter((w) => w.startsWith('spot ')).map((w) => w.split(':')[0])).size);
   });
 
   it('frame and tune, chained through the returned config', () => {

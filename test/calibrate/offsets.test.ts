@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { fitRadarOffsets, type ReflectorPosition } from '../../bridge/calibrate/offsets.ts';
 import { simulateRun } from '../../bridge/sim/run.ts';
 import type { ScenarioOptions } from '../../bridge/sim/scenario.ts';
+import { offsetsSummary } from '../../bridge/calibrate/report.ts';
 import { hasCode } from '../../bridge/errors.ts';
 
 const DEG = Math.PI / 180;
@@ -89,7 +90,12 @@ describe('fitRadarOffsets on a simulated bench', () => {
   it('reflectors at one distance but different azimuths give no scale either', () => {
     const ring = [{ x: 0, y: 3 }, { x: 3 * Math.sin(0.5), y: 3 * Math.cos(0.5) }];
     const dets = simulateRun(bench(3, { targets: ring.map((at) => ({ trajectory: { kind: 'static' as const, at } })) })).detections;
-    expect(fitRadarOffsets(ring, dets).scaleFitted).toBe(false);
+    const fit = fitRadarOffsets(ring, dets);
+    expect(fit.scaleFitted).toBe(false);
+    // Said, so that the scale of 1 is not read as a measured one; and no standard error is shown for it.
+    expect(fit.warnings).toContain("range scale not fitted (held at 1): the spots' distances span 0 cm, less than 50 cm; add a spot at another distance to fit it");
+    expect(offsetsSummary(fit)).not.toHaveProperty('rangeScaleSe');
+    expect(offsetsSummary(fitRadarOffsets(SPOTS, simulateRun(bench(4)).detections))).toHaveProperty('rangeScaleSe');
   });
 
   it('no detections near an entered position: a message naming it and the nearest detection', () => {

@@ -143,7 +143,8 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
     await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
     await page.keyboard.press(' ');
     await page.locator('[data-testid=source-status] [data-state="replay-playing"]').waitFor();
-    await page.waitForFunction(() => /([1-9]\d{2,}) detections/.test(document.querySelector('[data-testid=calibration]')?.textContent ?? ''), undefined, { timeout: 60_000 });
+    // Enough revolutions for the rail mounts to answer a dozen times each (fitted below).
+    await page.waitForFunction(() => /([3-9]\d{2}|\d{4,}) detections/.test(document.querySelector('[data-testid=calibration]')?.textContent ?? ''), undefined, { timeout: 60_000 });
     await dialog.getByRole('button', { name: '■ Stop capture' }).click();
     await dialog.getByLabel('x, metres').fill('2');
     await dialog.getByLabel('y, metres').fill('-2');
@@ -152,6 +153,28 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
     await refusal.waitFor();
     expect(await refusal.innerText()).toMatch(/^E_[A-Z_]+: .+/);
     expect(await page.locator('[data-testid=calibration-result]').count()).toBe(0);
+
+    // The two rail mounts of bay 3 (bridge/sim/scenarios.ts) as tape-measured spots: a fit, with
+    // one residual row per spot, each on the detections gated to it.
+    await dialog.getByLabel('Spot label').first().fill('mount west');
+    await dialog.getByLabel('x, metres').fill('-1.8');
+    await dialog.getByLabel('y, metres').fill('3.05');
+    await dialog.getByRole('button', { name: '+ Add spot' }).click();
+    await dialog.getByLabel('Spot label').nth(1).fill('mount east');
+    await dialog.getByLabel('x, metres').nth(1).fill('1.8');
+    await dialog.getByLabel('y, metres').nth(1).fill('3.05');
+    await dialog.getByRole('button', { name: 'Fit range / azimuth offsets' }).click();
+    await page.locator('[data-testid=calibration-result]').waitFor();
+    const spotRows = page.locator('[data-testid=calibration-spots] tbody tr');
+    expect(await spotRows.count()).toBe(2);
+    const west = (await spotRows.nth(0).locator('td').allInnerTexts()).map((t) => t.trim());
+    expect(west[0]).toBe('mount west');
+    expect(Number(west[1])).toBeGreaterThanOrEqual(5);
+    expect(west[2]).toMatch(/^[+−]\d+\.\d ± \d+\.\d mm/);
+    expect(west[3]).toMatch(/^[+−]\d+\.\d\d ± \d+\.\d\d°/);
+    // Both spots stand 3.5 m out: the panel says the scale was not fitted.
+    await dialog.locator('.warn', { hasText: 'range scale not fitted' }).waitFor();
+    await page.locator('[data-testid=calibration-spots]').scrollIntoViewIfNeeded();
     await page.screenshot({ path: join(artifacts, 'dashboard-e2e-calibration.png') });
     await page.keyboard.press('Escape');
   });

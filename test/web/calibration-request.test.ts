@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { calibrationAnswer, frameRequest, offsetsRequest, requestDetections, summaryRows } from '../../web/src/panels/calibration-request.ts';
+import { calibrationAnswer, frameRequest, offsetsRequest, requestDetections, spotRows, summaryRows } from '../../web/src/panels/calibration-request.ts';
 import { applyMessage } from '../../web/src/stream/reduce.ts';
 import { createState } from '../../web/src/stream/state.ts';
 
@@ -41,6 +41,21 @@ describe('calibration requests', () => {
       { label: 'some other m', value: '1.0000 m' },
       { label: 'verdict', value: 'consistent' },
     ]);
+  });
+});
+
+describe('per-spot residual table', () => {
+  it('shows mean ± std in mm and degrees with the minus sign, flags spots beyond their noise, skips malformed rows', () => {
+    const rows = spotRows([
+      { label: 'A', trueRangeM: 1.6, detections: 48, meanRangeResidualM: -0.0123, stdRangeResidualM: 0.0041, meanAzimuthResidualDeg: 0.034, stdAzimuthResidualDeg: 0.51, rangeBeyondNoise: false, azimuthBeyondNoise: false },
+      { label: 'B', detections: 40, meanRangeResidualM: 0.0002, stdRangeResidualM: 0.004, meanAzimuthResidualDeg: -2.6, stdAzimuthResidualDeg: 0.5, rangeBeyondNoise: false, azimuthBeyondNoise: true },
+      { label: 'C', detections: 'many' },
+    ]);
+    expect(rows).toEqual([
+      { label: 'A', detections: '48', range: '−12.3 ± 4.1 mm', azimuth: '+0.03 ± 0.51°', rangeFlagged: false, azimuthFlagged: false },
+      { label: 'B', detections: '40', range: '+0.2 ± 4.0 mm', azimuth: '−2.60 ± 0.50°', rangeFlagged: false, azimuthFlagged: true },
+    ]);
+    expect(spotRows(undefined)).toEqual([]);
   });
 });
 

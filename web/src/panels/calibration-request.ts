@@ -48,7 +48,7 @@ export const calibrationAnswer = z.union([
   z.object({
     ok: z.literal(true), action: z.enum(['offsets', 'frame', 'tune']),
     summary: z.record(z.string(), z.union([z.number(), z.string(), z.boolean()])),
-    reflectors: z.array(z.record(z.string(), z.union([z.number(), z.string()]))).optional(),
+    reflectors: z.array(z.record(z.string(), z.union([z.number(), z.string(), z.boolean()]))).optional(),
     warnings: z.array(z.string()).optional(),
     config: z.unknown(),
   }),
@@ -99,4 +99,49 @@ function withUnit(v: number, unit: 'm' | 'deg' | 'ratio' | 'count' | undefined):
   if (unit === 'deg') return `${v.toFixed(3)}°`;
   if (unit === 'ratio') return `${v.toFixed(5)} (×)`;
   return Number.isInteger(v) ? String(v) : v.toFixed(4);
+}
+
+/** One measured spot's residuals as the offsets answer gives them (bridge/calibrate/api.ts). */
+const spotResidual = z.object({
+  label: z.string(),
+  detections: z.number(),
+  meanRangeResidualM: z.number(),
+  stdRangeResidualM: z.number(),
+  meanAzimuthResidualDeg: z.number(),
+  stdAzimuthResidualDeg: z.number(),
+  rangeBeyondNoise: z.boolean().optional(),
+  azimuthBeyondNoise: z.boolean().optional(),
+});
+
+export interface SpotRow {
+  label: string;
+  detections: string;
+  /** Mean ± std of measured − fitted range, mm. */
+  range: string;
+  /** Mean ± std of measured − fitted azimuth, degrees. */
+  azimuth: string;
+  /** The fit found this spot's mean beyond its noise (a tape or label mistake). */
+  rangeFlagged: boolean;
+  azimuthFlagged: boolean;
+}
+
+const signed = (v: number, digits: number) => `${v < 0 && Number(Math.abs(v).toFixed(digits)) !== 0 ? '−' : '+'}${Math.abs(v).toFixed(digits)}`;
+
+/** The per-spot residual table of an offsets fit; entries that do not read as a spot are left out. */
+export function spotRows(reflectors: readonly Record<string, unknown>[] | undefined): SpotRow[] {
+  const rows: SpotRow[] = [];
+  for (const raw of reflectors ?? []) {
+    const r = spotResidual.safeParse(raw);
+    if (!r.success) continue;
+    const s = r.data;
+    rows.push({
+      label: s.label,
+      detections: String(s.detections),
+      range: `${signed(s.meanRangeResidualM * 1000, 1)} ± ${(s.stdRangeResidualM * 1000).toFixed(1)} mm`,
+      azimuth: `${signed(s.meanAzimuthResidualDeg, 2)} ± ${s.stdAzimuthResidualDeg.toFixed(2)}°`,
+      rangeFlagged: s.rangeBeyondNoise === true,
+      azimuthFlagged: s.azimuthBeyondNoise === true,
+    });
+  }
+  return rows;
 }
