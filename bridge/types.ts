@@ -122,6 +122,11 @@ export interface PositionerSample {
   /** Measured (encoder) position, when reported. */
   measX?: number;
   measY?: number;
+  /**
+   * Which positioner or carriage, on a bench with several (the same names as the commanded
+   * paths' targets); absent on a bench with one.
+   */
+  target?: string;
 }
 
 /** Antenna record: pointing direction at a time (also the heartbeat of the device). */

@@ -277,10 +277,14 @@ export class MultiPathComparison {
     this.comparisonOf(target).setCommanded(path);
   }
 
-  /** Positioner samples build one path of their own, unless whole paths were given. */
+  /**
+   * Positioner samples build paths of their own, one per named positioner (`target`, the same
+   * name a whole path of that carriage would have), unnamed ones POSITIONER_PATH_ID; unless whole
+   * paths were given.
+   */
   addPositioner(s: PositionerSample): void {
     if (this.explicit) return;
-    this.comparisonOf(POSITIONER_PATH_ID).addPositioner(s);
+    this.comparisonOf(s.target ?? POSITIONER_PATH_ID).addPositioner(s);
   }
 
   /** The comparison of one path, made on first use. */

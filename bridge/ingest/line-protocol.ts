@@ -4,7 +4,7 @@
  *
  *   det <t_s> <azimuth_deg> <range_m> <amplitude> [ph=<phase_deg>] [iq=<I>,<Q>]|<crc>
  *   ant <t_s> <azimuth_deg>|<crc>
- *   pos <t_s> <cmd_x_m> <cmd_y_m> [<meas_x_m> <meas_y_m>]|<crc>
+ *   pos <t_s> <cmd_x_m> <cmd_y_m> [<meas_x_m> <meas_y_m>] [id=<name>]|<crc>
  *
  * <crc> is CRC-16/CCITT-FALSE (crc16.ts) of every byte before the '|', as four hex digits.
  * parseLine never throws: anything it cannot vouch for comes back as a BadLine with a reason.
@@ -93,8 +93,20 @@ function parseAntenna(f: string[]): AntennaSample | string {
   return { timeS: v[0], azimuthRad: v[1] * DEG };
 }
 
-function parsePositioner(f: string[]): PositionerSample | string {
-  if (f.length !== 3 && f.length !== 5) return `pos takes 3 or 5 fields, got ${f.length}`;
+/** A positioner's name on the wire: what a session's commanded-path target may hold, without spaces. */
+export const POSITIONER_ID_RE = /^[A-Za-z0-9_.-]{1,32}$/;
+
+function parsePositioner(fields: string[]): PositionerSample | string {
+  // A trailing id= names the positioner (benches with several carriages).
+  let f = fields;
+  let target: string | undefined;
+  const last = f[f.length - 1];
+  if (last?.startsWith('id=')) {
+    target = last.slice(3);
+    if (!POSITIONER_ID_RE.test(target)) return `id '${target.slice(0, 40)}' must be 1–32 letters, digits, '_', '.' or '-'`;
+    f = f.slice(0, -1);
+  }
+  if (f.length !== 3 && f.length !== 5) return `pos takes 3 or 5 numbers (then optionally id=<name>), got ${f.length}`;
   const names = ['t_s', 'cmd_x_m', 'cmd_y_m', 'meas_x_m', 'meas_y_m'].slice(0, f.length);
   const v = nums(f, names);
   if (typeof v === 'string') return v;
@@ -104,6 +116,7 @@ function parsePositioner(f: string[]): PositionerSample | string {
     s.measX = v[3];
     s.measY = v[4];
   }
+  if (target !== undefined) s.target = target;
   return s;
 }
 
@@ -169,6 +182,7 @@ export function encodeLine(record: WireRecord, extras: EncodeExtras = {}): strin
     const s = record.sample;
     body = `pos ${s.timeS.toFixed(6)} ${s.cmdX.toFixed(4)} ${s.cmdY.toFixed(4)}`;
     if (s.measX !== undefined && s.measY !== undefined) body += ` ${s.measX.toFixed(4)} ${s.measY.toFixed(4)}`;
+    if (s.target !== undefined) body += ` id=${s.target}`;
   }
   return `${body}|${crcHex(crc16CcittFalse(body))}`;
 }

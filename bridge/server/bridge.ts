@@ -64,6 +64,7 @@ function positionerMapping(calibration: unknown): ((s: PositionerSample) => Posi
       out.measX = meas.x;
       out.measY = meas.y;
     }
+    if (s.target !== undefined) out.target = s.target;
     return out;
   };
 }

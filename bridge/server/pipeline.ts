@@ -415,6 +415,7 @@ export class Pipeline extends EventEmitter {
   snapshot(): SnapshotMessage {
     const s = this.state;
     const pending = this.batch.pendingDetections();
+    const paths = s.commandedPaths;
     return {
       type: 'snapshot',
       seq: this.batch.nextSeq,
@@ -425,7 +426,9 @@ export class Pipeline extends EventEmitter {
       detections: pending.size ? s.recentDetections().filter((d) => !pending.has(d)) : s.recentDetections(),
       fixedEchoes: s.fixedEchoes,
       commanded: s.commanded,
-      ...(s.commandedPaths.length > 1 ? { commandedPaths: s.commandedPaths } : {}),
+      // Several paths, or one named after its positioner: the client needs the names.
+      ...(paths.length > 1 || (paths.length === 1 && paths[0].target !== '') ? { commandedPaths: paths } : {}),
+      ...(s.commandedFrom ? { commandedFrom: s.commandedFrom } : {}),
       replay: this.replayState(),
     };
   }

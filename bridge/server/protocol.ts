@@ -69,6 +69,8 @@ export const positionerWire = z.object({
   cmdY: finite,
   measX: finite.optional(),
   measY: finite.optional(),
+  /** Which positioner or carriage, on a bench with several (the line protocol's `id=`). */
+  target: z.string().regex(/^[A-Za-z0-9_.-]{1,32}$/).optional(),
 });
 export type PositionerWire = z.infer<typeof positionerWire>;
 
@@ -131,7 +133,10 @@ export const comparisonFigures = z.object({
   pathId: z.string().optional(),
 });
 
-/** `pathId` of the path built from positioner samples (the line protocol's `pos` records carry no target). */
+/**
+ * `pathId` of the path built from unnamed positioner samples; samples that name their positioner
+ * (`pos … id=NAME`) build the path NAME, as a commanded path of that target would be named.
+ */
 export const POSITIONER_PATH_ID = 'positioner';
 /** `pathId` of a commanded path given without a target. */
 export const DEFAULT_PATH_ID = 'commanded';
@@ -172,6 +177,12 @@ export const serverMessage = z.discriminatedUnion('type', [
     commanded: z.array(pathPointWire),
     /** Every commanded path by target, when the run commands several (optional, within protocol 1). */
     commandedPaths: z.array(z.object({ target: z.string(), path: z.array(pathPointWire) })).optional(),
+    /**
+     * Where the paths come from (optional, within protocol 1): given whole (`commanded` messages,
+     * never extended), or built from positioner samples, which the scans' `positioner` samples
+     * extend, each by its `target`. Absent: no path yet, or a bridge that predates the field.
+     */
+    commandedFrom: z.enum(['whole', 'positioner']).optional(),
     replay: replayState.nullable(),
   }),
   z.object({

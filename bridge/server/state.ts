@@ -72,8 +72,11 @@ export class LiveState {
   private readonly commandedByTarget = new Map<string, PathPointWire[]>();
   /** True once the source sent a whole commanded path: positioner samples then no longer extend it. */
   private commandedExplicit = false;
-  /** Least time between kept positioner points; doubled each time the path hits its cap. */
-  private commandedStepS = COMMANDED_MIN_DT_S;
+  /**
+   * Paths built from positioner samples, by positioner ('' for unnamed samples), in the order
+   * they came, each with the least time between its kept points (doubled each time it hits the cap).
+   */
+  private readonly positionerPaths = new Map<string, { path: PathPointWire[]; stepS: number }>();
 
   constructor(options: Partial<LiveStateOptions> = {}) {
     this.options = resolveLiveStateOptions(options);
@@ -94,7 +97,7 @@ export class LiveState {
     this.commandedPath = [];
     this.commandedByTarget.clear();
     this.commandedExplicit = false;
-    this.commandedStepS = COMMANDED_MIN_DT_S;
+    this.positionerPaths.clear();
   }
 
   private advance(t: number): void {
@@ -139,19 +142,24 @@ export class LiveState {
     this.historyMap.delete(id);
   }
 
+  /** Extends the path of the sample's positioner (one per `target`), unless whole paths were given. */
   addPositioner(p: PositionerSample): void {
     this.advance(p.timeS);
     if (this.commandedExplicit) return;
-    const last = this.commandedPath[this.commandedPath.length - 1];
-    if (last && p.timeS - last.timeS < this.commandedStepS && p.timeS >= last.timeS) return;
-    this.commandedPath.push({ timeS: p.timeS, x: p.cmdX, y: p.cmdY });
-    if (this.commandedPath.length > this.options.maxCommandedPoints) {
+    const key = p.target ?? '';
+    let built = this.positionerPaths.get(key);
+    if (!built) this.positionerPaths.set(key, (built = { path: [], stepS: COMMANDED_MIN_DT_S }));
+    const last = built.path[built.path.length - 1];
+    if (last && p.timeS - last.timeS < built.stepS && p.timeS >= last.timeS) return;
+    built.path.push({ timeS: p.timeS, x: p.cmdX, y: p.cmdY });
+    if (built.path.length > this.options.maxCommandedPoints) {
       // Coarser everywhere rather than forget the start: the step doubles and the whole path is
       // thinned to it once, so old and new parts keep the same resolution (dropping every other
       // point instead would thin the start again at each overflow).
-      this.commandedStepS *= 2;
-      this.commandedPath = thinToStep(this.commandedPath, this.commandedStepS);
+      built.stepS *= 2;
+      built.path = thinToStep(built.path, built.stepS);
     }
+    if (this.positionerPaths.keys().next().value === key) this.commandedPath = built.path;
   }
 
   /**
@@ -159,7 +167,7 @@ export class LiveState {
    * the cap). The first target's path is also `commanded`, for clients that know only one.
    */
   setCommanded(path: PathPointWire[], target = ''): PathPointWire[] {
-    if (!this.commandedExplicit) this.commandedByTarget.clear();
+    if (!this.commandedExplicit) (this.commandedByTarget.clear(), this.positionerPaths.clear());
     this.commandedExplicit = true;
     const step = Math.ceil(path.length / this.options.maxCommandedPoints);
     const kept = step > 1 ? path.filter((_, i) => i % step === 0) : path.slice();
@@ -172,9 +180,15 @@ export class LiveState {
     return this.commandedPath;
   }
 
-  /** Every whole commanded path by target (empty when the path comes from positioner samples). */
+  /** Every commanded path by target: the whole ones given, else those built from positioner samples. */
   get commandedPaths(): { target: string; path: PathPointWire[] }[] {
+    if (!this.commandedExplicit) return [...this.positionerPaths].map(([target, built]) => ({ target, path: built.path }));
     return [...this.commandedByTarget].map(([target, path]) => ({ target, path }));
+  }
+
+  /** Where the paths come from: given whole, built from positioner samples, or none yet. */
+  get commandedFrom(): 'whole' | 'positioner' | null {
+    return this.commandedExplicit ? 'whole' : this.positionerPaths.size ? 'positioner' : null;
   }
 
   tracks(): TrackWire[] {

@@ -30,7 +30,7 @@ export const SESSION_UNITS = {
 export const RECORD_KINDS = {
   det: 'detection: timeS, azimuthRad, rangeM, amplitude, phaseRad?, line? (source line number)',
   ant: 'antenna pointing / heartbeat: timeS, azimuthRad',
-  pos: 'positioner: timeS, cmdX, cmdY (commanded), measX?, measY? (encoder)',
+  pos: 'positioner: timeS, cmdX, cmdY (commanded), measX?, measY? (encoder), target? (which positioner/carriage, when several)',
   trk: 'track update: timeS, id, status, x, y, vx, vy, speed, headingRad, pxx, pxy, pyy, quality, moving, hits, misses, startS? (when the track began), measurement?, nis?',
   del: 'track deletion: timeS, id, reason',
   fix: 'fixed-echo map snapshot: timeS, echoes[] of {x, y, rangeM, azimuthRad, seen, amplitude}',

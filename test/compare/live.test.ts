@@ -201,4 +201,20 @@ describe('MultiPathComparison', () => {
     live.addPositioner({ timeS: 3, cmdX: 0, cmdY: 3 });
     expect(live.paths).toEqual(['2']);
   });
+
+  it('named positioners (pos … id=) build a path each, under the names a whole path would have', () => {
+    const live = new MultiPathComparison();
+    for (let t = 0; t <= 8; t += 0.1) {
+      live.addPositioner({ timeS: t, cmdX: at(A, t).x, cmdY: at(A, t).y, target: '1' });
+      live.addPositioner({ timeS: t, cmdX: at(B, t).x, cmdY: at(B, t).y, target: '2' });
+      if (t >= 0.5) {
+        live.update(upd(5, t - 0.05, at(A, t - 0.05), 0.01));
+        live.update(upd(6, t - 0.05, at(B, t - 0.05), -0.03));
+      }
+    }
+    expect(live.paths).toEqual(['1', '2']);
+    const f = live.figures();
+    expect(f.map((x) => [x.pathId, x.trackId])).toEqual([['1', 5], ['2', 6]]);
+    expect(f[1].rmseM).toBeCloseTo(0.03, 2);
+  });
 });

@@ -54,6 +54,50 @@ describe.skipIf(!socatAvailable())('echotrail feed → serial → bridge → Web
   });
 });
 
+describe.skipIf(!socatAvailable())('echotrail feed of two carriages → serial → bridge → WebSocket', () => {
+  const dir = mkdtempSync(join(tmpdir(), 'et-feed-pair-'));
+  const pty = new PtyPair(dir);
+  let bridge: RunningBridge;
+  let feeder: ChildProcess;
+  const clients: TestClient[] = [];
+
+  beforeAll(async () => {
+    await pty.start();
+    bridge = await startBridge({ port: 0, sessionsDir: join(dir, 'sessions'), serial: { path: pty.device, baudRate: 115200 }, log: () => undefined });
+    const c = await TestClient.connect(bridge.wsUrl);
+    clients.push(c);
+    await c.next('source', (m) => m.source.state === 'live');
+    feeder = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'bridge/cli/main.ts'), 'feed', '--port', pty.hardware, '--scenario', 'crossing-pair', '--speed', '6'], { cwd: ROOT, stdio: ['ignore', 'ignore', 'pipe'] });
+  });
+
+  afterAll(async () => {
+    feeder?.kill('SIGINT');
+    await Promise.all(clients.map((c) => c.close()));
+    await bridge?.close();
+    await pty.stop();
+    rmSync(dir, { recursive: true, force: true });
+  });
+
+  it('each carriage names itself (pos … id=): a path and a comparison each, with its own track', async () => {
+    const c = clients[0];
+    const one = await c.next('comparison', (m) => m.figures.pathId === '1' && m.figures.samples > 5);
+    const two = await c.next('comparison', (m) => m.figures.pathId === '2' && m.figures.samples > 5);
+    expect(one.figures.trackId).not.toBe(two.figures.trackId);
+    // Each track follows its own carriage: within decimetres, not the metres between the two.
+    expect(one.figures.rmseM!).toBeLessThan(0.3);
+    expect(two.figures.rmseM!).toBeLessThan(0.3);
+    const targets = new Set(c.of('scan').flatMap((s) => s.positioner.map((p) => p.target)));
+    expect([...targets].sort()).toEqual(['1', '2']);
+    // A client that joins now gets both paths by name, marked as built from positioner samples.
+    const late = await TestClient.connect(bridge.wsUrl);
+    clients.push(late);
+    const snap = await late.next('snapshot');
+    expect(snap.commandedFrom).toBe('positioner');
+    expect(snap.commandedPaths?.map((p) => p.target)).toEqual(['1', '2']);
+    for (const p of snap.commandedPaths ?? []) expect(p.path.length).toBeGreaterThan(10);
+  });
+});
+
 describe.skipIf(!socatAvailable())('echotrail feed when the port goes away', () => {
   it('ends with one E_SERIAL line and exit code 1, not an unhandled error event', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'et-feed-lost-'));

@@ -111,7 +111,10 @@ describe('hostile lines are refused with a reason, never thrown', () => {
   it('missing fields, extra fields, values out of range', () => {
     expect(reason(withCrc('det 1 10 1'))).toMatch(/missing amplitude/);
     expect(reason(withCrc('ant 1'))).toMatch(/ant takes 2 fields/);
-    expect(reason(withCrc('pos 1 2 3 4'))).toMatch(/pos takes 3 or 5 fields/);
+    expect(reason(withCrc('pos 1 2 3 4'))).toMatch(/pos takes 3 or 5 numbers/);
+    expect(reason(withCrc('pos 1 2 3 4 id=2'))).toMatch(/pos takes 3 or 5 numbers \(then optionally id=<name>\), got 4/);
+    expect(reason(withCrc('pos 1 2 3 id='))).toMatch(/id '' must be 1–32 letters/);
+    expect(reason(withCrc('pos 1 2 3 id=a,b'))).toMatch(/id 'a,b' must be/);
     expect(reason(withCrc('det 1 360 1 1'))).toMatch(/outside \[0, 360\)/);
     expect(reason(withCrc('det -1 10 1 1'))).toMatch(/negative/);
     expect(reason(withCrc('det 1 10 1 0'))).toMatch(/not positive/);
@@ -121,6 +124,14 @@ describe('hostile lines are refused with a reason, never thrown', () => {
     expect(reason(withCrc('det 1 10 1 1 ph=1 iq=1,1'))).toMatch(/one of ph= or iq=/);
     expect(reason(withCrc('det 1 10 1 1 snr=3'))).toMatch(/unknown field/);
     expect(reason(withCrc('zap 1 2'))).toMatch(/unknown record type/);
+  });
+  it('names the positioner with id= on a bench with several, and only then', () => {
+    // The example of docs/line-protocol.md.
+    const r = parseLine('pos 12.350000 -0.8500 2.4000 -0.8512 2.3987 id=2|25EA', 1);
+    expect(r).toEqual({ ok: true, record: { kind: 'positioner', sample: { timeS: 12.35, cmdX: -0.85, cmdY: 2.4, measX: -0.8512, measY: 2.3987, target: '2' } } });
+    const plain = parseLine(encodeLine({ kind: 'positioner', sample: { timeS: 1, cmdX: 0, cmdY: 2, target: 'carriage-B' } }), 1);
+    expect(plain.ok && plain.record.kind === 'positioner' && plain.record.sample).toEqual({ timeS: 1, cmdX: 0, cmdY: 2, target: 'carriage-B' });
+    expect(encodeLine({ kind: 'positioner', sample: { timeS: 1, cmdX: 0, cmdY: 2 } })).not.toContain('id=');
   });
   it('cuts the echoed text to 200 characters', () => {
     const r = parseLine('y'.repeat(5000), 1);

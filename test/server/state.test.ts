@@ -75,6 +75,23 @@ describe('LiveState', () => {
     expect(s.commanded).toEqual([]);
   });
 
+  it('builds one path per named positioner, and says the paths come from positioner samples', () => {
+    const s = new LiveState();
+    expect(s.commandedFrom).toBeNull();
+    for (let i = 0; i < 20; i++) {
+      s.addPositioner({ timeS: i * 0.1, cmdX: -1 + i * 0.01, cmdY: 2, target: '1' });
+      s.addPositioner({ timeS: i * 0.1, cmdX: 1 - i * 0.01, cmdY: 2, target: '2' });
+    }
+    expect(s.commandedFrom).toBe('positioner');
+    expect(s.commandedPaths.map((p) => [p.target, p.path.length, p.path[p.path.length - 1].x])).toEqual([['1', 20, -0.81], ['2', 20, 0.81]]);
+    // The first positioner's path is also `commanded`, for clients that know only one.
+    expect(s.commanded).toBe(s.commandedPaths[0].path);
+    // Whole paths replace them.
+    s.setCommanded([{ timeS: 0, x: 0, y: 0 }, { timeS: 1, x: 1, y: 1 }], 'A');
+    expect(s.commandedFrom).toBe('whole');
+    expect(s.commandedPaths.map((p) => p.target)).toEqual(['A']);
+  });
+
   it('keeps the positioner path evenly spaced over a long run, start included', () => {
     const s = new LiveState({ maxCommandedPoints: 100 });
     // An hour at 20 Hz: the path hits its cap many times.

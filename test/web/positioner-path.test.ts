@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import type { ServerMessage } from '../../bridge/server/protocol.ts';
+import type { PositionerWire, ServerMessage } from '../../bridge/server/protocol.ts';
 import { applyMessage } from '../../web/src/stream/reduce.ts';
 import { createState, firstCommandedPath } from '../../web/src/stream/state.ts';
 import { matchPath } from '../../web/src/stream/path-match.ts';
 import { errorSeries } from '../../web/src/stream/path-error.ts';
+import { extendPositionerPath, POSITIONER_MIN_DT_S } from '../../web/src/stream/positioner-path.ts';
 
 type Scan = Extract<ServerMessage, { type: 'scan' }>;
 type Snapshot = Extract<ServerMessage, { type: 'snapshot' }>;
@@ -67,5 +68,49 @@ describe('positioner-built commanded path', () => {
     applyMessage(s, scan(4));
     expect(firstCommandedPath(s).at(-1)!.timeS).toBe(3);
     expect(matchPath(s, 3, s.tracks.get(3)!.history).how).toBe('followed');
+  });
+});
+
+const scanOf = (positioner: PositionerWire[]): ServerMessage => ({
+  type: 'scan', timeS: positioner[positioner.length - 1]?.timeS ?? 0, detections: [], updates: [], deletions: [], antennaAzimuthRad: null, positioner,
+});
+const sample = (timeS: number, x: number, target?: string): PositionerWire => ({ timeS, cmdX: x, cmdY: 2, ...(target ? { target } : {}) });
+
+describe('paths built from several named positioners', () => {
+  it('one unnamed positioner builds one unnamed path, samples closer than the minimum spacing left out', () => {
+    const s = createState();
+    expect(extendPositionerPath(s, [sample(0, 0), sample(0.01, 0.01), sample(0.1, 0.1)])).toBe(true);
+    expect(s.commandedPaths).toEqual([{ target: '', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 0.1, x: 0.1, y: 2 }] }]);
+    expect(POSITIONER_MIN_DT_S).toBeGreaterThan(0.01);
+  });
+
+  it('named positioners (two carriages) build a path each, under their names, and a ✕ each', () => {
+    const s = createState();
+    applyMessage(s, scanOf([sample(0, -1, '1'), sample(0, 1, '2')]));
+    applyMessage(s, scanOf([sample(0.1, -0.9, '1'), sample(0.1, 0.9, '2')]));
+    expect(s.commandedPaths.map((p) => [p.target, p.path.map((q) => q.x)])).toEqual([['1', [-1, -0.9]], ['2', [1, 0.9]]]);
+    expect([...s.positioners].map(([k, p]) => [k, p.cmdX])).toEqual([['1', -0.9], ['2', 0.9]]);
+    // Figures against carriage 2's path do not turn its path into one given whole.
+    applyMessage(s, { type: 'comparison', figures: { timeS: 0.1, samples: 3, rmseM: 0.02, crossTrackM: 0, alongTrackM: 0, maxErrorM: 0.03, lagS: null, trackId: 7, pathId: '2' } });
+    expect(s.commandedExplicit).toBe(false);
+    applyMessage(s, scanOf([sample(0.2, 0.8, '2')]));
+    expect(s.commandedPaths[1].path).toHaveLength(3);
+  });
+
+  it('a path given whole is never extended; a snapshot says which kind the paths are', () => {
+    const s = createState();
+    applyMessage(s, { type: 'commanded', path: [{ timeS: 0, x: 0, y: 1 }, { timeS: 5, x: 1, y: 1 }] });
+    expect(extendPositionerPath(s, [sample(1, 0.3)])).toBe(false);
+    expect(s.commandedPaths[0].path).toHaveLength(2);
+    const snap = (commandedFrom: 'whole' | 'positioner'): ServerMessage => ({
+      type: 'snapshot', timeS: 1, source: { kind: 'serial', state: 'live', name: 'p', badLines: 0, lastBad: null, detectionsPerSecond: 0, latencyMs: null, recording: null, recordingError: null },
+      tracks: [], history: [], detections: [], fixedEchoes: [], commanded: [{ timeS: 0, x: -1, y: 2 }], commandedPaths: [{ target: 'A', path: [{ timeS: 0, x: -1, y: 2 }] }], commandedFrom, replay: null,
+    });
+    applyMessage(s, snap('positioner'));
+    expect(s.commandedExplicit).toBe(false);
+    applyMessage(s, scanOf([sample(1, -0.8, 'A')]));
+    expect(s.commandedPaths).toEqual([{ target: 'A', path: [{ timeS: 0, x: -1, y: 2 }, { timeS: 1, x: -0.8, y: 2 }] }]);
+    applyMessage(s, snap('whole'));
+    expect(s.commandedExplicit).toBe(true);
   });
 });

@@ -116,7 +116,7 @@ describe('applyMessage', () => {
     expect(firstCommandedPath(s)).toHaveLength(2);
     expect(s.commandedVersion).toBe(1);
     expect(s.antennaAzimuthRad).toBe(1.2);
-    expect(s.positioner?.cmdX).toBe(0.5);
+    expect(s.positioners.get('')?.cmdX).toBe(0.5);
   });
 });
 

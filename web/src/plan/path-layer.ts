@@ -62,8 +62,8 @@ export class PathLayer {
       }
       if (h.pushed - from > 1) g.stroke({ width: 3, color: trackColour(sel.id), alpha: 0.9 });
     }
-    const pos = state.positioner;
-    if (pos) {
+    // One ✕ per positioner, at its current commanded point.
+    for (const pos of state.positioners.values()) {
       const p = toScreen(view, pos.cmdX, pos.cmdY);
       g.moveTo(p.px - 7, p.py - 7).lineTo(p.px + 7, p.py + 7).moveTo(p.px - 7, p.py + 7).lineTo(p.px + 7, p.py - 7)
         .stroke({ width: 2, color: commandedColour });

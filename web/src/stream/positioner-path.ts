@@ -15,24 +15,26 @@ export const POSITIONER_MIN_DT_S = 0.05;
 export const POSITIONER_MAX_POINTS = 24_000;
 
 /**
- * Appends the scan's positioner samples to the positioner-built path, unless the run gave its
- * paths whole or commands several. Returns true when the path changed.
+ * Appends the scan's positioner samples to the paths built from them, one per positioner (by
+ * `target`; '' for unnamed samples), unless the run gave its paths whole. Returns true when a
+ * path changed.
  */
 export function extendPositionerPath(state: DashboardState, samples: readonly PositionerWire[]): boolean {
-  if (state.commandedExplicit || samples.length === 0 || state.commandedPaths.length > 1) return false;
-  let entry = state.commandedPaths[0];
-  if (!entry) {
-    entry = { target: '', path: [] };
-    state.commandedPaths = [entry];
-  }
-  const path = entry.path;
+  if (state.commandedExplicit || samples.length === 0) return false;
   let changed = false;
   for (const s of samples) {
+    const target = s.target ?? '';
+    let entry = state.commandedPaths.find((p) => p.target === target);
+    if (!entry) {
+      entry = { target, path: [] };
+      state.commandedPaths = [...state.commandedPaths, entry];
+    }
+    const path = entry.path;
     const last = path[path.length - 1];
     if (last && s.timeS < last.timeS + POSITIONER_MIN_DT_S) continue;
     path.push({ timeS: s.timeS, x: s.cmdX, y: s.cmdY });
+    if (path.length > POSITIONER_MAX_POINTS) path.splice(0, path.length - POSITIONER_MAX_POINTS);
     changed = true;
   }
-  if (path.length > POSITIONER_MAX_POINTS) path.splice(0, path.length - POSITIONER_MAX_POINTS);
   return changed;
 }

@@ -33,8 +33,10 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       for (const entry of state.tracks.values()) if (entry.history.length === 0) pushUpdate(entry.history, entry.latest);
       for (const d of msg.detections) addDetection(state, d.timeS, d.azimuthRad, d.rangeM, d.fixed ?? false);
       setFixedEchoes(state, msg.fixedEchoes);
-      // A snapshot's single unnamed path may be a positioner-built one: later samples extend it.
-      state.commandedExplicit = msg.commandedPaths !== undefined;
+      // Paths built from positioner samples go on growing with the scans' samples; a bridge that
+      // does not say where its paths come from sends several only when they were given whole, and
+      // a single unnamed one may be a positioner-built one.
+      state.commandedExplicit = msg.commandedFrom !== undefined ? msg.commandedFrom === 'whole' : msg.commandedPaths !== undefined;
       setCommandedPaths(state, msg.commandedPaths ?? (msg.commanded.length ? [{ target: '', path: msg.commanded.slice() }] : []));
       pruneDetections(state, limits);
       return;
@@ -58,7 +60,7 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       }
       for (const del of msg.deletions) state.tracks.delete(del.id);
       if (msg.antennaAzimuthRad !== null) state.antennaAzimuthRad = msg.antennaAzimuthRad;
-      if (msg.positioner.length > 0) state.positioner = msg.positioner[msg.positioner.length - 1];
+      for (const p of msg.positioner) state.positioners.set(p.target ?? '', p);
       if (extendPositionerPath(state, msg.positioner)) state.commandedVersion++;
       pruneDetections(state, limits);
       return;
@@ -80,8 +82,9 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
     case 'comparison':
       state.comparison = msg.figures;
       state.comparisons.set(msg.figures.pathId ?? '', msg.figures);
-      // Figures against a path given whole: positioner samples must not extend it.
-      if (msg.figures.pathId !== undefined && msg.figures.pathId !== POSITIONER_PATH_ID) state.commandedExplicit = true;
+      // Figures against a path given whole: positioner samples must not extend it. (A path named
+      // after its positioner, built here from its samples, is not one.)
+      if (msg.figures.pathId !== undefined && msg.figures.pathId !== POSITIONER_PATH_ID && !builtFromPositioner(state, msg.figures.pathId)) state.commandedExplicit = true;
       state.comparisonHistory.push(msg.figures);
       if (state.comparisonHistory.length > limits.comparisonPoints) state.comparisonHistory.shift();
       return;
@@ -92,6 +95,11 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       state.lastError = { code: msg.code, message: msg.message };
       return;
   }
+}
+
+/** True when `pathId` names a path this dashboard builds from its positioner's samples. */
+function builtFromPositioner(state: DashboardState, pathId: string): boolean {
+  return !state.commandedExplicit && state.commandedPaths.some((p) => p.target === pathId);
 }
 
 /**
@@ -114,7 +122,7 @@ function restart(state: DashboardState, timeS: number): void {
   state.comparison = null;
   state.comparisonHistory.length = 0;
   state.comparisons.clear();
-  state.positioner = null;
+  state.positioners.clear();
   state.timeS = timeS;
   state.epoch++;
 }

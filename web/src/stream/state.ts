@@ -6,7 +6,7 @@
  * through a reactivity system.
  */
 import type {
-  ComparisonFigures, DetectionWire, PathPointWire, ReplayState, SessionInfo, SourceStatus, TrackWire,
+  ComparisonFigures, DetectionWire, PathPointWire, PositionerWire, ReplayState, SessionInfo, SourceStatus, TrackWire,
 } from '../../../bridge/server/protocol.ts';
 import { HistoryRing } from './ring.ts';
 
@@ -47,8 +47,8 @@ export interface DashboardState {
    */
   commandedExplicit: boolean;
   antennaAzimuthRad: number | null;
-  /** Latest commanded/measured positioner position, metres. */
-  positioner: { timeS: number; cmdX: number; cmdY: number; measX?: number; measY?: number } | null;
+  /** Latest commanded/measured position of each positioner ('' for an unnamed one), metres. */
+  positioners: Map<string, PositionerWire>;
   replay: ReplayState | null;
   /** Latest comparison figures of any path (kept for single-path readers). */
   comparison: ComparisonFigures | null;
@@ -94,7 +94,7 @@ export const defaultLimits: StateLimits = {
 export function createState(): DashboardState {
   return {
     connection: 'connecting', serverName: null, timeS: 0, source: null, tracks: new Map(),
-    detections: [], fixedEchoes: [], commandedPaths: [], commandedExplicit: false, antennaAzimuthRad: null, positioner: null,
+    detections: [], fixedEchoes: [], commandedPaths: [], commandedExplicit: false, antennaAzimuthRad: null, positioners: new Map(),
     replay: null, comparison: null, comparisonHistory: [], comparisons: new Map(), sessions: [], lastError: null,
     invalidFrames: 0, lastInvalid: null, epoch: 0, fixedVersion: 0, commandedVersion: 0,
     capture: { active: false, detections: [], limit: 12_000 },
