@@ -20,21 +20,36 @@ let dir = '';
 let sessionFile = '';
 let sessionId = '';
 
-beforeAll(() => {
-  dir = mkdtempSync(join(tmpdir(), 'et-replay-'));
-  const rec = new Recorder({ dir, name: 'circle', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T10:00:00Z') });
+/** Records `records` (commanded paths at time 0) into a session file of `dir`; returns its path. */
+function recordSession(name: string, startUtc: string, records: SourceRecord[]): string {
+  const rec = new Recorder({ dir, name, source: { kind: 'simulator', name: 'test' }, startUtc: new Date(startUtc) });
   expect(rec.open()).toBe(true);
-  rec.record({ kind: 'commanded', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 10, x: 5, y: 2 }] }, 0);
-  for (let i = 0; i <= 100; i++) {
-    const t = i * 0.1;
-    rec.record({ kind: 'detection', detection: { timeS: t, azimuthRad: 0.3, rangeM: 2.2, amplitude: 40 } });
-    rec.record({ kind: 'track', update: trackAt(1, t, t * 0.5, 2) });
-  }
-  rec.record({ kind: 'deletion', deletion: { timeS: 10, id: 1, reason: 'misses' } });
+  for (const r of records) rec.record(r, r.kind === 'commanded' ? 0 : undefined);
   const file = rec.status().path as string;
   rec.close();
-  sessionFile = file;
-  sessionId = file.split('/').pop()!.replace('.session.jsonl', '');
+  return file;
+}
+
+/** A detection at the same spot and a track update every 0.1 s from 0 to `lastS`, the track at `at(t)`. */
+function trackedRun(lastS: number, at: (t: number) => { x: number; y: number }): SourceRecord[] {
+  const out: SourceRecord[] = [];
+  for (let i = 0; i <= Math.round(lastS * 10); i++) {
+    const t = i * 0.1;
+    const p = at(t);
+    out.push({ kind: 'detection', detection: { timeS: t, azimuthRad: 0.3, rangeM: 2.2, amplitude: 40 } });
+    out.push({ kind: 'track', update: trackAt(1, t, p.x, p.y) });
+  }
+  return out;
+}
+
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), 'et-replay-'));
+  sessionFile = recordSession('circle', '2026-01-01T10:00:00Z', [
+    { kind: 'commanded', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 10, x: 5, y: 2 }] },
+    ...trackedRun(10, (t) => ({ x: t * 0.5, y: 2 })),
+    { kind: 'deletion', deletion: { timeS: 10, id: 1, reason: 'misses' } },
+  ]);
+  sessionId = sessionFile.split('/').pop()!.replace('.session.jsonl', '');
 });
 
 afterEach(async () => {
@@ -125,18 +140,11 @@ describe('replay of a recorded session', () => {
 
   it('after a seek, the running figures cover the run from its start, not only the re-sent window', async () => {
     // 30 s along x = 0.2·t, y = 2: the track is 0.2 m off the line for its first 10 s, on it after.
-    const rec = new Recorder({ dir, name: 'offset', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T12:00:00Z') });
-    expect(rec.open()).toBe(true);
-    const records: SourceRecord[] = [{ kind: 'commanded', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 30, x: 6, y: 2 }] }];
-    for (let i = 0; i <= 300; i++) {
-      const t = i * 0.1;
-      records.push({ kind: 'detection', detection: { timeS: t, azimuthRad: 0.3, rangeM: 2.2, amplitude: 40 } });
-      records.push({ kind: 'track', update: trackAt(1, t, 0.2 * t, t < 10 ? 2.2 : 2) });
-    }
-    rec.record(records[0], 0);
-    for (const r of records.slice(1)) rec.record(r);
-    const file = rec.status().path as string;
-    rec.close();
+    const records: SourceRecord[] = [
+      { kind: 'commanded', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 30, x: 6, y: 2 }] },
+      ...trackedRun(30, (t) => ({ x: 0.2 * t, y: t < 10 ? 2.2 : 2 })),
+    ];
+    const file = recordSession('offset', '2026-01-01T12:30:00Z', records);
     // What playing the run through to 25 s gives: the whole run's figures, the offset included.
     const through = createLiveComparison(() => undefined);
     for (const r of records) {
@@ -158,11 +166,7 @@ describe('replay of a recorded session', () => {
   });
 
   it('a list of sessions (the demo) keeps the speed chosen on the dashboard when it moves on, and says where it is', async () => {
-    const rec = new Recorder({ dir, name: 'short', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T11:00:00Z') });
-    expect(rec.open()).toBe(true);
-    for (let i = 0; i <= 30; i++) rec.record({ kind: 'track', update: trackAt(1, i * 0.1, 0, 2) });
-    const short = rec.status().path as string;
-    rec.close();
+    const short = recordSession('short', '2026-01-01T11:00:00Z', Array.from({ length: 31 }, (_, i): SourceRecord => ({ kind: 'track', update: trackAt(1, i * 0.1, 0, 2) })));
     bridge = await startBridge({ port: 0, playlist: [short, sessionFile], loop: true, sessionsDir: dir, autoplay: true, speed: 1, log: () => undefined });
     const c = await connect(bridge);
     c.send({ type: 'control', action: 'speed', value: 2 });
@@ -174,17 +178,15 @@ describe('replay of a recorded session', () => {
   });
 
   it('a run with two commanded paths (two carriages): both reach the dashboard, each compared with its own track', async () => {
-    const rec = new Recorder({ dir, name: 'two-carriages', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-01-01T12:00:00Z') });
-    expect(rec.open()).toBe(true);
-    rec.record({ kind: 'commanded', target: '1', path: [{ timeS: 0, x: -1.5, y: 2.4 }, { timeS: 10, x: 1.5, y: 3.6 }] }, 0);
-    rec.record({ kind: 'commanded', target: '2', path: [{ timeS: 0, x: 1.5, y: 2.4 }, { timeS: 10, x: -1.5, y: 3.6 }] }, 0);
+    const records: SourceRecord[] = [
+      { kind: 'commanded', target: '1', path: [{ timeS: 0, x: -1.5, y: 2.4 }, { timeS: 10, x: 1.5, y: 3.6 }] },
+      { kind: 'commanded', target: '2', path: [{ timeS: 0, x: 1.5, y: 2.4 }, { timeS: 10, x: -1.5, y: 3.6 }] },
+    ];
     for (let i = 0; i <= 100; i++) {
       const t = i * 0.1, f = t / 10;
-      rec.record({ kind: 'track', update: trackAt(1, t, -1.5 + 3 * f, 2.4 + 1.2 * f) });
-      rec.record({ kind: 'track', update: trackAt(2, t, 1.5 - 3 * f + 0.05, 2.4 + 1.2 * f) });
+      records.push({ kind: 'track', update: trackAt(1, t, -1.5 + 3 * f, 2.4 + 1.2 * f) }, { kind: 'track', update: trackAt(2, t, 1.5 - 3 * f + 0.05, 2.4 + 1.2 * f) });
     }
-    const file = rec.status().path as string;
-    rec.close();
+    const file = recordSession('two-carriages', '2026-01-01T12:00:00Z', records);
     bridge = await startBridge({ port: 0, replay: file, sessionsDir: dir, autoplay: false, log: () => undefined });
     const c = await connect(bridge);
     c.send({ type: 'control', action: 'seek', value: 5 });
