@@ -36,7 +36,7 @@ function program(): Command {
     .option('--tracks <file>', 'tracks CSV as written by `echotrail track`', pathArg)
     .option('--commanded <files...>', 'commanded path CSV(s): time_s,x_m,y_m or time_s,azimuth_deg,range_m (optional segment column); the first is compared with the followed track, all enter OSPA/GOSPA', (v: string, prev: string[] | undefined) => [...(prev ?? []), pathArg(v)])
     .option('--waypoints <file>', 'waypoints with speeds instead of --commanded: JSON {"start_s", "waypoints": [{x_m, y_m, speed_mps, dwell_s}]} or CSV x_m,y_m,speed_mps,dwell_s', pathArg)
-    .option('--target <id>', 'with a target_id column in --commanded: the target compared with the followed track (default: the first in the file)')
+    .option('--target <id>', 'with a target_id column in --commanded, or a session commanding several targets: the target compared with the followed track (default: the first)')
     .option('--calibration <file>', 'bench calibration file (calibration.json, written by `echotrail calibrate`): its positioner frame maps the commanded path into the radar frame', pathArg)
     .option('--frame-rotation <deg>', 'instead of --calibration: the positioner frame is turned this much counter-clockwise from the radar frame, degrees (default: 0)', num('frame-rotation'))
     .option('--frame-translation <x,y>', 'instead of --calibration: positioner frame origin in the radar frame, metres (default: 0,0)', pair)
@@ -141,8 +141,21 @@ async function compare(o: Parsed): Promise<number> {
     rows = s.rows;
     warnings.push(...s.warnings);
     if (paths.length === 0) {
-      paths.push(s.commanded);
-      names.push(`${o.session} (${s.pathSource === 'commanded' ? 'commanded-path record' : 'positioner records'})`);
+      const from = s.pathSource === 'commanded' ? 'commanded-path record' : 'positioner records';
+      const targets = [...s.paths];
+      // The chosen target first: it is the one the single-target figures use; the set figures
+      // (OSPA/GOSPA) use every target, so no carriage's track counts as a false one.
+      if (o.target !== undefined) {
+        const i = targets.findIndex((t) => t.target === o.target);
+        if (i < 0) throw new EchotrailError('E_OPTION', `--target ${o.target}: ${o.session} has targets ${targets.map((t) => t.target || '(none)').join(', ')}`);
+        targets.unshift(...targets.splice(i, 1));
+      } else if (targets.length > 1) {
+        warnings.push(`the session commands ${targets.length} targets (${targets.map((t) => t.target || '(unnamed)').join(', ')}): the detailed figures are for target ${targets[0].target} (choose another with --target); OSPA/GOSPA cover them all`);
+      }
+      for (const t of targets) {
+        paths.push(t.path);
+        names.push(`${o.session} (${from}${t.target ? `, target ${t.target}` : ''})`);
+      }
     }
   } else {
     if (paths.length === 0) throw new EchotrailError('E_OPTION', 'give the commanded path: --commanded PATH.csv or --waypoints FILE');

@@ -14,41 +14,65 @@ import type { UnitCheckOptions } from './units.ts';
 /** Which record gives the commanded path. */
 export type SessionPathSource = 'auto' | 'commanded' | 'positioner';
 
+/** One commanded path of the session: its target ('' when the run commands one, unnamed) and the path. */
+export interface SessionPath {
+  target: string;
+  path: TimedPath;
+}
+
 /** What a session contributes. */
 export interface SessionInput {
   rows: TrackRow[];
-  commanded: TimedPath;
-  /** Where the path came from, for the summary. */
+  /** Every target's commanded path, in the order the targets first appear. */
+  paths: SessionPath[];
+  /** Where the paths came from, for the summary. */
   pathSource: 'commanded' | 'positioner';
   warnings: string[];
 }
 
-/** Read a session for comparison; `auto` prefers a commanded-path record, else positioner records. */
+/**
+ * Read a session for comparison; `auto` prefers commanded-path records, else positioner records.
+ * A run with several positioners or carriages gives one path each: the commanded-path records by
+ * their `target` (a later record of a target replaces its earlier one), or the positioner
+ * records by theirs.
+ */
 export async function readSessionInput(file: string, source: SessionPathSource = 'auto', units: Partial<UnitCheckOptions> = {}): Promise<SessionInput> {
   const reader = await openSession(file);
   const rows: TrackRow[] = [];
-  const positioner: PositionerSample[] = [];
-  const paths: { timeS: number; x: number; y: number }[][] = [];
+  const positioner = new Map<string, PositionerSample[]>();
+  const commanded = new Map<string, { timeS: number; x: number; y: number }[]>();
+  const replaced = new Set<string>();
   const warnings: string[] = [];
   try {
     if (reader.badLineCount > 0) warnings.push(`${reader.badLineCount} bad line(s) in the session were skipped (first at line ${reader.badLines[0]?.line}: ${reader.badLines[0]?.reason})`);
     for (const r of reader.records(-Infinity)) {
       const rec = r.record;
       if (rec.kind === 'track') rows.push(rowFromUpdate(rec.update));
-      else if (rec.kind === 'positioner') positioner.push(rec.sample);
-      else if (rec.kind === 'commanded') paths.push(rec.path);
+      else if (rec.kind === 'positioner') {
+        const key = rec.sample.target ?? '';
+        let list = positioner.get(key);
+        if (!list) positioner.set(key, (list = []));
+        list.push(rec.sample);
+      } else if (rec.kind === 'commanded') {
+        const key = rec.target ?? '';
+        if (commanded.has(key)) replaced.add(key);
+        commanded.set(key, rec.path);
+      }
     }
   } finally {
     reader.close();
   }
   rows.sort((a, b) => a.timeS - b.timeS);
   const what = `session ${file}`;
-  const useCommanded = source === 'commanded' || (source === 'auto' && paths.length > 0);
+  const named = (t: string) => (t ? `target ${t}` : 'the commanded path');
+  const useCommanded = source === 'commanded' || (source === 'auto' && commanded.size > 0);
   if (useCommanded) {
-    if (paths.length === 0) throw new EchotrailError('E_PATH', `${what} holds no commanded-path record; use --session-path positioner or give --commanded`);
-    if (paths.length > 1) warnings.push(`${what} holds ${paths.length} commanded-path records; the last one is used`);
-    return { rows, commanded: makeTimedPath(paths[paths.length - 1].map((p) => ({ ...p })), `${what} commanded path`), pathSource: 'commanded', warnings };
+    if (commanded.size === 0) throw new EchotrailError('E_PATH', `${what} holds no commanded-path record; use --session-path positioner or give --commanded`);
+    for (const t of replaced) warnings.push(`${what} holds several commanded-path records for ${named(t)}; the last one is used`);
+    const paths = [...commanded].map(([target, pts]) => ({ target, path: makeTimedPath(pts.map((p) => ({ ...p })), `${what} commanded path${target ? ` of target ${target}` : ''}`) }));
+    return { rows, paths, pathSource: 'commanded', warnings };
   }
-  if (positioner.length === 0) throw new EchotrailError('E_PATH', `${what} holds neither a commanded path nor positioner records; give --commanded PATH.csv`);
-  return { rows, commanded: positionerToPath(positioner, `${what} positioner records`, units), pathSource: 'positioner', warnings };
+  if (positioner.size === 0) throw new EchotrailError('E_PATH', `${what} holds neither a commanded path nor positioner records; give --commanded PATH.csv`);
+  const paths = [...positioner].map(([target, samples]) => ({ target, path: positionerToPath(samples, `${what} positioner records${target ? ` of ${target}` : ''}`, units) }));
+  return { rows, paths, pathSource: 'positioner', warnings };
 }

@@ -158,6 +158,26 @@ describe('echotrail compare', () => {
     expect(s.lag.lag_s).toBeCloseTo(c.lag.lag_s, 2);
   });
 
+  it('on a session of two carriages, compares the one chosen by --target, and counts neither track as false', async () => {
+    const session = join(import.meta.dirname, '..', '..', 'replays', 'bay3-crossing-carriages.session.jsonl');
+    const first = await capture(['--session', session, '--out', join(dir, 'out-pair-1')]);
+    expect(first.code).toBe(0);
+    expect(first.err).toContain('the session commands 2 targets (1, 2): the detailed figures are for target 1 (choose another with --target)');
+    const r = await capture(['--session', session, '--target', '2', '--out', join(dir, 'out-pair-2')]);
+    expect(r.code).toBe(0);
+    expect(r.err).toBe('');
+    const s = JSON.parse(await readFile(join(dir, 'out-pair-2', 'summary.json'), 'utf8'));
+    expect(s.inputs.commanded).toHaveLength(2);
+    expect(s.inputs.commanded[0]).toMatch(/target 2\)$/);
+    // With both carriages' paths in the set, each carriage's track has its truth: no false part.
+    expect(s.multi_target.meanFalse).toBeLessThan(0.05);
+    const one = JSON.parse(await readFile(join(dir, 'out-pair-1', 'summary.json'), 'utf8'));
+    // Each carriage's own track is the followed one.
+    expect(s.tracks.switches[0].to).not.toBe(one.tracks.switches[0].to);
+    const bad = await capture(['--session', session, '--target', '3', '--out', join(dir, 'out-pair-3')]);
+    expect(bad.err).toMatch(/--target 3: .* has targets 1, 2/);
+  });
+
   it('maps a positioner-frame commanded path with the calibration file, like the explicit frame options', async () => {
     const base = ['--tracks', join(dir, 'turned.tracks.csv'), '--commanded', join(dir, 'turned.commanded.csv')];
     const rmse = async (extra: string[], name: string) => {

@@ -53,7 +53,8 @@ describe('readSessionInput', () => {
   it('takes the commanded-path record when there is one, and every track update', async () => {
     const s = await readSessionInput(withCmd);
     expect(s.pathSource).toBe('commanded');
-    expect(s.commanded.points).toHaveLength(path.points.length);
+    expect(s.paths.map((p) => p.target)).toEqual(['']);
+    expect(s.paths[0].path.points).toHaveLength(path.points.length);
     expect(s.rows).toHaveLength(run.rows.length);
     expect(s.rows.filter((r) => r.meas).length).toBe(run.rows.filter((r) => r.meas).length);
   });
@@ -62,12 +63,33 @@ describe('readSessionInput', () => {
     const a = await readSessionInput(withCmd);
     const b = await readSessionInput(positionerOnly);
     expect(b.pathSource).toBe('positioner');
-    const la = analyse([a.commanded], a.rows).lag.lagS!;
-    const lb = analyse([b.commanded], b.rows).lag.lagS!;
+    const la = analyse([a.paths[0].path], a.rows).lag.lagS!;
+    const lb = analyse([b.paths[0].path], b.rows).lag.lagS!;
     // Within 5 ms: the two paths differ by the positioner's sampling, and the lag (found on the
     // smoothed track) is only known to a few hundredths of a second anyway (its CI).
     expect(lb).toBeCloseTo(la, 2);
     expect(la).toBeGreaterThan(0.28); // 0.3 s by construction plus the tracker's own lag
+  });
+
+  it('gives one path per target: commanded-path records by target, or positioner records by positioner', async () => {
+    const rec = startRecording({ dir, fileName: 'pair.session.jsonl', name: 'pair', startUtc: new Date('2026-01-01T00:00:00Z') });
+    const line = (x0: number, x1: number) => [{ timeS: 0, x: x0, y: 2 }, { timeS: 10, x: x1, y: 3 }];
+    rec.record({ kind: 'commanded', target: 'A', path: line(-1, 1) }, 0);
+    rec.record({ kind: 'commanded', target: 'B', path: line(1, -1) }, 0);
+    rec.record({ kind: 'commanded', target: 'A', path: line(-1.5, 1.5) }, 0);
+    for (let t = 0; t <= 10; t += 0.5) {
+      rec.record({ kind: 'positioner', sample: { timeS: t, cmdX: -1 + 0.2 * t, cmdY: 2 + 0.1 * t, target: 'A' } });
+      rec.record({ kind: 'positioner', sample: { timeS: t, cmdX: 1 - 0.2 * t, cmdY: 2 + 0.1 * t, target: 'B' } });
+    }
+    await rec.close();
+    const file = rec.status().path ?? join(dir, 'pair.session.jsonl');
+    const c = await readSessionInput(file);
+    expect(c.paths.map((p) => [p.target, p.path.points[0].x])).toEqual([['A', -1.5], ['B', 1]]);
+    // A later record of a target replaces its earlier one, and the warning says for which target.
+    expect(c.warnings).toEqual([`session ${file} holds several commanded-path records for target A; the last one is used`]);
+    const p = await readSessionInput(file, 'positioner');
+    expect(p.pathSource).toBe('positioner');
+    expect(p.paths.map((q) => [q.target, q.path.points[0].x, q.path.points.at(-1)!.x])).toEqual([['A', -1, 1], ['B', 1, -1]]);
   });
 
   it('says so when asked for a commanded-path record the session lacks', async () => {
