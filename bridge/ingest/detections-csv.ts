@@ -19,7 +19,10 @@ export interface DetectionsCsvOptions {
   maxRangeM?: number;
   /** Amplitude to use when the file has no `amplitude` column; unset means the column is required. */
   defaultAmplitude?: number;
-  /** A row more than this far ahead of the next one, which falls back between it and the row before, is a bad timestamp and is skipped, s (default 1). */
+  /**
+   * A row more than this far ahead of a later row that falls back between it and the rows before
+   * (up to three such rows in a row) is a bad timestamp and is skipped, s (default 1).
+   */
   spikeS?: number;
 }
 
@@ -58,6 +61,12 @@ const REQUIRED = ['time_s', 'azimuth_deg', 'range_m', 'amplitude'] as const;
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const TWO_PI = 2 * Math.PI;
 const DEG = Math.PI / 180;
+/**
+ * Rows far ahead of the rows around them that are skipped as one corrupted run at most (a
+ * longer run in order is a real jump in time); as many as a live serial stream needs to confirm
+ * a clock restart (clock-guard.ts).
+ */
+const SPIKE_ROWS = 3;
 /** Powers of ten exactly representable as doubles (10²² is the last). */
 const P10 = Array.from({ length: 23 }, (_, i) => Number(`1e${i}`));
 
@@ -197,25 +206,32 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
     parser.on('error', (err: Error) => ((failure = err), wake?.()));
     source.pipe(parser);
     let col: Record<(typeof REQUIRED)[number], number> | null = null;
-    // Time order: each good row is held back until the next one arrives, so that one corrupted
-    // timestamp far in the future (…, 12.0, 9e6, 12.1, …) is what gets skipped, not everything after it.
+    // Time order: good rows are released SPIKE_ROWS rows late, so that a short run of corrupted
+    // timestamps far in the future (…, 12.0, 9e6, 9e6, 12.1, …) is what gets skipped, not every
+    // row up to that time; SPIKE_ROWS + 1 rows in order past a jump make it a real one.
     let lastTime = -Infinity;
-    let held: Detection | null = null;
+    const held: Detection[] = [];
     const release = (d: Detection, out: Detection[]) => {
       lastTime = d.timeS;
       report.accepted++;
       out.push(d);
     };
+    const hold = (d: Detection, out: Detection[]) => {
+      held.push(d);
+      if (held.length > SPIKE_ROWS) release(held.shift()!, out);
+    };
     const order = (d: Detection, out: Detection[]) => {
-      if (held && d.timeS >= held.timeS) {
-        release(held, out);
-        held = d;
-      } else if (held && d.timeS >= lastTime && held.timeS - d.timeS > opts.spikeS) {
-        skip(held.line as number, 'time jumps ahead', `time_s ${held.timeS} jumps ahead of the rows around it (next ${d.timeS})`);
-        held = d;
-      } else if (held || d.timeS < lastTime) {
-        skip(d.line as number, 'time going backwards', `time_s ${d.timeS} is earlier than the previous row's ${held ? held.timeS : lastTime}`);
-      } else held = d;
+      const newest = held.length ? held[held.length - 1].timeS : lastTime;
+      if (d.timeS >= newest) return hold(d, out);
+      // The row falls back. Held rows far ahead of it, while it is not before what was released,
+      // were the spike: they go, and the row stays unless it falls back before the rest too.
+      if (d.timeS >= lastTime) {
+        let k = held.length;
+        while (k > 0 && held[k - 1].timeS - d.timeS > opts.spikeS) k--;
+        for (const h of held.splice(k)) skip(h.line as number, 'time jumps ahead', `time_s ${h.timeS} jumps ahead of the rows around it (next ${d.timeS})`);
+        if (d.timeS >= (held.length ? held[held.length - 1].timeS : lastTime)) return hold(d, out);
+      }
+      skip(d.line as number, 'time going backwards', `time_s ${d.timeS} is earlier than the previous row's ${newest}`);
     };
     let nextLine = 1;
     // What to say about a cell that did not parse: a missing cell and an empty one read differently.
@@ -261,10 +277,9 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
         if (out.length) yield out;
         if (failure) throw failure;
         if (ended) {
-          if (held) {
+          if (held.length) {
             const last: Detection[] = [];
-            release(held, last);
-            held = null;
+            for (const d of held.splice(0)) release(d, last);
             yield last;
           }
           break;

@@ -85,6 +85,25 @@ describe('readDetectionsCsv', () => {
     expect(report.accepted + report.skipped).toBe(report.rows);
   });
 
+  it('a short run of far-ahead timestamps is skipped, and only it; a longer run in order is a real jump', async () => {
+    const head = 'time_s,azimuth_deg,range_m,amplitude\n';
+    const rows = (ts: number[]) => head + ts.map((t) => `${t},1,2,3`).join('\n') + '\n';
+    // Two corrupted rows (10 s ahead) among 10.x: they go, the 10.x after them stay.
+    const two = await readAll(rows([10.2, 10.3, 10.4, 20, 20.1, 10.5, 10.6, 10.7]));
+    expect(two.rows.map((r) => r.timeS)).toEqual([10.2, 10.3, 10.4, 10.5, 10.6, 10.7]);
+    expect(two.report.skippedLines).toEqual([
+      { line: 5, reason: 'time_s 20 jumps ahead of the rows around it (next 10.5)' },
+      { line: 6, reason: 'time_s 20.1 jumps ahead of the rows around it (next 10.5)' },
+    ]);
+    // Three in a row are still a run of bad rows.
+    const three = await readAll(rows([10.2, 20, 20.1, 20.2, 10.5, 10.6]));
+    expect(three.rows.map((r) => r.timeS)).toEqual([10.2, 10.5, 10.6]);
+    // Four rows in order past the jump make it real: what falls back behind them is refused.
+    const jump = await readAll(rows([10.2, 40, 40.1, 40.2, 40.3, 10.5, 40.4]));
+    expect(jump.rows.map((r) => r.timeS)).toEqual([10.2, 40, 40.1, 40.2, 40.3, 40.4]);
+    expect(jump.report.skippedLines).toEqual([{ line: 7, reason: "time_s 10.5 is earlier than the previous row's 40.3" }]);
+  });
+
   it('counts physical lines through blank lines; a quoted line break costs only its continuation line', async () => {
     // One physical line is one record (quoting is off, so a stray quote cannot swallow good rows):
     // a line break inside a quoted cell leaves its continuation as a bad line of its own.
@@ -129,17 +148,17 @@ describe('readDetectionsCsv', () => {
 
   it('streams: rows come out before the input has ended', async () => {
     // csv-parse holds the newest line until the next bytes arrive (it cannot yet tell whether the
-    // line break is complete), and the reader holds one good row for its time-order check, so a
-    // row is released two lines later.
+    // line break is complete), and the reader holds three good rows for its time-order check, so
+    // a row is released four lines later.
     const input = new PassThrough();
     const reader = readDetectionsCsv(input);
     const it = reader[Symbol.asyncIterator]();
-    input.write('time_s,azimuth_deg,range_m,amplitude\n0,1,2,3\n1,1,2,3\n2,1,2,3\n');
+    input.write('time_s,azimuth_deg,range_m,amplitude\n0,1,2,3\n1,1,2,3\n2,1,2,3\n3,1,2,3\n4,1,2,3\n');
     const first = await it.next();
     expect(first.value).toMatchObject({ timeS: 0, rangeM: 2 });
     expect(input.writableEnded).toBe(false);
-    input.end('3,1,2,3\n');
-    for (const t of [1, 2, 3]) expect((await it.next()).value).toMatchObject({ timeS: t });
+    input.end('5,1,2,3\n');
+    for (const t of [1, 2, 3, 4, 5]) expect((await it.next()).value).toMatchObject({ timeS: t });
     expect((await it.next()).done).toBe(true);
   });
 
