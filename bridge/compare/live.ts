@@ -44,6 +44,10 @@ export interface LiveComparisonOptions {
    * stops moving): the oldest window samples are dropped with the path under them.
    */
   maxPathPoints: number;
+  /** Least run time between two points of the running-RMSE history, s. */
+  historyStepS: number;
+  /** Most points of that history; beyond it every other point is dropped and the step doubles. */
+  maxHistoryPoints: number;
 }
 
 /** Defaults in one place: 240 samples ≈ a minute at 4 scans/s. */
@@ -57,6 +61,9 @@ export function resolveLiveComparisonOptions(o: Partial<LiveComparisonOptions> =
     trimChunk: o.trimChunk ?? 512,
     // 20 minutes of a 20 Hz positioner.
     maxPathPoints: o.maxPathPoints ?? 24_000,
+    historyStepS: o.historyStepS ?? 0.25,
+    // As many as the dashboard keeps.
+    maxHistoryPoints: o.maxHistoryPoints ?? 4000,
   };
 }
 
@@ -92,10 +99,14 @@ export class LiveComparison {
   private newestS: number | null = null;
   /** A positioner-built path kept through a reset, until the next sample shows it still fits (reset). */
   private onProbation = false;
+  /** The running RMSE over the run: flat [t, rmse, …], at least `historyStep` apart (see record()). */
+  private rmseHistory: number[] = [];
+  private historyStep = 0;
 
   constructor(options: Partial<LiveComparisonOptions> = {}) {
     this.o = resolveLiveComparisonOptions(options);
     this.follower = new TrackFollower(this.o.follow);
+    this.historyStep = this.o.historyStepS;
   }
 
   /** Replace the commanded path (points in time order, validated); clears the figures, keeps waiting updates. */
@@ -159,6 +170,29 @@ export class LiveComparison {
     this.consume(u);
   }
 
+  /**
+   * The running RMSE as it went, flat [t0, rmse0, t1, rmse1, …]: a client that joins late, or
+   * comes back from a seek, draws its chart from it.
+   */
+  history(): number[] {
+    return this.rmseHistory.slice();
+  }
+
+  /** Keeps the running RMSE after a compared sample, thinned to the history's spacing and cap. */
+  private record(timeS: number): void {
+    const h = this.rmseHistory;
+    if (h.length && timeS - h[h.length - 2] < this.historyStep) {
+      h[h.length - 1] = Math.sqrt(this.sumSq / this.n);
+      return;
+    }
+    h.push(timeS, Math.sqrt(this.sumSq / this.n));
+    if (h.length / 2 > this.o.maxHistoryPoints) {
+      // Coarser everywhere rather than forget the start of the run.
+      this.rmseHistory = h.filter((_, i) => i % 4 < 2);
+      this.historyStep *= 2;
+    }
+  }
+
   /** Current figures (cheap: nothing is recomputed here). */
   figures(): ComparisonFigures {
     return {
@@ -194,6 +228,8 @@ export class LiveComparison {
     this.last = { timeS: 0, along: null, cross: null };
     this.lagS = null;
     this.newestS = null;
+    this.rmseHistory = [];
+    this.historyStep = this.o.historyStepS;
   }
 
   /**
@@ -241,6 +277,7 @@ export class LiveComparison {
     this.sumSq += d.positionM ** 2;
     this.max = Math.max(this.max, d.positionM);
     this.last = { timeS: u.timeS, along: d.alongM, cross: d.crossM };
+    this.record(u.timeS);
     this.window.push({ timeS: u.timeS, x: u.x, y: u.y });
     if (this.window.length > this.o.lagWindow) this.window.shift();
     if (++this.sinceLag >= this.o.lagEvery && this.window.length >= 10) {
@@ -313,6 +350,16 @@ export class MultiPathComparison {
     for (const [pathId, live] of this.byPath) {
       const f = live.figures();
       if (f.samples > 0) out.push({ ...f, pathId });
+    }
+    return out;
+  }
+
+  /** The running-RMSE history of every path that has compared something (LiveComparison.history). */
+  history(): { pathId: string; points: number[] }[] {
+    const out: { pathId: string; points: number[] }[] = [];
+    for (const [pathId, live] of this.byPath) {
+      const points = live.history();
+      if (points.length) out.push({ pathId, points });
     }
     return out;
   }

@@ -44,6 +44,8 @@ export interface LiveComparisonLike {
   deletion(deletion: TrackDeletion): void;
   /** Latest figures of every commanded path that has compared something (empty before). */
   figures(): ComparisonFigures[];
+  /** The running RMSE of each such path as it went, flat [t, rmse, …] (for a late or re-synced client's chart). */
+  history(): { pathId: string; points: number[] }[];
   /** Forget figures and followed track, keep the commanded path (replay seek). */
   reset(): void;
   /** Forget everything, commanded path included (new source). */
@@ -108,6 +110,7 @@ export function createLiveComparison(log: (line: string) => void): LiveCompariso
     update: (u) => live.update(u),
     deletion: () => undefined,
     figures: () => live.figures(),
+    history: () => live.history(),
     reset: () => live.reset(),
     restart() {
       live = new MultiPathComparison();

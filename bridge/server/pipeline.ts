@@ -416,6 +416,8 @@ export class Pipeline extends EventEmitter {
     const s = this.state;
     const pending = this.batch.pendingDetections();
     const paths = s.commandedPaths;
+    // A comparison still being rebuilt after a seek has only the re-sent window: none yet.
+    const history = this.comparison && !this.comparisonStale ? this.comparison.history() : [];
     return {
       type: 'snapshot',
       seq: this.batch.nextSeq,
@@ -429,6 +431,7 @@ export class Pipeline extends EventEmitter {
       // Several paths, or one named after its positioner: the client needs the names.
       ...(paths.length > 1 || (paths.length === 1 && paths[0].target !== '') ? { commandedPaths: paths } : {}),
       ...(s.commandedFrom ? { commandedFrom: s.commandedFrom } : {}),
+      ...(history.length ? { comparisonHistory: history } : {}),
       replay: this.replayState(),
     };
   }

@@ -183,6 +183,12 @@ export const serverMessage = z.discriminatedUnion('type', [
      * extend, each by its `target`. Absent: no path yet, or a bridge that predates the field.
      */
     commandedFrom: z.enum(['whole', 'positioner']).optional(),
+    /**
+     * The running RMSE of each compared path so far, flat [t0, rmse0, t1, rmse1, …] at ≥ 0.25 s
+     * spacing (optional, within protocol 1): a client draws its chart from it after joining or a
+     * seek; `comparison` messages carry the figures of the moment.
+     */
+    comparisonHistory: z.array(z.object({ pathId: z.string(), points: z.array(finite) })).optional(),
     replay: replayState.nullable(),
   }),
   z.object({

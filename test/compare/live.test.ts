@@ -165,6 +165,31 @@ describe('LiveComparison on a long positioner-fed run', () => {
   });
 });
 
+describe('LiveComparison running-RMSE history', () => {
+  it('keeps the running RMSE as it went, spaced and bounded, start of the run included', () => {
+    const live = new LiveComparison({ historyStepS: 0.25, maxHistoryPoints: 50 });
+    live.setCommanded([{ timeS: 0, x: -5, y: 2 }, { timeS: 100, x: 5, y: 2 }]);
+    const upd = (t: number, off: number): TrackUpdate => ({
+      timeS: t, id: 1, status: 'confirmed', x: -5 + 0.1 * t, y: 2 + off, vx: 0.1, vy: 0, speed: 0.1, headingRad: Math.PI / 2,
+      pxx: 0.01, pxy: 0, pyy: 0.01, quality: 0.9, moving: true, hits: 3, misses: 0,
+    });
+    // 0.1 m off for the first 10 s, on the path after: the running RMSE falls from 0.1 m.
+    for (let t = 0; t <= 40; t += 0.1) live.update(upd(t, t < 10 ? 0.1 : 0));
+    const h = live.history();
+    const times = h.filter((_, i) => i % 2 === 0);
+    const rmse = h.filter((_, i) => i % 2 === 1);
+    expect(times.length).toBeLessThanOrEqual(50);
+    expect(times[0]).toBeLessThan(0.5);
+    expect(times.at(-1)).toBeGreaterThan(39);
+    for (let i = 1; i < times.length; i++) expect(times[i] - times[i - 1]).toBeGreaterThanOrEqual(0.25 - 1e-9);
+    expect(rmse[0]).toBeCloseTo(0.1, 9);
+    // Its last point is the figure of the moment.
+    expect(rmse.at(-1)).toBeCloseTo(live.figures().rmseM!, 12);
+    live.reset();
+    expect(live.history()).toEqual([]);
+  });
+});
+
 describe('MultiPathComparison', () => {
   // Two carriages crossing as in the demo: A (-1.5, 2.4) → (1.5, 3.6), B mirrored, 16 s each.
   const A = [{ timeS: 0, x: -1.5, y: 2.4 }, { timeS: 16, x: 1.5, y: 3.6 }];

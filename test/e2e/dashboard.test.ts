@@ -104,7 +104,7 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
     await panel.waitFor();
     expect(await panel.innerText()).toMatch(/RMSE \(running\)\s+\d+\.\d{3} m/);
     // Negative lags carry the minus sign, as every other signed figure does.
-    expect(await panel.innerText()).toMatch(/Lag behind command\s+(—|−?\d+(\.\d+)? (ms|s))/);
+    expect(await panel.innerText()).toMatch(/Lag behind command \(live\)\s+(—|−?\d+0 ms|0 ms|−?\d+\.\d+ s)/);
   });
 
   it('keeps the comparison after a seek while paused', async () => {

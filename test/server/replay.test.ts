@@ -157,7 +157,12 @@ describe('replay of a recorded session', () => {
     bridge = await startBridge({ port: 0, replay: file, sessionsDir: dir, autoplay: false, log: () => undefined });
     const c = await connect(bridge);
     c.send({ type: 'control', action: 'seek', value: 25 });
-    await c.next('snapshot', (x) => x.replay?.positionS === 25);
+    const snap = await c.next('snapshot', (x) => x.replay?.positionS === 25);
+    // The snapshot carries the running RMSE since the start, for the dashboard's chart.
+    const h = snap.comparisonHistory?.[0];
+    expect(h?.pathId).toBe('commanded');
+    expect(h!.points[0]).toBeLessThan(0.5);
+    expect(h!.points.at(-1)).toBeCloseTo(expected.rmseM!, 9);
     const m = await c.next('comparison', (x) => x.figures.samples > 0);
     // The re-sent window (the last 10 s) alone would give 100 samples and an RMSE of 0.
     expect(m.figures.samples).toBe(expected.samples);

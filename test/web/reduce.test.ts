@@ -120,6 +120,20 @@ describe('applyMessage', () => {
   });
 });
 
+describe('running-RMSE history in a snapshot', () => {
+  it('refills the comparison charts, per path, in time order', () => {
+    const s = createState();
+    applyMessage(s, {
+      type: 'snapshot', timeS: 25, source, tracks: [], history: [], detections: [], fixedEchoes: [], commanded: [], replay: null,
+      comparisonHistory: [{ pathId: '1', points: [0.5, 0.2, 1, 0.15] }, { pathId: '2', points: [0.7, 0.05] }],
+    });
+    expect(s.comparisonHistory.map((f) => [f.pathId, f.timeS, f.rmseM])).toEqual([['1', 0.5, 0.2], ['2', 0.7, 0.05], ['1', 1, 0.15]]);
+    // A snapshot without it (an older bridge, or nothing compared yet) leaves the charts empty.
+    applyMessage(s, { type: 'snapshot', timeS: 1, source, tracks: [], history: [], detections: [], fixedEchoes: [], commanded: [], replay: null });
+    expect(s.comparisonHistory).toEqual([]);
+  });
+});
+
 describe('applyFrame', () => {
   it('applies a valid frame', () => {
     const s = createState();

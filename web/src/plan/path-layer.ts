@@ -3,7 +3,7 @@
  * positioner's current commanded point, the antenna direction, and the selected track's trail
  * drawn thick. Screen space; the path is rebuilt only when it or the view changes.
  */
-import { Container, Graphics, Text } from 'pixi.js';
+import { AlphaFilter, Container, Graphics, Text } from 'pixi.js';
 import type { PathPointWire } from '../../../bridge/server/protocol.ts';
 import type { DashboardState } from '../stream/state.ts';
 import { antennaColour, commandedColour, trackColour } from './palette.ts';
@@ -12,6 +12,8 @@ import { PATH_AHEAD_S, errorBandHalfWidthM, pathWindow } from './path-window.ts'
 import { pathLabel } from '../stream/path-match.ts';
 
 const DASH_PX = 8;
+/** How faint the error band is. */
+const BAND_ALPHA = 0.08;
 const GAP_PX = 6;
 
 export class PathLayer {
@@ -22,9 +24,23 @@ export class PathLayer {
   /** One name per path when a run commands several ("path 1", "path 2"), beside its current point. */
   private readonly names: Text[] = [];
   private pathKey = '';
+  /** Alpha of the band's own stroke (see useBlendedBand). */
+  private bandAlpha = BAND_ALPHA;
 
   constructor() {
     this.container.addChild(this.band, this.path, this.live);
+  }
+
+  /**
+   * WebGL blends every triangle of a wide stroke on its own, so where the band's round joins
+   * overlap (a path curving tighter than the band is wide) the faint colour piles up into a
+   * starburst. There the band is drawn opaque and made faint as a whole, once, by an alpha
+   * filter; the 2-D canvas fills a stroke in one piece and needs none.
+   */
+  useBlendedBand(webgl: boolean): void {
+    this.bandAlpha = webgl ? 1 : BAND_ALPHA;
+    this.band.filters = webgl ? [new AlphaFilter({ alpha: BAND_ALPHA })] : [];
+    this.pathKey = '';
   }
 
   update(view: View, state: DashboardState, coverageM: number, selectedId: number | null, trailFromS: number): void {
@@ -43,7 +59,7 @@ export class PathLayer {
       this.path.clear();
       paths.forEach((p, i) => {
         const window = pathWindow(p.path, from, to);
-        drawBand(this.band, view, window, bands[i]);
+        drawBand(this.band, view, window, bands[i], this.bandAlpha);
         drawDashed(this.path, view, window);
         this.placeName(i, paths.length > 1 ? pathLabel(p.target, paths.length) : '', view, window);
       });
@@ -110,7 +126,7 @@ export class PathLayer {
   }
 }
 
-function drawBand(g: Graphics, view: View, path: readonly PathPointWire[], halfWidthM: number): void {
+function drawBand(g: Graphics, view: View, path: readonly PathPointWire[], halfWidthM: number, alpha: number): void {
   if (path.length < 2 || halfWidthM <= 0) return;
   const first = toScreen(view, path[0].x, path[0].y);
   g.moveTo(first.px, first.py);
@@ -118,7 +134,7 @@ function drawBand(g: Graphics, view: View, path: readonly PathPointWire[], halfW
     const p = toScreen(view, path[i].x, path[i].y);
     g.lineTo(p.px, p.py);
   }
-  g.stroke({ width: 2 * halfWidthM * view.scale, color: commandedColour, alpha: 0.08, cap: 'round', join: 'round' });
+  g.stroke({ width: 2 * halfWidthM * view.scale, color: commandedColour, alpha, cap: 'round', join: 'round' });
 }
 
 function drawDashed(g: Graphics, view: View, path: readonly PathPointWire[]): void {

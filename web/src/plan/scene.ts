@@ -76,6 +76,7 @@ export class PlanScene {
     const scene = new PlanScene(app, width, height);
     scene.rendererName = app.renderer.name;
     scene.dots = new DetectionDots(app.renderer, scene.rendererName === 'webgl');
+    scene.paths.useBlendedBand(scene.rendererName === 'webgl');
     scene.world.addChild(scene.trails.live);
     scene.backdropContent.addChild(scene.staticLayer.container, scene.dots.fixedContainer, scene.trails.settled);
     app.stage.addChild(scene.backdropSprite, scene.world, scene.paths.container,

@@ -2,7 +2,7 @@
  * Folds validated server messages into the dashboard state. Pure apart from mutating `state`,
  * which keeps it testable without a socket or a browser.
  */
-import type { ServerMessage, TrackWire } from '../../../bridge/server/protocol.ts';
+import type { ComparisonFigures, ServerMessage, TrackWire } from '../../../bridge/server/protocol.ts';
 import type { HistoryRing } from './ring.ts';
 import { POSITIONER_PATH_ID } from '../../../bridge/server/protocol.ts';
 import { extendPositionerPath } from './positioner-path.ts';
@@ -38,6 +38,7 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       // a single unnamed one may be a positioner-built one.
       state.commandedExplicit = msg.commandedFrom !== undefined ? msg.commandedFrom === 'whole' : msg.commandedPaths !== undefined;
       setCommandedPaths(state, msg.commandedPaths ?? (msg.commanded.length ? [{ target: '', path: msg.commanded.slice() }] : []));
+      loadComparisonHistory(state, msg.comparisonHistory ?? [], limits);
       pruneDetections(state, limits);
       return;
     case 'scan': {
@@ -95,6 +96,21 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
       state.lastError = { code: msg.code, message: msg.message };
       return;
   }
+}
+
+/**
+ * The running-RMSE charts from a snapshot's history (the bridge's figures since the run's start):
+ * only the RMSE and the time are known of those points.
+ */
+function loadComparisonHistory(state: DashboardState, history: readonly { pathId: string; points: readonly number[] }[], limits: StateLimits): void {
+  const points: ComparisonFigures[] = [];
+  for (const h of history) {
+    for (let i = 0; i + 1 < h.points.length; i += 2) {
+      points.push({ timeS: h.points[i], samples: 0, rmseM: h.points[i + 1], crossTrackM: null, alongTrackM: null, maxErrorM: null, lagS: null, trackId: null, pathId: h.pathId });
+    }
+  }
+  points.sort((a, b) => a.timeS - b.timeS);
+  state.comparisonHistory = points.slice(-limits.comparisonPoints);
 }
 
 /** True when `pathId` names a path this dashboard builds from its positioner's samples. */
