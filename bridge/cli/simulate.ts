@@ -22,6 +22,27 @@ const number = (v: string) => {
   if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('not a number');
   return n;
 };
+// Option values are checked here, while parsing, so a bad one is a usage error (exit 2) before
+// anything is written; resolveScenarioOptions checks scenario files again when the run starts.
+// σ = 0 is a noise-free run and a rate or lag of 0 means none, so only negatives are wrong
+// (resolveScenarioOptions would otherwise clamp them to 0 without a word).
+const nonNegative = (unit: string) => (v: string) => {
+  const n = number(v);
+  if (n < 0) throw new InvalidArgumentError(`must be ≥ 0 ${unit} (got ${v} ${unit})`);
+  return n;
+};
+const probability = (v: string) => {
+  const n = number(v);
+  if (n < 0 || n > 1) throw new InvalidArgumentError(`must be between 0 and 1 (got ${v})`);
+  return n;
+};
+const integer = (v: string) => {
+  const n = number(v);
+  // The generator takes a 32-bit state: a fraction would be cut off without a word (1.5 → 1), and
+  // past 2⁵³ the digits typed are not the number used.
+  if (!Number.isSafeInteger(n)) throw new InvalidArgumentError(`must be an integer (got ${v})`);
+  return n;
+};
 const pair = (v: string) => {
   const parts = v.split(',').map(Number);
   if (parts.length !== 2 || parts.some((p) => !Number.isFinite(p))) throw new InvalidArgumentError('expected x,y in metres, e.g. 0.05,-0.08');
@@ -34,26 +55,26 @@ function program(): Command {
     .option('--scenario <name|file.json>', `built-in scenario name or a scenario JSON file (built-ins: ${[...Object.keys(SCENARIOS), 'crowd'].join(', ')})`, 'rail-sweep')
     .option('--list', 'list the built-in scenarios and exit')
     .option('--print-scenario', 'print the scenario (after overrides) as JSON and exit')
-    .option('--seed <n>', 'PRNG seed (integer; default: the scenario\'s, else 1)', number)
+    .option('--seed <n>', 'PRNG seed (integer; default: the scenario\'s, else 1)', integer)
     .option('--duration <s>', 'run length, seconds (default: the scenario\'s, else 60)', number)
     .option('--out <path>', 'detections CSV, columns time_s,azimuth_deg,range_m,amplitude; - for stdout', pathArg, '-')
     .option('--truth <path>', 'truth CSV, radar frame: time_s,target_id,x_m,y_m,vx_mps,vy_mps (default: not written)', pathArg)
     .option('--commanded <path>', 'commanded path CSV, positioner frame: time_s,target_id,x_m,y_m; a path containing {id} gives one file per target (default: not written)', pathArg)
     .option('--targets <n>', 'number of targets for the crowd scenario', number, 100)
     .option('--antenna <mode>', 'rotating or staring (default: the scenario\'s, else rotating)')
-    .option('--period <s>', 'revolution period of a rotating antenna, seconds (default: 1)', number)
-    .option('--rate <hz>', 'looks per second of a staring antenna, Hz (default: 200)', number)
-    .option('--sigma-range <m>', 'range noise std, metres (default: 0.05)', number)
-    .option('--sigma-azimuth <deg>', 'azimuth noise std, degrees (default: 1.5)', number)
-    .option('--pd <p>', 'probability of detection of every target per look, 0–1 (default: 0.95)', number)
-    .option('--false-alarm-rate <hz>', 'mean false alarms per second over the coverage (default: 0.5)', number)
-    .option('--range-offset <m>', 'range error to simulate: measured = scale·true + offset, metres (default: 0)', number)
-    .option('--range-scale <x>', 'range scale error, unitless (default: 1)', number)
-    .option('--azimuth-offset <deg>', 'azimuth error to simulate, degrees (default: 0)', number)
-    .option('--frame-rotation <deg>', 'positioner frame rotation, counter-clockwise, degrees (default: 0)', number)
-    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default: 0,0)', pair)
-    .option('--lag <s>', 'positioner following lag: truth = command delayed by this, seconds (default: 0)', number)
-    .option('--truth-rate <hz>', 'sample rate of the truth and commanded files, Hz (default: 10)', number)
+    .option('--period <s>', 'revolution period of a rotating antenna, seconds (default: the scenario\'s, else 1)', number)
+    .option('--rate <hz>', 'looks per second of a staring antenna, Hz (default: the scenario\'s, else 200)', number)
+    .option('--sigma-range <m>', 'range noise std, metres, ≥ 0 (default: the scenario\'s, else 0.05)', nonNegative('m'))
+    .option('--sigma-azimuth <deg>', 'azimuth noise std, degrees, ≥ 0 (default: the scenario\'s, else 1.5)', nonNegative('degrees'))
+    .option('--pd <p>', 'probability of detection of every target per look, 0–1 (default: the scenario\'s, else 0.95)', probability)
+    .option('--false-alarm-rate <hz>', 'mean false alarms per second over the coverage, Hz, ≥ 0 (default: the scenario\'s, else 0.5)', nonNegative('Hz'))
+    .option('--range-offset <m>', 'range error to simulate: measured = scale·true + offset, metres (default: the scenario\'s, else 0)', number)
+    .option('--range-scale <x>', 'range scale error, unitless (default: the scenario\'s, else 1)', number)
+    .option('--azimuth-offset <deg>', 'azimuth error to simulate, degrees (default: the scenario\'s, else 0)', number)
+    .option('--frame-rotation <deg>', 'positioner frame rotation, counter-clockwise, degrees (default: the scenario\'s, else 0)', number)
+    .option('--frame-translation <x,y>', 'positioner frame origin in the radar frame, metres (default: the scenario\'s, else 0,0)', pair)
+    .option('--lag <s>', 'positioner following lag: truth = command delayed by this, seconds, ≥ 0 (default: the scenario\'s, else 0)', nonNegative('s'))
+    .option('--truth-rate <hz>', 'sample rate of the truth and commanded files, Hz (default: the scenario\'s, else 10)', number)
     .exitOverride()
     .configureOutput({ writeOut: (s) => process.stdout.write(s), writeErr: (s) => process.stderr.write(s) });
 }
