@@ -29,6 +29,36 @@ describe('renderReport', () => {
   });
 });
 
+describe('report wording', () => {
+  // A run where the followed track 11 strayed, and where the live track's lag rounds to zero.
+  const strayed = { ...a, releases: [{ timeS: 8.97, id: 11, distanceM: 2.92 }] };
+  const text = (h: string) => h.replace(/<[^>]*>/g, ' ').replace(/\s+/g, ' ');
+
+  it('says a release distance is from the commanded position, not from the path', () => {
+    const h = renderReport({ ...strayed, filteredLag: { ...a.filteredLag, lagS: null } }, meta, { title: 't', generatedUtc: 'x' });
+    expect(text(h)).toContain(`Track 11 strayed 2.92 m from its commanded position at 8.97 s (release distance ${a.settings.follow.releaseM.toFixed(2)} m) and stopped counting as the followed track.`);
+    expect(h).not.toContain('from the commanded path at');
+  });
+
+  it('names the command instant when the follower compared with a lag', () => {
+    const h = renderReport({ ...strayed, filteredLag: { ...a.filteredLag, lagS: 0.31 } }, meta, { title: 't', generatedUtc: 'x' });
+    expect(text(h)).toContain(esc("from its commanded position at 8.97 s (release distance 2.00 m; compared with the command at 8.66 s to allow for the live track's 0.31 s lag)"));
+  });
+
+  it('labels the chart marker of a release readably, with the full sentence as its tooltip', () => {
+    const h = renderReport(strayed, meta, { title: 't', generatedUtc: 'x' });
+    expect(h).toContain('>T11 off by 2.9 m');
+    expect(h).toMatch(/<line class="marker"[^>]*><title>Track 11 strayed 2\.92 m from its commanded position/);
+    expect(h).not.toMatch(/id \d+ strayed/);
+  });
+
+  it('prints a lag that rounds to zero without a sign', () => {
+    const h = renderReport({ ...a, lagSource: 'smoothed', filteredLag: { ...a.filteredLag, lagS: -0.001 } }, meta, { title: 't', generatedUtc: 'x' });
+    expect(h).toContain('live track 0.00 s (with filter lag)');
+    expect(h).not.toMatch(/[−-]0\.0+ s/);
+  });
+});
+
 describe('summary and series', () => {
   it('summary carries the ratio of smoothed to filtered RMSE and one series row per followed update', () => {
     const s = buildSummary(a, meta) as { smoothed_to_filtered_rmse: number; legs: unknown[] };

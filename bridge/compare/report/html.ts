@@ -7,7 +7,7 @@ import type { Analysis } from '../analyse.ts';
 import type { SummaryMeta } from '../summary.ts';
 import { REPORT_CSS } from './style.ts';
 import { cell, legTable, wholeRunTable } from './tables.ts';
-import { esc, planPlot, timePlot, type Series } from './svg.ts';
+import { esc, planPlot, timePlot, type Marker, type Series } from './svg.ts';
 
 /** Report settings. */
 export interface ReportOptions {
@@ -62,6 +62,37 @@ function lagNote(a: Analysis): string {
   return `${est}${ci}, ${a.lagSource} track${live}`;
 }
 
+/**
+ * The lag the follower compared with when it picked the followed track (analyse.ts picks again with
+ * the live track's lag once that is known), seconds; 0 when it compared at equal times.
+ */
+function followLagS(a: Analysis): number {
+  return a.filteredLag.lagS || 0;
+}
+
+/**
+ * Why a track lost the followed role. The distance is to the commanded position at that instant
+ * (shifted by the follow lag), not to the nearest point of the path: a track that runs on the path
+ * but far behind the command strays too.
+ */
+function releaseSentence(a: Analysis, r: Analysis['releases'][number]): string {
+  const lagS = followLagS(a);
+  const shifted = lagS === 0 ? '' : `; compared with the command at ${cell(r.timeS - lagS, 2)} s to allow for the live track's ${cell(lagS, 2)} s lag`;
+  return `Track ${r.id} strayed ${cell(r.distanceM, 2)} m from its commanded position at ${cell(r.timeS, 2)} s (release distance ${cell(a.settings.follow.releaseM, 2)} m${shifted}) and stopped counting as the followed track.`;
+}
+
+/** Chart markers: changes of the followed track and releases, in the dashboard's "T<id>" naming. */
+function followMarkers(a: Analysis): Marker[] {
+  return [
+    ...a.switches.slice(1).map((s) => ({
+      x: s.timeS,
+      label: s.from === null ? `→ T${s.to}` : `T${s.from}→T${s.to}`,
+      title: `followed track ${s.from === null ? '(none)' : s.from} → ${s.to} at ${cell(s.timeS, 2)} s`,
+    })),
+    ...a.releases.map((r) => ({ x: r.timeS, label: `T${r.id} off by ${cell(r.distanceM, 1)} m`, title: releaseSentence(a, r) })),
+  ];
+}
+
 /** Render the report. */
 export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): string {
   const rows = a.followed;
@@ -72,10 +103,7 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
   const wf = a.whole.filtered;
   const ws = a.whole.smoothed;
   const ratio = ws && wf.aligned.position.rmse ? (ws.aligned.position.rmse ?? NaN) / wf.aligned.position.rmse : null;
-  const markers = [
-    ...a.switches.slice(1).map((s) => ({ x: s.timeS, label: s.from === null ? `→ id ${s.to}` : `id ${s.from}→${s.to}` })),
-    ...a.releases.map((r) => ({ x: r.timeS, label: `id ${r.id} strayed` })),
-  ];
+  const markers = followMarkers(a);
 
   const cards = [
     card('trk', 'position RMSE, filtered', `${cell(wf.noLag.position.rmse)} m`, `lag removed ${cell(wf.aligned.position.rmse)} m`),
@@ -99,7 +127,7 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
       { x: cmdPts[0][0], y: cmdPts[0][1], label: 'commanded start', color: C.cmd },
       ...a.switches.slice(1).flatMap((s) => {
         const r = rows.find((q) => q.timeS === s.timeS && q.id === s.to);
-        return r ? [{ x: r.x, y: r.y, label: `followed track ${s.from ?? '(none)'} → ${s.to} at ${s.timeS.toFixed(2)} s`, color: C.miss }] : [];
+        return r ? [{ x: r.x, y: r.y, label: `followed track ${s.from ?? '(none)'} → ${s.to} at ${cell(s.timeS, 2)} s`, color: C.miss }] : [];
       }),
     ],
   );
@@ -134,14 +162,14 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
   const lagPlot = a.lag.curve.length
     ? timePlot(lagCurves,
       { id: 'lag', width: 470, height: 260, xLabel: 'candidate lag, s (track behind command +)', yLabel: 'RMS distance, m',
-        markers: a.lag.lagS === null ? [] : [{ x: a.lag.lagS, label: `${a.lag.lagS.toFixed(3)} s` }],
+        markers: a.lag.lagS === null ? [] : [{ x: a.lag.lagS, label: `${cell(a.lag.lagS, 3)} s` }],
         band: ci ? { from: ci.lowS, to: ci.highS, label: `${Math.round(ci.level * 100)} % confidence interval of the lag` } : undefined })
     : '<p class="note">The commanded path does not move over the compared samples: no lag can be estimated.</p>';
 
   const warnings = [...meta.warnings];
-  if (a.coverage.confirmedFraction < 0.8) warnings.push(`The target was held by a confirmed track for only ${(a.coverage.confirmedFraction * 100).toFixed(0)} % of the run.`);
+  if (a.coverage.confirmedFraction < 0.8) warnings.push(`The target was held by a confirmed track for only ${cell(a.coverage.confirmedFraction * 100, 0)} % of the run.`);
   if (!sm) warnings.push('The tracks carry no measurement columns: no smoothed figures.');
-  for (const r of a.releases) warnings.push(`Track ${r.id} strayed ${r.distanceM.toFixed(2)} m from the commanded path at ${r.timeS.toFixed(2)} s and stopped counting as the followed track.`);
+  for (const r of a.releases) warnings.push(releaseSentence(a, r));
 
   const ids = a.switches.map((s) => s.to);
   return `<!doctype html>

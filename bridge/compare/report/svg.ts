@@ -16,6 +16,15 @@ export interface Series {
   width?: number;
 }
 
+/** A vertical marker line of a time plot. */
+export interface Marker {
+  x: number;
+  /** Short text printed beside the line (when there is room). */
+  label: string;
+  /** Tooltip of the line (default: the label): room for the whole sentence. */
+  title?: string;
+}
+
 /** Chart frame. */
 export interface ChartOptions {
   /** Unique within the page (names the clip path). */
@@ -27,7 +36,7 @@ export interface ChartOptions {
   /** Draw y = 0 as a reference line. */
   zeroLine?: boolean;
   /** Vertical markers (e.g. track id changes) at these x. */
-  markers?: { x: number; label: string }[];
+  markers?: Marker[];
   /** Symmetric y range around 0 (signed errors). */
   symmetric?: boolean;
   /** A shaded x interval (e.g. a confidence interval), with its tooltip. */
@@ -62,9 +71,19 @@ function ticksAt(lo: number, hi: number, step: number): number[] {
   return out;
 }
 
+/**
+ * A number already formatted (toFixed, toPrecision…) as the report shows it: with the true minus
+ * sign U+2212 (a hyphen reads as a dash in a column of figures), and without a sign when it rounds
+ * to zero: "−0.00 s" would claim a measured negative that the digits do not show.
+ */
+export function reportNumber(text: string): string {
+  if (/^-[0.]+$/.test(text)) return text.slice(1);
+  return text.replace(/-/g, '−');
+}
+
 function fmt(v: number): string {
   const a = Math.abs(v);
-  return a !== 0 && (a < 0.01 || a >= 1e4) ? v.toExponential(1) : String(Number(v.toPrecision(4)));
+  return reportNumber(a !== 0 && (a < 0.01 || a >= 1e4) ? v.toExponential(1) : String(Number(v.toPrecision(4))));
 }
 
 /** Keep at most ~max points per series (every k-th, plus each bucket's extreme), to bound file size. */
@@ -104,19 +123,24 @@ const M = { left: 58, right: 14, top: 12, bottom: 40 };
 /** Width of a marker label, px: the report's 10 px sans-serif averages under 6 px a character. */
 const LABEL_CHAR_PX = 6;
 
+/** What a labelled marker adds for the unlabelled ones after it: a bare "+1" read as part of the label. */
+function moreSuffix(hidden: number): string {
+  return ` (+${hidden} more)`;
+}
+
 /**
  * Which marker lines get a label: left to right, a label only where it clears the one before, so
  * that a burst of track switches does not print over itself. A labelled marker says how many
- * unlabelled ones follow before the next label ("+3"); every line keeps its own text as a tooltip.
+ * unlabelled ones follow before the next label ("(+3 more)"); every line keeps its own tooltip.
  */
-export function placeMarkerLabels(markers: { x: number; label: string }[], sx: (v: number) => number): { x: number; label: string; title: string }[] {
+export function placeMarkerLabels(markers: Marker[], sx: (v: number) => number): { x: number; label: string; title: string }[] {
   const sorted = [...markers].sort((a, b) => a.x - b.x);
-  const out = sorted.map((m) => ({ x: m.x, label: '', title: m.label }));
+  const out = sorted.map((m) => ({ x: m.x, label: '', title: m.title ?? m.label }));
   let last = -1;
   let freeFromPx = -Infinity;
   let hidden = 0;
   const closeGroup = () => {
-    if (last >= 0 && hidden > 0) out[last].label += ` +${hidden}`;
+    if (last >= 0 && hidden > 0) out[last].label += moreSuffix(hidden);
     hidden = 0;
   };
   sorted.forEach((m, i) => {
@@ -125,8 +149,8 @@ export function placeMarkerLabels(markers: { x: number; label: string }[], sx: (
       closeGroup();
       out[i].label = m.label;
       last = i;
-      // Room for the label and a possible " +N" suffix.
-      freeFromPx = px + 3 + (m.label.length + 4) * LABEL_CHAR_PX;
+      // Room for the label and a possible " (+N more)" suffix.
+      freeFromPx = px + 3 + (m.label.length + moreSuffix(99).length) * LABEL_CHAR_PX;
     } else hidden++;
   });
   closeGroup();

@@ -1,12 +1,11 @@
 /** HTML tables of the report: whole-run figures and per-leg figures. */
 import type { Analysis, SummaryPair } from '../analyse.ts';
 import type { DeviationSummary, ErrorFigures } from '../stats.ts';
-import { esc } from './svg.ts';
+import { esc, reportNumber } from './svg.ts';
 
-/** A number for a table cell: fixed digits, an en dash for "no value". */
+/** A number for a table cell or a sentence: fixed digits (signs as reportNumber), an en dash for "no value". */
 export function cell(v: number | null | undefined, digits = 3): string {
-  // A true minus sign: hyphens look like dashes in a column of figures.
-  return v === null || v === undefined || !Number.isFinite(v) ? '–' : v.toFixed(digits).replace(/^-/, '−');
+  return v === null || v === undefined || !Number.isFinite(v) ? '–' : reportNumber(v.toFixed(digits));
 }
 
 const QUANTITIES: { key: keyof DeviationSummary; label: string; digits: number; signed: boolean }[] = [
