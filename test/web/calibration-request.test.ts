@@ -21,6 +21,13 @@ describe('calibration requests', () => {
     const r = frameRequest([det(1)], [{ timeS: 0, x: 0, y: 1 }, { timeS: 1, x: 1, y: 1 }], '');
     expect(r.action).toBe('frame');
     expect(r.commanded).toHaveLength(2);
+    expect(r).not.toHaveProperty('allowCollinear');
+  });
+
+  it('asks the frame fit to accept a straight path only when the panel allows it', () => {
+    const rail = [{ timeS: 0, x: -1, y: 3 }, { timeS: 10, x: 1, y: 3 }];
+    expect(frameRequest([det(1)], rail, '', true)).toMatchObject({ action: 'frame', allowCollinear: true });
+    expect(frameRequest([det(1)], rail, '', false)).not.toHaveProperty('allowCollinear');
   });
 
   it('accepts the API answers and refuses anything else', () => {
@@ -41,6 +48,12 @@ describe('calibration requests', () => {
       { label: 'some other m', value: '1.0000 m' },
       { label: 'verdict', value: 'consistent' },
     ]);
+  });
+
+  it('shows negatives with the minus sign and values that round to zero without a sign', () => {
+    const rows = summaryRows({ rangeOffsetM: -0.0443, azimuthOffsetDeg: -1.5, rangeScale: 1, rotationDeg: -0.0001, translationXM: -0.00004, pairs: -2 });
+    expect(rows.map((r) => r.value)).toEqual(['−0.0443 m', '−1.500°', '1.00000 (×)', '0.000°', '0.0000 m', '−2']);
+    expect(rows.map((r) => r.value).join(' ')).not.toContain('-');
   });
 });
 

@@ -33,11 +33,17 @@ export function offsetsRequest(spots: readonly MeasuredSpot[], dets: readonly De
   };
 }
 
-export function frameRequest(dets: readonly DetectionWire[], commanded: readonly PathPointWire[], measuredBy: string) {
+/**
+ * `allowStraightPath` lets the fit accept a straight commanded path (a rail run), which the API
+ * otherwise refuses: the rotation then comes from the line's direction and the cross-track offsets,
+ * and a tracking lag along the line is taken up by the shift along it (bridge/calibrate/rigid-fit.ts).
+ */
+export function frameRequest(dets: readonly DetectionWire[], commanded: readonly PathPointWire[], measuredBy: string, allowStraightPath = false) {
   return {
     action: 'frame' as const,
     detections: requestDetections(dets),
     commanded: commanded.map((p) => ({ timeS: p.timeS, x: p.x, y: p.y })),
+    ...(allowStraightPath ? { allowCollinear: true } : {}),
     ...(measuredBy.trim() ? { measuredBy: measuredBy.trim() } : {}),
   };
 }
@@ -94,11 +100,20 @@ export function summaryRows(summary: Record<string, number | string | boolean>):
   });
 }
 
+/**
+ * Fixed digits with the minus sign "−" (U+2212) the dashboard shows for negatives, and no sign when
+ * the value rounds to zero: "−0.0000 m" would claim an offset the digits do not show.
+ */
+function fixed(v: number, digits: number): string {
+  const text = Math.abs(v).toFixed(digits);
+  return v < 0 && Number(text) !== 0 ? `−${text}` : text;
+}
+
 function withUnit(v: number, unit: 'm' | 'deg' | 'ratio' | 'count' | undefined): string {
-  if (unit === 'm') return `${v.toFixed(4)} m`;
-  if (unit === 'deg') return `${v.toFixed(3)}°`;
-  if (unit === 'ratio') return `${v.toFixed(5)} (×)`;
-  return Number.isInteger(v) ? String(v) : v.toFixed(4);
+  if (unit === 'm') return `${fixed(v, 4)} m`;
+  if (unit === 'deg') return `${fixed(v, 3)}°`;
+  if (unit === 'ratio') return `${fixed(v, 5)} (×)`;
+  return Number.isInteger(v) ? fixed(v, 0) : fixed(v, 4);
 }
 
 /** One measured spot's residuals as the offsets answer gives them (bridge/calibrate/api.ts). */
@@ -125,7 +140,11 @@ export interface SpotRow {
   azimuthFlagged: boolean;
 }
 
-const signed = (v: number, digits: number) => `${v < 0 && Number(Math.abs(v).toFixed(digits)) !== 0 ? '−' : '+'}${Math.abs(v).toFixed(digits)}`;
+/** As `fixed`, with "+" on values that are not negative (a residual reads as a direction). */
+const signed = (v: number, digits: number) => {
+  const text = fixed(v, digits);
+  return text.startsWith('−') ? text : `+${text}`;
+};
 
 /** The per-spot residual table of an offsets fit; entries that do not read as a spot are left out. */
 export function spotRows(reflectors: readonly Record<string, unknown>[] | undefined): SpotRow[] {
