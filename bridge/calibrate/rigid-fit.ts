@@ -88,7 +88,7 @@ export function fitRigid2D(p: XY[], q: XY[], options?: RigidFitOptions, w?: numb
     throw new EchotrailError('E_CALIBRATION', `frame fit: the positions spread only ${(Math.sqrt(tr / sw) * 100).toFixed(1)} cm about their centre (need ≥ ${o.minSpreadM * 100} cm): the rotation is undetermined; use a run that moves`);
   }
   if (!o.allowCollinear && l2 < 1e-3 * l1) {
-    throw new EchotrailError('E_CALIBRATION', 'frame fit: the positions lie on a straight line, so tracking lag along it cannot be told from a shift; use a 2-D path (circle, figure-eight, waypoints) or allow collinear points');
+    throw new EchotrailError('E_CALIBRATION', 'frame fit: the positions lie on a straight line, so tracking lag along it cannot be told from a shift; use a 2-D path (circle, figure-eight, waypoints), or accept that (calibrate frame --allow-line; "Allow a straight-line path" in the dashboard)');
   }
   const phi = Math.atan2(num, den);
   const c = Math.cos(phi), s = Math.sin(phi);
