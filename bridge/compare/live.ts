@@ -103,7 +103,11 @@ export class LiveComparison {
   private rmseHistory: number[] = [];
   private historyStep = 0;
 
-  constructor(options: Partial<LiveComparisonOptions> = {}) {
+  /**
+   * @param followedElsewhere true for a track another path's comparison follows (several
+   *   carriages): this one does not take it, so a neighbour's track never sets its figures
+   */
+  constructor(options: Partial<LiveComparisonOptions> = {}, private readonly followedElsewhere: ((trackId: number) => boolean) | null = null) {
     this.o = resolveLiveComparisonOptions(options);
     this.follower = new TrackFollower(this.o.follow);
     this.historyStep = this.o.historyStepS;
@@ -155,6 +159,11 @@ export class LiveComparison {
     this.trimPath();
   }
 
+  /** The track these figures follow now (null: none). */
+  get followedId(): number | null {
+    return this.follower.currentId;
+  }
+
   /** Points of the commanded path currently kept (bounded for positioner-fed runs). */
   get pathPoints(): number {
     return this.raw.length;
@@ -162,7 +171,7 @@ export class LiveComparison {
 
   /** Feed one track update (any track, any status); the figures move when it is the followed one. */
   update(u: TrackUpdate): void {
-    if (!this.path || u.timeS > this.endS()) {
+    if (!this.path || this.lookupS(u) > this.endS()) {
       if (this.pending.length >= this.o.maxPending) this.pending.shift();
       this.pending.push(u);
       return;
@@ -263,15 +272,24 @@ export class LiveComparison {
   }
 
   private flushPending(): void {
-    while (this.path && this.pending.length && this.pending[0].timeS <= this.endS()) this.consume(this.pending.shift()!);
+    while (this.path && this.pending.length && this.lookupS(this.pending[0]) <= this.endS()) this.consume(this.pending.shift()!);
+  }
+
+  /**
+   * Where on the path an update is compared: its time less the lag. A track ahead of its
+   * command (negative lag) is compared with a command the positioner has not reported yet, so
+   * the update waits for it rather than fall off the path's end.
+   */
+  private lookupS(u: TrackUpdate): number {
+    return u.timeS - (this.lagS ?? 0);
   }
 
   private consume(u: TrackUpdate): void {
     const path = this.path!;
     const row = rowFromUpdate(u);
     this.newestS = Math.max(this.newestS ?? -Infinity, u.timeS);
-    const c = sampleAt(path, u.timeS - (this.lagS ?? 0));
-    if (!c.inside || !this.follower.offer(row, c.x, c.y)) return;
+    const c = sampleAt(path, this.lookupS(u));
+    if (!c.inside || (this.followedElsewhere?.(u.id) && this.follower.currentId !== u.id) || !this.follower.offer(row, c.x, c.y)) return;
     const d = deviationAt(path, row);
     this.n++;
     this.sumSq += d.positionM ** 2;
@@ -324,11 +342,15 @@ export class MultiPathComparison {
     this.comparisonOf(s.target ?? POSITIONER_PATH_ID).addPositioner(s);
   }
 
-  /** The comparison of one path, made on first use. */
+  /** The comparison of one path, made on first use; it leaves alone the tracks the others follow. */
   private comparisonOf(path: string): LiveComparison {
     let live = this.byPath.get(path);
     if (!live) {
-      live = new LiveComparison(this.options);
+      const own: LiveComparison = new LiveComparison(this.options, (id) => {
+        for (const other of this.byPath.values()) if (other !== own && other.followedId === id) return true;
+        return false;
+      });
+      live = own;
       this.byPath.set(path, live);
     }
     return live;

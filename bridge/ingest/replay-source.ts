@@ -102,10 +102,14 @@ export class ReplaySource extends EventEmitter implements Source, ReplayControl 
 
   seek(timeS: number): void {
     if (!this.timeline || !Number.isFinite(timeS)) return;
+    const wasEnded = this.ended;
     this.reposition(Math.min(Math.max(timeS, 0), this.timeline.durationS), true);
     if (this.playing) {
       this.anchor();
       this.schedule(0);
+    } else if (wasEnded) {
+      // Back from the end the replay is paused again, not still "ended".
+      this.emit('state', 'paused');
     }
   }
 

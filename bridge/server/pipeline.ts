@@ -348,7 +348,7 @@ export class Pipeline extends EventEmitter {
       this.seek.queueFromNow();
       const fresh = this.options.createComparison();
       try {
-        if (await rebuildComparison(src, fresh, timeS, () => !this.seek.isCurrent(epoch))) this.comparison = fresh;
+        if (await rebuildComparison(src, fresh, this.state, timeS, () => !this.seek.isCurrent(epoch))) this.comparison = fresh;
       } catch (err) {
         this.options.log(`rebuilding the comparison after seek to ${timeS} s: ${(err as Error).message}`);
       }

@@ -57,15 +57,17 @@ export async function rebuildAfterSeek(
 /**
  * Feeds `comparison` (a fresh one) every commanded path, positioner sample, track update and
  * deletion a recorded session holds before `timeS`, so its figures are those of the run played
- * through to there. Returns false when the source offers no history or when `abandoned()` turned
- * true.
+ * through to there; and builds the state's paths from positioner samples again the same way (the
+ * ones held reach past a seek back, and the re-sent state holds no positioner history). Returns
+ * false when the source offers no history or when `abandoned()` turned true.
  */
-export async function rebuildComparison(source: ReplaySourceLike, comparison: LiveComparisonLike, timeS: number, abandoned: () => boolean): Promise<boolean> {
+export async function rebuildComparison(source: ReplaySourceLike, comparison: LiveComparisonLike, state: LiveState, timeS: number, abandoned: () => boolean): Promise<boolean> {
   if (typeof source.recordsUntil !== 'function') return false;
   let n = 0;
+  state.clearPositionerPaths();
   for await (const r of source.recordsUntil(timeS)) {
     if (r.kind === 'commanded') comparison.commanded(r.path, r.target);
-    else if (r.kind === 'positioner') comparison.positioner(r.sample);
+    else if (r.kind === 'positioner') (comparison.positioner(r.sample), state.addPositioner(r.sample));
     else if (r.kind === 'track') comparison.update(r.update);
     else if (r.kind === 'deletion') comparison.deletion(r.deletion);
     if (++n % CHUNK === 0) {

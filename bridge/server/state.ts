@@ -186,6 +186,16 @@ export class LiveState {
     return [...this.commandedByTarget].map(([target, path]) => ({ target, path }));
   }
 
+  /**
+   * Forgets the paths built from positioner samples (a replay seek: they are built again from the
+   * run's start up to the new time, see rebuild.ts); whole paths stay.
+   */
+  clearPositionerPaths(): void {
+    if (this.commandedExplicit) return;
+    this.positionerPaths.clear();
+    this.commandedPath = [];
+  }
+
   /** Where the paths come from: given whole, built from positioner samples, or none yet. */
   get commandedFrom(): 'whole' | 'positioner' | null {
     return this.commandedExplicit ? 'whole' : this.positionerPaths.size ? 'positioner' : null;

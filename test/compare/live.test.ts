@@ -227,6 +227,40 @@ describe('MultiPathComparison', () => {
     expect(live.paths).toEqual(['2']);
   });
 
+  it("never counts the track another path follows (the crossing carriages' tracks pass close)", () => {
+    const live = new MultiPathComparison();
+    live.setCommanded(A, '1');
+    live.setCommanded(B, '2');
+    // Carriage 2's own track only shows after the crossing (8 s); carriage 1's passes within a
+    // metre of carriage 2's command from about 6 s.
+    for (let t = 0; t <= 14; t += 0.25) {
+      live.update(upd(5, t, at(A, t), 0.01));
+      if (t >= 9) live.update(upd(6, t, at(B, t), -0.03));
+    }
+    const f = live.figures();
+    expect(f.map((x) => [x.pathId, x.trackId])).toEqual([['1', 5], ['2', 6]]);
+    expect(f[1].maxErrorM).toBeCloseTo(0.03, 6);
+  });
+
+  it('a track ahead of its positioner (negative lag) is still compared as the samples come', () => {
+    const live = new LiveComparison({ lagEvery: 5 });
+    let counted = 0;
+    for (let i = 0; i <= 150; i++) {
+      const t = i * 0.1;
+      live.addPositioner({ timeS: t, cmdX: at(A, t).x, cmdY: at(A, t).y });
+      // The track is where the command will be 0.3 s later.
+      if (t >= 0.5) live.update(upd(5, t, at(A, t + 0.3), 0));
+      if (i % 50 === 0 && i > 0) {
+        const n = live.figures().samples;
+        expect(n).toBeGreaterThan(counted);
+        counted = n;
+      }
+    }
+    expect(live.figures().lagS).toBeLessThan(-0.2);
+    // All but the updates waiting for the command 0.3 s ahead of the last sample.
+    expect(live.figures().samples).toBeGreaterThan(140);
+  });
+
   it('named positioners (pos … id=) build a path each, under the names a whole path would have', () => {
     const live = new MultiPathComparison();
     for (let t = 0; t <= 8; t += 0.1) {

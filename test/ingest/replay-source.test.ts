@@ -146,6 +146,17 @@ describe('ReplaySource over a session', () => {
     await h.src.close();
   });
 
+  it('a seek back from the end leaves the replay paused there, no longer ended', async () => {
+    const h = harness(syn.path, { speed: 50 });
+    await h.src.start();
+    h.clock.advance(2000);
+    expect(h.log.at(-1)).toEqual({ ev: 'state', state: 'ended' });
+    h.src.seek(20);
+    expect(h.log.filter((l) => l.ev === 'state').at(-1)).toEqual({ ev: 'state', state: 'paused' });
+    expect(h.src.state()).toMatchObject({ playing: false, positionS: 20 });
+    await h.src.close();
+  });
+
   it('loops: at the end it seeks to 0 and keeps playing', async () => {
     const h = harness(syn.path, { speed: 50, loop: true });
     await h.src.start();

@@ -170,6 +170,31 @@ describe('replay of a recorded session', () => {
     expect(m.figures.maxErrorM).toBeCloseTo(0.2, 9);
   });
 
+  it('a seek back rebuilds the paths of named positioners up to the new time, in time order', async () => {
+    const records: SourceRecord[] = [];
+    for (let i = 0; i <= 300; i++) {
+      const t = i * 0.1;
+      records.push({ kind: 'positioner', sample: { timeS: t, cmdX: -1.5 + 0.1 * t, cmdY: 2.4, target: '1' } });
+      records.push({ kind: 'positioner', sample: { timeS: t, cmdX: 1.5 - 0.1 * t, cmdY: 3.6, target: '2' } });
+      records.push({ kind: 'track', update: trackAt(1, t, -1.5 + 0.1 * t, 2.45) });
+    }
+    const file = recordSession('two-positioners', '2026-01-01T13:00:00Z', records);
+    bridge = await startBridge({ port: 0, replay: file, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 25 });
+    await c.next('snapshot', (x) => x.replay?.positionS === 25);
+    c.send({ type: 'control', action: 'seek', value: 10 });
+    const snap = await c.next('snapshot', (x) => x.replay?.positionS === 10);
+    expect(snap.commandedFrom).toBe('positioner');
+    expect(snap.commandedPaths?.map((p) => p.target)).toEqual(['1', '2']);
+    for (const p of snap.commandedPaths ?? []) {
+      const times = p.path.map((q) => q.timeS);
+      expect(times[0]).toBe(0);
+      expect(times.at(-1)).toBeCloseTo(10, 6);
+      for (let i = 1; i < times.length; i++) expect(times[i]).toBeGreaterThan(times[i - 1]);
+    }
+  });
+
   it('a list of sessions (the demo) keeps the speed chosen on the dashboard when it moves on, and says where it is', async () => {
     const short = recordSession('short', '2026-01-01T11:00:00Z', Array.from({ length: 31 }, (_, i): SourceRecord => ({ kind: 'track', update: trackAt(1, i * 0.1, 0, 2) })));
     bridge = await startBridge({ port: 0, playlist: [short, sessionFile], loop: true, sessionsDir: dir, autoplay: true, speed: 1, log: () => undefined });
