@@ -3,7 +3,7 @@
  * succeeded, so a failed run leaves the previous result as it was (a rename within one folder is
  * atomic on POSIX file systems). Writers stream into `tmp` as they would into the file itself.
  */
-import { statSync } from 'node:fs';
+import { rmSync, statSync } from 'node:fs';
 import { rename, rm } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { EchotrailError } from './errors.ts';
@@ -51,6 +51,7 @@ let counter = 0;
  */
 export async function writeAtomically<T>(paths: readonly string[], body: (tmp: string[]) => Promise<T>): Promise<T> {
   const files = paths.map((p) => (p === '-' ? null : atomicFile(p)));
+  const stopCleanup = removeOnSignal(files.flatMap((f) => (f ? [f.tmp] : [])));
   try {
     const result = await body(files.map((f, i) => f?.tmp ?? paths[i]));
     for (const f of files) await f?.commit();
@@ -58,5 +59,31 @@ export async function writeAtomically<T>(paths: readonly string[], body: (tmp: s
   } catch (err) {
     await Promise.all(files.map((f) => f?.discard()));
     throw err;
+  } finally {
+    stopCleanup();
   }
+}
+
+/** Exit codes of a process ended by a signal, as a shell reports them (128 + its number). */
+const SIGNAL_EXIT: Partial<Record<NodeJS.Signals, number>> = { SIGINT: 130, SIGTERM: 143, SIGHUP: 129 };
+
+/**
+ * Until the returned function is called, Ctrl-C (SIGINT), SIGTERM or SIGHUP removes `tmps` and
+ * ends the process with the signal's usual exit code: an interrupted run must leave the previous
+ * result and nothing else. (`kill -9` cannot be caught: its hidden temporary file, named after
+ * the process, stays beside the result.)
+ */
+function removeOnSignal(tmps: readonly string[]): () => void {
+  if (tmps.length === 0) return () => undefined;
+  const handlers = (Object.keys(SIGNAL_EXIT) as NodeJS.Signals[]).map((signal) => {
+    const handler = () => {
+      for (const t of tmps) rmSync(t, { force: true });
+      process.exit(SIGNAL_EXIT[signal]);
+    };
+    process.once(signal, handler);
+    return [signal, handler] as const;
+  });
+  return () => {
+    for (const [signal, handler] of handlers) process.off(signal, handler);
+  };
 }
