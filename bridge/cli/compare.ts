@@ -77,7 +77,7 @@ interface Parsed {
 
 /** The lag's confidence interval for the summary line: ` (95 % CI −0.023…0.038 s, not significant)`. */
 function lagNote(ci: LagInterval | null): string {
-  if (!ci) return '';
+  if (!ci) return ' (too few samples for an interval)';
   const verdict = ci.undetermined ? 'undetermined' : ci.significant ? 'significant' : 'not significant';
   return ` (${Math.round(ci.level * 100)} % CI ${ci.lowS.toFixed(3)}…${ci.highS.toFixed(3)} s, ${verdict})`;
 }

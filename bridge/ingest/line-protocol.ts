@@ -101,6 +101,7 @@ function parsePositioner(fields: string[]): PositionerSample | string {
   let f = fields;
   let target: string | undefined;
   const last = f[f.length - 1];
+  if (f.filter((t) => t.startsWith('id=')).length > 1) return 'id= given more than once';
   if (last?.startsWith('id=')) {
     target = last.slice(3);
     if (!POSITIONER_ID_RE.test(target)) return `id '${target.slice(0, 40)}' must be 1–32 letters, digits, '_', '.' or '-'`;

@@ -115,6 +115,7 @@ describe('hostile lines are refused with a reason, never thrown', () => {
     expect(reason(withCrc('pos 1 2 3 4 id=2'))).toMatch(/pos takes 3 or 5 numbers \(then optionally id=<name>\), got 4/);
     expect(reason(withCrc('pos 1 2 3 id='))).toMatch(/id '' must be 1–32 letters/);
     expect(reason(withCrc('pos 1 2 3 id=a,b'))).toMatch(/id 'a,b' must be/);
+    expect(reason(withCrc('pos 1 2 3 id=a id=b'))).toMatch(/id= given more than once/);
     expect(reason(withCrc('det 1 360 1 1'))).toMatch(/outside \[0, 360\)/);
     expect(reason(withCrc('det -1 10 1 1'))).toMatch(/negative/);
     expect(reason(withCrc('det 1 10 1 0'))).toMatch(/not positive/);

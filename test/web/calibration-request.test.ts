@@ -39,11 +39,12 @@ describe('calibration requests', () => {
   });
 
   it('labels summary figures with their units', () => {
-    const rows = summaryRows({ rangeOffsetM: 0.1234, azimuthOffsetDeg: 2.01, rangeScale: 1.004, detectionsUsed: 812, someOtherM: 1, verdict: 'consistent' });
+    const rows = summaryRows({ rangeOffsetM: 0.1234, azimuthOffsetDeg: 2.01, rangeScale: 1.004, rangeScaleSe: 0.0012, detectionsUsed: 812, someOtherM: 1, verdict: 'consistent' });
     expect(rows).toEqual([
       { label: 'Range offset', value: '0.1234 m' },
       { label: 'Azimuth offset', value: '2.010°' },
       { label: 'Range scale', value: '1.00400 (×)' },
+      { label: 'Range scale, std. error', value: '0.00120 (×)' },
       { label: 'Detections used', value: '812' },
       { label: 'some other m', value: '1.0000 m' },
       { label: 'verdict', value: 'consistent' },
@@ -52,8 +53,15 @@ describe('calibration requests', () => {
 
   it('shows negatives with the minus sign and values that round to zero without a sign', () => {
     const rows = summaryRows({ rangeOffsetM: -0.0443, azimuthOffsetDeg: -1.5, rangeScale: 1, rotationDeg: -0.0001, translationXM: -0.00004, pairs: -2 });
-    expect(rows.map((r) => r.value)).toEqual(['−0.0443 m', '−1.500°', '1.00000 (×)', '0.000°', '0.0000 m', '−2']);
+    expect(rows.map((r) => r.value)).toEqual(['−0.0443 m', '−1.500°', '1.00000 (×), not fitted', '0.000°', '0.0000 m', '−2']);
     expect(rows.map((r) => r.value).join(' ')).not.toContain('-');
+  });
+});
+
+describe('range scale held at 1', () => {
+  it('reads "not fitted" when the fit sent no standard error for it', () => {
+    expect(summaryRows({ rangeScale: 1 })).toEqual([{ label: 'Range scale', value: '1.00000 (×), not fitted' }]);
+    expect(summaryRows({ rangeScale: 1.004, rangeScaleSe: 0.001 })[0]).toEqual({ label: 'Range scale', value: '1.00400 (×)' });
   });
 });
 

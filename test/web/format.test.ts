@@ -43,6 +43,10 @@ describe('formatting with units', () => {
 
   it('formats durations, the replay clock and speed factors', () => {
     expect(formatDuration(9.26)).toBe('9.3 s');
+    // Rounded before being split into minutes and seconds.
+    expect(formatDuration(59.96)).toBe('1 min 00 s');
+    expect(formatDuration(119.96)).toBe('2 min 00 s');
+    expect(formatDuration(61.4)).toBe('1 min 01 s');
     expect(formatDuration(125)).toBe('2 min 05 s');
     expect(formatClock(65.25)).toBe('1:05.3');
     expect(formatClock(-1)).toBe('0:00.0');

@@ -96,6 +96,8 @@ export function summaryRows(summary: Record<string, number | string | boolean>):
     const unit = known?.unit ?? (/Deg$/.test(key) ? 'deg' : /M$/.test(key) ? 'm' : undefined);
     const label = known?.label ?? key.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
     if (typeof v !== 'number') return { label, value: String(v) };
+    // The offsets fit sends no standard error for a scale it did not fit (held at 1).
+    if (key === 'rangeScale' && !('rangeScaleSe' in summary)) return { label, value: `${withUnit(v, unit)}, not fitted` };
     return { label, value: withUnit(v, unit) };
   });
 }

@@ -41,12 +41,12 @@ export function formatSpeed(mps: number | null | undefined, digits = 2): string 
 /** Durations: seconds below a minute, m:ss above, always unit-marked. */
 export function formatDuration(s: number | null | undefined): string {
   if (!ok(s)) return DASH;
-  if (Math.abs(s) < 60) return `${s.toFixed(1)} s`;
+  // Round first, then split: 59.96 s is "1 min 00 s", not "60.0 s"; 119.96 s not "1 min 60 s".
+  if (Math.abs(s) < 59.95) return `${s.toFixed(1)} s`;
   const sign = s < 0 ? '−' : '';
-  const a = Math.abs(s);
-  const min = Math.floor(a / 60);
-  const sec = a - min * 60;
-  return `${sign}${min} min ${sec.toFixed(0).padStart(2, '0')} s`;
+  const whole = Math.round(Math.abs(s));
+  const min = Math.floor(whole / 60);
+  return `${sign}${min} min ${String(whole - min * 60).padStart(2, '0')} s`;
 }
 
 /** Timeline clock "m:ss.s" for the replay bar (the unit is in the label beside it). */
