@@ -187,6 +187,14 @@ export class LiveComparison {
     return this.rmseHistory.slice();
   }
 
+  /** The history's points after run time `afterS` (flat [t, rmse, …]). */
+  historyAfter(afterS: number): number[] {
+    const h = this.rmseHistory;
+    let i = h.length;
+    while (i >= 2 && h[i - 2] > afterS) i -= 2;
+    return h.slice(i);
+  }
+
   /** Keeps the running RMSE after a compared sample, thinned to the history's spacing and cap. */
   private record(timeS: number): void {
     const h = this.rmseHistory;
@@ -374,6 +382,11 @@ export class MultiPathComparison {
       if (f.samples > 0) out.push({ ...f, pathId });
     }
     return out;
+  }
+
+  /** The running-RMSE points of one path after run time `afterS` (LiveComparison.historyAfter). */
+  historyAfter(pathId: string, afterS: number): number[] {
+    return this.byPath.get(pathId)?.historyAfter(afterS) ?? [];
   }
 
   /** The running-RMSE history of every path that has compared something (LiveComparison.history). */

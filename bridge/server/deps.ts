@@ -46,6 +46,8 @@ export interface LiveComparisonLike {
   figures(): ComparisonFigures[];
   /** The running RMSE of each such path as it went, flat [t, rmse, …] (for a late or re-synced client's chart). */
   history(): { pathId: string; points: number[] }[];
+  /** One path's running-RMSE points after run time `afterS` (for the next `comparison` message). */
+  historyAfter(pathId: string, afterS: number): number[];
   /** Forget figures and followed track, keep the commanded path (replay seek). */
   reset(): void;
   /** Forget everything, commanded path included (new source). */
@@ -111,6 +113,7 @@ export function createLiveComparison(log: (line: string) => void): LiveCompariso
     deletion: () => undefined,
     figures: () => live.figures(),
     history: () => live.history(),
+    historyAfter: (pathId, afterS) => live.historyAfter(pathId, afterS),
     reset: () => live.reset(),
     restart() {
       live = new MultiPathComparison();

@@ -67,6 +67,8 @@ export class Pipeline extends EventEmitter {
   private comparison: LiveComparisonLike | null;
   /** True from a session seek until its comparison is rebuilt: the figures meanwhile cover only the re-sent window. */
   private comparisonStale = false;
+  /** Run time of the last running-RMSE point sent, per path (a snapshot carries all before it). */
+  private readonly comparisonSentS = new Map<string, number>();
   private readonly batch: ScanBatch;
   private readonly timers: NodeJS.Timeout[] = [];
   private lastReplayJson = '';
@@ -126,6 +128,7 @@ export class Pipeline extends EventEmitter {
     this.state.reset();
     this.state.clearCommanded();
     this.comparison?.restart();
+    this.comparisonSentS.clear();
     this.fixedSignature = '';
     this.stats.reset(source.kind, source.name);
     this.tracker = tracker;
@@ -246,6 +249,7 @@ export class Pipeline extends EventEmitter {
     this.state.reset();
     this.state.clearCommanded();
     this.comparison?.restart();
+    this.comparisonSentS.clear();
     this.fixedSignature = '';
     const tracker = this.options.createTracker();
     // Records are handled synchronously, so the tracker must be ready now: factories are synchronous in practice.
@@ -356,11 +360,23 @@ export class Pipeline extends EventEmitter {
       for (const [r, at] of this.seek.drain()) this.onRecord(r, at);
     }
     this.comparisonStale = false;
+    this.markComparisonSent();
     this.state.timeS = Math.max(this.state.timeS, timeS);
     this.batch.discard();
     this.batch.release();
     this.emit('resync');
     this.tickReplay(true);
+  }
+
+  /**
+   * Every client is about to get a snapshot with the whole running-RMSE history (a resync): the
+   * next `comparison` messages go on from its end. (A snapshot for one joining client does not
+   * move this: the others still need the points since the last message; clients drop points they
+   * already hold.)
+   */
+  private markComparisonSent(): void {
+    this.comparisonSentS.clear();
+    for (const h of this.comparison?.history() ?? []) this.comparisonSentS.set(h.pathId, h.points[h.points.length - 2]);
   }
 
   private sendScan(scan: ScanMessage, arrivals: number[]): void {
@@ -376,7 +392,14 @@ export class Pipeline extends EventEmitter {
   private tickStatus(): void {
     if (this.tracker) this.setFixedEchoes(this.tracker.fixedEchoes());
     this.emitMessage({ type: 'source', source: this.stats.status() });
-    if (!this.comparisonStale) for (const figures of this.comparison?.figures() ?? []) this.emitMessage({ type: 'comparison', figures });
+    if (this.comparisonStale || !this.comparison) return;
+    for (const figures of this.comparison.figures()) {
+      // The chart's points since the last message of this path (a fast replay moves seconds between two).
+      const pathId = figures.pathId ?? '';
+      const recent = this.comparison.historyAfter(pathId, this.comparisonSentS.get(pathId) ?? -Infinity);
+      if (recent.length) this.comparisonSentS.set(pathId, recent[recent.length - 2]);
+      this.emitMessage({ type: 'comparison', figures, ...(recent.length ? { recent } : {}) });
+    }
   }
 
   /** Sends the replay state when it changed (or always, after a control). */

@@ -210,7 +210,16 @@ export const serverMessage = z.discriminatedUnion('type', [
   z.object({ type: z.literal('replay'), replay: replayState }),
   /** A commanded path; `target` names it when the run commands several (optional, within protocol 1). */
   z.object({ type: z.literal('commanded'), path: z.array(pathPointWire), target: z.string().optional() }),
-  z.object({ type: z.literal('comparison'), figures: comparisonFigures }),
+  z.object({
+    type: z.literal('comparison'),
+    figures: comparisonFigures,
+    /**
+     * The running RMSE since the previous `comparison` message of the same path, flat
+     * [t0, rmse0, t1, rmse1, …] (optional, within protocol 1): a fast replay moves many seconds
+     * of run between two messages, and the chart should not skip them.
+     */
+    recent: z.array(finite).optional(),
+  }),
   z.object({ type: z.literal('sessions'), sessions: z.array(sessionInfo) }),
   z.object({ type: z.literal('error'), code: z.string(), message: z.string() }),
 ]);

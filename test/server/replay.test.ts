@@ -170,6 +170,21 @@ describe('replay of a recorded session', () => {
     expect(m.figures.maxErrorM).toBeCloseTo(0.2, 9);
   });
 
+  it('comparison messages carry every running-RMSE point since the last, however fast the replay plays', async () => {
+    bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, speed: 50, log: () => undefined });
+    const c = await connect(bridge);
+    await c.next('replay', (m) => m.replay.positionS >= 10 || !m.replay.playing);
+    await c.next('comparison', (m) => m.figures.timeS >= 9.5);
+    const points = c.of('comparison').flatMap((m) => {
+      const r = m.recent ?? [];
+      return r.filter((_, i) => i % 2 === 0);
+    });
+    // 10 s of run in 0.2 s of wall time: a point every 0.25 s of run all the same, from near the start.
+    expect(points[0]).toBeLessThan(1);
+    for (let i = 1; i < points.length; i++) expect(points[i] - points[i - 1]).toBeLessThan(0.5);
+    expect(points.at(-1)).toBeGreaterThan(9);
+  });
+
   it('a seek back rebuilds the paths of named positioners up to the new time, in time order', async () => {
     const records: SourceRecord[] = [];
     for (let i = 0; i <= 300; i++) {

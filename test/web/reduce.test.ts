@@ -134,6 +134,21 @@ describe('running-RMSE history in a snapshot', () => {
   });
 });
 
+describe('running-RMSE points in comparison messages', () => {
+  it('adds the points a message brings after those the chart holds, per path', () => {
+    const s = createState();
+    const figures = { timeS: 2, samples: 10, rmseM: 0.02, crossTrackM: 0.01, alongTrackM: 0, maxErrorM: 0.05, lagS: null, trackId: 1, pathId: '1' };
+    applyMessage(s, { type: 'comparison', figures, recent: [1, 0.03, 1.5, 0.025, 2, 0.02] });
+    // A joining client's snapshot and the next message may overlap: the points held stay once.
+    applyMessage(s, { type: 'comparison', figures: { ...figures, timeS: 3 }, recent: [2, 0.02, 2.5, 0.019, 3, 0.018] });
+    applyMessage(s, { type: 'comparison', figures: { ...figures, pathId: '2' }, recent: [2, 0.1] });
+    expect(s.comparisonHistory.map((f) => [f.pathId, f.timeS])).toEqual([['1', 1], ['1', 1.5], ['1', 2], ['1', 2.5], ['1', 3], ['2', 2]]);
+    // A message without points (an older bridge) adds its figures as one point.
+    applyMessage(s, { type: 'comparison', figures: { ...figures, timeS: 4 } });
+    expect(s.comparisonHistory.at(-1)?.timeS).toBe(4);
+  });
+});
+
 describe('applyFrame', () => {
   it('applies a valid frame', () => {
     const s = createState();

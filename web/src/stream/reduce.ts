@@ -83,11 +83,13 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
     case 'comparison':
       state.comparison = msg.figures;
       state.comparisons.set(msg.figures.pathId ?? '', msg.figures);
+      if (msg.recent) addRecentPoints(state, msg.figures.pathId ?? '', msg.recent);
       // Figures against a path given whole: positioner samples must not extend it. (A path named
       // after its positioner, built here from its samples, is not one.)
       if (msg.figures.pathId !== undefined && msg.figures.pathId !== POSITIONER_PATH_ID && !builtFromPositioner(state, msg.figures.pathId)) state.commandedExplicit = true;
-      state.comparisonHistory.push(msg.figures);
-      if (state.comparisonHistory.length > limits.comparisonPoints) state.comparisonHistory.shift();
+      // With `recent` the chart has its points; the figures of the moment are one more otherwise.
+      if (!msg.recent) state.comparisonHistory.push(msg.figures);
+      if (state.comparisonHistory.length > limits.comparisonPoints) state.comparisonHistory.splice(0, state.comparisonHistory.length - limits.comparisonPoints);
       return;
     case 'sessions':
       state.sessions = msg.sessions;
@@ -111,6 +113,22 @@ function loadComparisonHistory(state: DashboardState, history: readonly { pathId
   }
   points.sort((a, b) => a.timeS - b.timeS);
   state.comparisonHistory = points.slice(-limits.comparisonPoints);
+}
+
+/** The running-RMSE points a `comparison` message brings, after those this path's chart holds. */
+function addRecentPoints(state: DashboardState, pathId: string, recent: readonly number[]): void {
+  let lastS = -Infinity;
+  for (let i = state.comparisonHistory.length - 1; i >= 0; i--) {
+    const f = state.comparisonHistory[i];
+    if ((f.pathId ?? '') === pathId) {
+      lastS = f.timeS;
+      break;
+    }
+  }
+  for (let i = 0; i + 1 < recent.length; i += 2) {
+    if (recent[i] <= lastS) continue;
+    state.comparisonHistory.push({ timeS: recent[i], samples: 0, rmseM: recent[i + 1], crossTrackM: null, alongTrackM: null, maxErrorM: null, lagS: null, trackId: null, pathId });
+  }
 }
 
 /** True when `pathId` names a path this dashboard builds from its positioner's samples. */
