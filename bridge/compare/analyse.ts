@@ -121,16 +121,38 @@ export function checkOverlap(path: TimedPath, rows: readonly TrackRow[], minOver
   }
 }
 
-function follow(path: TimedPath, rows: readonly TrackRow[], lagS: number, o: Partial<FollowOptions>): { rows: TrackRow[]; switches: FollowSwitch[]; releases: TrackFollower['releases'] } {
+/**
+ * The rows of the track that follows `path`. With `others` (the other targets of a run of several
+ * carriages), a track another path's follower holds is left to it, so a neighbour's track passing
+ * close never counts against this path (the live comparison does the same, live.ts).
+ */
+function follow(path: TimedPath, rows: readonly TrackRow[], lagS: number, o: Partial<FollowOptions>, others: readonly TimedPath[] = []): { rows: TrackRow[]; switches: FollowSwitch[]; releases: TrackFollower['releases'] } {
   const f = new TrackFollower(o);
+  const rivals = others.map((p) => ({ path: p, follower: new TrackFollower(o) }));
   const out: TrackRow[] = [];
   for (const r of rows) {
+    for (const x of rivals) {
+      const rc = sampleAt(x.path, r.timeS - lagS);
+      if (rc.inside) x.follower.offer(r, rc.x, rc.y);
+    }
     const c = sampleAt(path, r.timeS - lagS);
     // Outside the commanded span there is nothing to compare with (the path would be clamped).
     if (!c.inside) continue;
+    if (f.currentId !== r.id && rivals.some((x) => x.follower.currentId === r.id)) continue;
     if (f.offer(r, c.x, c.y)) out.push(r);
   }
   return { rows: out, switches: [...f.switches], releases: [...f.releases] };
+}
+
+/** The lag of target i of several, found as the detailed one's is (0 when no track follows it). */
+function lagOfOther(path: TimedPath, paths: readonly TimedPath[], i: number, rows: readonly TrackRow[], o: AnalyseOptions): number {
+  const others = paths.filter((_, j) => j !== i);
+  const first = follow(path, rows, 0, o.follow, others).rows;
+  if (first.length < 2) return 0;
+  const filtered = estimateLag(path, first, o.lag).lagS;
+  const rows2 = filtered ? follow(path, rows, filtered, o.follow, others).rows : first;
+  const sm = smoothTrack(rows2, o.smoother);
+  return (sm ? estimateLag(path, sm.smoothed, o.lag).lagS : null) ?? filtered ?? 0;
 }
 
 function pair(path: TimedPath, states: readonly { timeS: number; x: number; y: number; vx: number; vy: number }[], lagS: number): DeviationPair {
@@ -148,13 +170,14 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
   if (!path) throw new EchotrailError('E_PATH', 'no commanded path given');
   if (rows.length === 0) throw new EchotrailError('E_INPUT_EMPTY', 'no track rows to compare');
   checkOverlap(path, rows, o.minOverlap);
-  let chosen = follow(path, rows, 0, o.follow);
+  const others = paths.slice(1);
+  let chosen = follow(path, rows, 0, o.follow, others);
   if (chosen.rows.length < 2) {
     throw new EchotrailError('E_PATH', `no confirmed track came within ${o.follow.gateM} m of the commanded path; check the frame (calibration) or widen the follow gate`);
   }
   const filteredLag = estimateLag(path, chosen.rows, o.lag);
   // With the lag known, pick again: a late track sits a lag's distance behind the commanded point.
-  if (filteredLag.lagS) chosen = follow(path, rows, filteredLag.lagS, o.follow);
+  if (filteredLag.lagS) chosen = follow(path, rows, filteredLag.lagS, o.follow, others);
   const followed = chosen.rows;
   const sm = smoothTrack(followed, o.smoother);
   const smoothedLag = sm ? estimateLag(path, sm.smoothed, o.lag) : null;
@@ -171,7 +194,9 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
     filtered: summaryPair(filtered, (d) => legOfSegment[d.segment] === leg.index),
     smoothed: smoothed ? summaryPair(smoothed.deviations, (d) => legOfSegment[d.segment] === leg.index) : null,
   }));
-  const setOptions = resolveMultiOptions({ ...o.multi, lagS: o.multi.lagS ?? lagS });
+  // Each target at its own lag, so the set figures do not depend on which one is detailed.
+  const lagsS = o.multi.lagS !== undefined ? undefined : paths.map((p, i) => (i === 0 ? lagS : lagOfOther(p, paths, i, rows, o)));
+  const setOptions = resolveMultiOptions({ ...o.multi, lagS: o.multi.lagS ?? lagS, ...(lagsS ? { lagsS } : {}) });
   const sets = setMetricSeries(paths, rows, setOptions);
   return {
     commanded: path,

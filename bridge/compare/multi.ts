@@ -17,11 +17,13 @@ export interface MultiOptions extends SetMetricOptions {
   maxAgeS: number;
   /** Commanded positions are taken at t − lagS (0: no alignment). */
   lagS: number;
+  /** Per path, in the order of the paths, when each target has its own lag (overrides lagS). */
+  lagsS?: number[];
 }
 
 /** Defaults in one place. */
 export function resolveMultiOptions(o: Partial<MultiOptions> = {}): MultiOptions {
-  return { cutoffM: o.cutoffM ?? 1, order: o.order ?? 2, stepS: o.stepS ?? 0.1, maxAgeS: o.maxAgeS ?? 1.5, lagS: o.lagS ?? 0 };
+  return { cutoffM: o.cutoffM ?? 1, order: o.order ?? 2, stepS: o.stepS ?? 0.1, maxAgeS: o.maxAgeS ?? 1.5, lagS: o.lagS ?? 0, ...(o.lagsS ? { lagsS: o.lagsS } : {}) };
 }
 
 /** One instant of the series. */
@@ -47,8 +49,9 @@ export function setMetricSeries(paths: readonly TimedPath[], rows: readonly Trac
   const o = resolveMultiOptions(options);
   if (paths.length === 0) return [];
   const spans = paths.map(timeSpan);
-  const start = Math.min(...spans.map((s) => s.startS)) + o.lagS;
-  const end = Math.max(...spans.map((s) => s.endS)) + o.lagS;
+  const lag = paths.map((_, i) => o.lagsS?.[i] ?? o.lagS);
+  const start = Math.min(...spans.map((s, i) => s.startS + lag[i]));
+  const end = Math.max(...spans.map((s, i) => s.endS + lag[i]));
   const latest = new Map<number, TrackRow>();
   const out: SetSample[] = [];
   let r = 0;
@@ -63,7 +66,8 @@ export function setMetricSeries(paths: readonly TimedPath[], rows: readonly Trac
     }
     const truths: Point[] = [];
     paths.forEach((p, i) => {
-      if (t - o.lagS >= spans[i].startS && t - o.lagS <= spans[i].endS) truths.push(sampleAt(p, t - o.lagS));
+      const at = t - lag[i];
+      if (at >= spans[i].startS && at <= spans[i].endS) truths.push(sampleAt(p, at));
     });
     const estimates: Point[] = [];
     for (const [id, u] of latest) {

@@ -7,6 +7,7 @@ import { makeTimedPath } from '../../bridge/compare/timed-path.ts';
 import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
 import { EchotrailError } from '../../bridge/errors.ts';
 import { benchRun } from './bench-run.ts';
+import type { TrackRow } from '../../bridge/compare/track-rows.ts';
 
 const path = waypointsToPath([
   { x: -1, y: 2, dwellS: 1 }, { x: 1, y: 2, speedMps: 0.4 }, { x: 1, y: 4, speedMps: 0.4 },
@@ -59,5 +60,35 @@ describe('analyse', () => {
   it('says so when no track comes near the commanded path (wrong frame, wrong file)', () => {
     const far = run.rows.map((r) => ({ ...r, x: r.x + 5 }));
     expect(() => analyse([path], far)).toThrow(/no confirmed track came within 1 m of the commanded path/);
+  });
+});
+
+describe('analyse with several carriages', () => {
+  // Two carriages crossing at 8 s: carriage 2's own track only starts after the crossing, while
+  // carriage 1's passes within a metre of carriage 2's command from about 6 s.
+  const A = makeTimedPath([{ timeS: 0, x: -1.5, y: 2.4 }, { timeS: 16, x: 1.5, y: 3.6 }], 'A');
+  const B = makeTimedPath([{ timeS: 0, x: 1.5, y: 2.4 }, { timeS: 16, x: -1.5, y: 3.6 }], 'B');
+  const on = (p: typeof A, t: number) => ({ x: p.points[0].x + ((p.points[1].x - p.points[0].x) * t) / 16, y: p.points[0].y + ((p.points[1].y - p.points[0].y) * t) / 16 });
+  const row = (id: number, t: number, p: { x: number; y: number }) => ({ timeS: t, id, status: 'confirmed' as const, x: p.x, y: p.y, vx: 0, vy: 0, speed: 0.2, headingRad: 0 });
+  const rows: TrackRow[] = [];
+  for (let t = 0; t <= 14; t += 0.25) {
+    rows.push(row(5, t, on(A, t)));
+    if (t >= 9) rows.push(row(6, t + 0.001, { x: on(B, t).x, y: on(B, t).y + 0.03 }));
+  }
+
+  it("follows each carriage's own track: the other carriage's never counts against it", () => {
+    const b = analyse([B, A], rows);
+    expect([...new Set(b.followed.map((r) => r.id))]).toEqual([6]);
+    expect(b.whole.filtered.noLag.position.max!).toBeLessThan(0.05);
+    // Alone, B's follower would take carriage 1's track while it passes.
+    const alone = analyse([B], rows);
+    expect(alone.followed.some((r) => r.id === 5)).toBe(true);
+  });
+
+  it('the set figures (OSPA/GOSPA) do not depend on which target is detailed: each target at its own lag', () => {
+    const a = analyse([A, B], rows);
+    const b = analyse([B, A], rows);
+    expect(b.setSummary.meanGospaM!).toBeCloseTo(a.setSummary.meanGospaM!, 9);
+    expect(b.setSummary.meanOspaM!).toBeCloseTo(a.setSummary.meanOspaM!, 9);
   });
 });
