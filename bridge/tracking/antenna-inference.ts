@@ -28,6 +28,8 @@ const TWO_PI = 2 * Math.PI;
  * count as forward.
  */
 const JITTER_RAD = (5 * Math.PI) / 180;
+/** Wraps closer than this are one crossing of the zero reference, s (far below any bench's period). */
+const WRAP_MERGE_S = 0.05;
 /** Shortest revolution period taken for a rotating antenna, s (benches turn at 0.5–2 s: common practice). */
 const MIN_PERIOD_S = 0.1;
 
@@ -42,12 +44,19 @@ export function inferAntenna(dets: readonly Detection[]): AntennaInference {
   let forward = 0;
   let pairs = 0;
   const wrapTimes: number[] = [];
+  let lastWrapS = -Infinity;
   for (let i = 1; i < dets.length; i++) {
     const d = dets[i].azimuthRad - dets[i - 1].azimuthRad;
     pairs++;
     if (d < -Math.PI) {
       forward++;
-      wrapTimes.push(0.5 * (dets[i].timeS + dets[i - 1].timeS));
+      const t = 0.5 * (dets[i].timeS + dets[i - 1].timeS);
+      // Azimuth noise around 0° wraps a dense scan back and forth within a few detections: one
+      // crossing of the zero reference, not several revolutions (a run of 800 targets had twice
+      // as many "wraps" as revolutions, and a period 3 % short). Wraps in a chain, each close to
+      // the one before, are one crossing; a staring beam astride 0° is then one endless chain.
+      if (!(t - lastWrapS < WRAP_MERGE_S)) wrapTimes.push(t);
+      lastWrapS = t;
     } else if (d >= -JITTER_RAD) forward++;
   }
   const forwardFraction = pairs ? forward / pairs : 0;

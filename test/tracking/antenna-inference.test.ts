@@ -26,6 +26,25 @@ describe('antenna inference from azimuth wrap-around', () => {
     }
   });
 
+  it('a dense scan whose azimuth noise crosses 0° back and forth still counts one wrap per revolution', () => {
+    // 800 reflectors all round, 1.5° azimuth noise: near 0° consecutive detections straddle the
+    // zero reference in both directions.
+    const rng = createRng(4);
+    const azs = Array.from({ length: 800 }, () => rng.uniform() * 2 * Math.PI).sort((a, b) => a - b);
+    const d: Detection[] = [];
+    for (let k = 0; k < 15; k++) {
+      for (const az of azs) {
+        const noisy = (((az + rng.normal() * 0.026) % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI);
+        d.push({ timeS: k + az / (2 * Math.PI), azimuthRad: noisy, rangeM: 20, amplitude: 1 });
+      }
+    }
+    const a = inferAntenna(d);
+    expect(a.kind).toBe('rotating');
+    // One wrap per crossing of 0° (a rare chain longer than 50 ms may count twice), not one per straddle.
+    expect(a.wraps).toBeLessThanOrEqual(16);
+    expect(a.periodS).toBeCloseTo(1, 3);
+  });
+
   it('bridges revolutions without any detection', () => {
     const d = rotating(1, 12, [1, 3]).filter((x) => x.timeS < 4 || x.timeS > 7);
     expect(inferAntenna(d).periodS).toBeCloseTo(1, 6);
