@@ -25,7 +25,7 @@
  *                 stdRangeResidualM, meanAzimuthResidualDeg, stdAzimuthResidualDeg, rangeBeyondNoise,
  *                 azimuthBeyondNoise }], warnings: string[], config }
  *   frame      → { ok, action, summary: { rotationDeg, rotationSeDeg, translationXM, translationYM,
- *                 translationSeXM, translationSeYM, rmsM, maxM, pairs, candidates }, config }
+ *                 translationSeXM, translationSeYM, rmsM, maxM, pairs, candidates }, warnings, config }
  *   tune       → { ok, action, summary: { samples, sigmaRangeM, sigmaAzimuthDeg, rangeBiasM,
  *                 azimuthBiasDeg, nisMean, nisLower, nisUpper, nisVerdict, defaultNisMean,
  *                 defaultNisVerdict, bracketed }, profile (bridge/tracking/profile.ts format),
@@ -38,7 +38,7 @@ import { z } from 'zod';
 import { EchotrailError } from '../errors.ts';
 import type { Detection } from '../types.ts';
 import { benchConfigSchema, correctDetection, defaultBenchConfig, withCalibration, type BenchConfig } from './bench-config.ts';
-import { alignFrame } from './frame-align.ts';
+import { alignFrame, frameWarnings } from './frame-align.ts';
 import { nisBounds } from './nis.ts';
 import { tuneNoise } from './noise-tuning.ts';
 import { fitRadarOffsets, spotBeyondNoise, type ReflectorResidual } from './offsets.ts';
@@ -69,7 +69,7 @@ export type CalibrationRequest = z.infer<typeof requestSchema>;
 export type CalibrationResponse =
   | { ok: true; action: 'steps'; steps: string[] }
   | { ok: true; action: 'offsets'; summary: Record<string, number>; reflectors: Record<string, number | string | boolean>[]; warnings: string[]; config: BenchConfig }
-  | { ok: true; action: 'frame'; summary: Record<string, number>; config: BenchConfig }
+  | { ok: true; action: 'frame'; summary: Record<string, number>; warnings: string[]; config: BenchConfig }
   | { ok: true; action: 'tune'; summary: Record<string, number | string | boolean>; profile: unknown; warnings: string[]; config: BenchConfig }
   | { ok: true; action: 'nis-bounds'; lower: number; upper: number }
   | { ok: false; code: string; message: string };
@@ -114,7 +114,7 @@ export function calibrationApi(request: unknown): CalibrationResponse {
         const initial = req.track ? null : { rotationRad: config.positionerFrame.rotationDeg * DEG, translation: config.positionerFrame.translationM };
         const fit = alignFrame(observed, req.commanded, { initial, gateM: req.gateM, allowCollinear: req.allowCollinear });
         const next = withCalibration(config, { positionerFrame: { rotationDeg: fit.rotationRad / DEG, translationM: fit.translation } }, frameRecord(fit, req.measuredBy ?? 'dashboard', now));
-        return { ok: true, action: 'frame', summary: frameSummary(fit), config: next };
+        return { ok: true, action: 'frame', summary: frameSummary(fit), warnings: frameWarnings(fit), config: next };
       }
       case 'tune': {
         const config = req.config ?? defaultBenchConfig();

@@ -37,6 +37,11 @@ export interface FrameAlignment extends RigidFit {
   used: number;
 }
 
+/** What a frame fit cannot vouch for, in words for the user (the CLI and the dashboard show them). */
+export function frameWarnings(fit: Pick<RigidFit, 'collinear'>): string[] {
+  return fit.collinear ? ['the path is a straight line: any tracking lag along it went into the shift along the line, and only the cross-line offset and the rotation are measured; a 2-D path (circle, figure-eight, waypoints) separates them'] : [];
+}
+
 export function alignFrame(observed: TimedPoint[], commanded: TimedPoint[], options?: FrameAlignOptions): FrameAlignment {
   const o = resolveFrameAlignOptions(options);
   const pairs: { p: XY; q: XY }[] = [];

@@ -41,6 +41,8 @@ export interface RigidFit {
   maxM: number;
   /** Per-axis residual std σ̂, m. */
   sigmaM: number;
+  /** The source points lie on a straight line (only when allowed): the shift along it also holds any lag. */
+  collinear: boolean;
   pairs: number;
 }
 
@@ -114,5 +116,6 @@ export function fitRigid2D(p: XY[], q: XY[], options?: RigidFitOptions, w?: numb
     maxM: Math.max(...lens),
     sigmaM: Math.sqrt(sigma2),
     pairs: n,
+    collinear: l2 < 1e-3 * l1,
   };
 }

@@ -6,7 +6,7 @@
  */
 import { Command, InvalidArgumentError } from 'commander';
 import { loadBenchConfig, saveBenchConfig, withCalibration, correctDetection } from '../calibrate/bench-config.ts';
-import { alignFrame } from '../calibrate/frame-align.ts';
+import { alignFrame, frameWarnings } from '../calibrate/frame-align.ts';
 import { fitRadarOffsets, type ReflectorPosition } from '../calibrate/offsets.ts';
 import { parseTracksById, readPathCsv, type TimedPoint } from '../calibrate/path.ts';
 import { formatSummary, frameRecord, frameSummary, offsetsRecord, offsetsSummary } from '../calibrate/report.ts';
@@ -114,6 +114,7 @@ async function frame(o: Record<string, unknown>): Promise<number> {
   }
   const fit = alignFrame(observed, commanded, { initial, gateM: o.gate as number, allowCollinear: Boolean(o.allowLine) });
   process.stdout.write(formatSummary('positioner → radar frame (p_radar = R·p + t, R counter-clockwise):', frameSummary(fit)) + '\n');
+  for (const w of frameWarnings(fit)) process.stderr.write(`echotrail calibrate frame: warning: ${w}\n`);
   if (o.dryRun) return 0;
   const next = withCalibration(config, { positionerFrame: { rotationDeg: fit.rotationRad / DEG, translationM: fit.translation } }, frameRecord(fit, o.by as string, new Date().toISOString()));
   await saveBenchConfig(o.calibration as string, next);

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { frameWarnings } from '../../bridge/calibrate/frame-align.ts';
 import { applyRigid, fitRigid2D, type XY } from '../../bridge/calibrate/rigid-fit.ts';
 import { createRng } from '../../bridge/sim/prng.ts';
 import { hasCode } from '../../bridge/errors.ts';
@@ -78,7 +79,12 @@ describe('fitRigid2D', () => {
     const e1 = fail(() => fitRigid2D(line, moved));
     expect(hasCode(e1, 'E_CALIBRATION')).toBe(true);
     expect((e1 as Error).message).toMatch(/straight line/);
-    expect(fitRigid2D(line, moved, { allowCollinear: true }).rotationRad).toBeCloseTo(0.1, 10);
+    const allowed = fitRigid2D(line, moved, { allowCollinear: true });
+    expect(allowed.rotationRad).toBeCloseTo(0.1, 10);
+    // Accepted, but said: the shift along the line holds any lag (frameWarnings, shown to the user).
+    expect(allowed.collinear).toBe(true);
+    expect(frameWarnings(allowed)).toEqual([expect.stringMatching(/^the path is a straight line: any tracking lag along it went into the shift/)]);
+    expect(frameWarnings({ collinear: false })).toEqual([]);
     const still = Array.from({ length: 10 }, () => ({ x: 1, y: 2 }));
     expect((fail(() => fitRigid2D(still, still)) as Error).message).toMatch(/spread/);
     expect(hasCode(fail(() => fitRigid2D(line.slice(0, 2), moved.slice(0, 2))), 'E_CALIBRATION')).toBe(true);
