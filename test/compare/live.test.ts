@@ -200,10 +200,16 @@ describe('MultiPathComparison', () => {
     pxx: 0.01, pxy: 0, pyy: 0.01, quality: 0.9, moving: true, hits: 3, misses: 0,
   });
 
-  it('compares each track with the path it follows, one set of figures per path', () => {
+  /** Both carriages' paths given whole, named '1' and '2'. */
+  const twoCarriages = () => {
     const live = new MultiPathComparison();
     live.setCommanded(A, '1');
     live.setCommanded(B, '2');
+    return live;
+  };
+
+  it('compares each track with the path it follows, one set of figures per path', () => {
+    const live = twoCarriages();
     for (let t = 0; t <= 8; t += 0.25) {
       live.update(upd(5, t, at(A, t), 0.01));
       live.update(upd(6, t, at(B, t), -0.03));
@@ -228,9 +234,7 @@ describe('MultiPathComparison', () => {
   });
 
   it("never counts the track another path follows (the crossing carriages' tracks pass close)", () => {
-    const live = new MultiPathComparison();
-    live.setCommanded(A, '1');
-    live.setCommanded(B, '2');
+    const live = twoCarriages();
     // Carriage 2's own track only shows after the crossing (8 s); carriage 1's passes within a
     // metre of carriage 2's command from about 6 s.
     for (let t = 0; t <= 14; t += 0.25) {
