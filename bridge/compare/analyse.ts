@@ -144,15 +144,22 @@ function follow(path: TimedPath, rows: readonly TrackRow[], lagS: number, o: Par
   return { rows: out, switches: [...f.switches], releases: [...f.releases] };
 }
 
-/** The lag of target i of several, found as the detailed one's is (0 when no track follows it). */
-function lagOfOther(path: TimedPath, paths: readonly TimedPath[], i: number, rows: readonly TrackRow[], o: AnalyseOptions): number {
-  const others = paths.filter((_, j) => j !== i);
-  const first = follow(path, rows, 0, o.follow, others).rows;
-  if (first.length < 2) return 0;
-  const filtered = estimateLag(path, first, o.lag).lagS;
-  const rows2 = filtered ? follow(path, rows, filtered, o.follow, others).rows : first;
-  const sm = smoothTrack(rows2, o.smoother);
-  return (sm ? estimateLag(path, sm.smoothed, o.lag).lagS : null) ?? filtered ?? 0;
+/**
+ * The track that follows `path` and its lag: followed without a lag, the lag estimated on those
+ * rows, followed again at that lag (a late track sits a lag's distance behind the commanded
+ * point), and the lag estimated again on the RTS-smoothed track, which has no filter lag, when
+ * the rows carry measurements. Null when no track comes near the path.
+ */
+function followWithLag(path: TimedPath, rows: readonly TrackRow[], others: readonly TimedPath[], o: AnalyseOptions) {
+  let chosen = follow(path, rows, 0, o.follow, others);
+  if (chosen.rows.length < 2) return null;
+  const filteredLag = estimateLag(path, chosen.rows, o.lag);
+  if (filteredLag.lagS) chosen = follow(path, rows, filteredLag.lagS, o.follow, others);
+  const sm = smoothTrack(chosen.rows, o.smoother);
+  const smoothedLag = sm ? estimateLag(path, sm.smoothed, o.lag) : null;
+  const lagSource: 'smoothed' | 'filtered' = smoothedLag?.lagS != null ? 'smoothed' : 'filtered';
+  const lag = lagSource === 'smoothed' ? smoothedLag! : filteredLag;
+  return { chosen, filteredLag, sm, lagSource, lag };
 }
 
 function pair(path: TimedPath, states: readonly { timeS: number; x: number; y: number; vx: number; vy: number }[], lagS: number): DeviationPair {
@@ -170,19 +177,12 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
   if (!path) throw new EchotrailError('E_PATH', 'no commanded path given');
   if (rows.length === 0) throw new EchotrailError('E_INPUT_EMPTY', 'no track rows to compare');
   checkOverlap(path, rows, o.minOverlap);
-  const others = paths.slice(1);
-  let chosen = follow(path, rows, 0, o.follow, others);
-  if (chosen.rows.length < 2) {
+  const found = followWithLag(path, rows, paths.slice(1), o);
+  if (!found) {
     throw new EchotrailError('E_PATH', `no confirmed track came within ${o.follow.gateM} m of the commanded path; check the frame (calibration) or widen the follow gate`);
   }
-  const filteredLag = estimateLag(path, chosen.rows, o.lag);
-  // With the lag known, pick again: a late track sits a lag's distance behind the commanded point.
-  if (filteredLag.lagS) chosen = follow(path, rows, filteredLag.lagS, o.follow, others);
+  const { chosen, filteredLag, sm, lagSource, lag } = found;
   const followed = chosen.rows;
-  const sm = smoothTrack(followed, o.smoother);
-  const smoothedLag = sm ? estimateLag(path, sm.smoothed, o.lag) : null;
-  const lagSource = smoothedLag?.lagS != null ? 'smoothed' : 'filtered';
-  const lag = lagSource === 'smoothed' ? smoothedLag! : filteredLag;
   const lagS = lag.lagS ?? 0;
   const interval = lag.lagS === null ? null : lagInterval(path, lagSource === 'smoothed' ? sm!.smoothed : followed, lag.lagS, o.lag);
   const filtered = pair(path, followed, lagS);
@@ -195,7 +195,8 @@ export function analyse(paths: readonly TimedPath[], rows: readonly TrackRow[], 
     smoothed: smoothed ? summaryPair(smoothed.deviations, (d) => legOfSegment[d.segment] === leg.index) : null,
   }));
   // Each target at its own lag, so the set figures do not depend on which one is detailed.
-  const lagsS = o.multi.lagS !== undefined ? undefined : paths.map((p, i) => (i === 0 ? lagS : lagOfOther(p, paths, i, rows, o)));
+  const lagOf = (i: number) => followWithLag(paths[i], rows, paths.filter((_, j) => j !== i), o)?.lag.lagS ?? 0;
+  const lagsS = o.multi.lagS !== undefined ? undefined : paths.map((_, i) => (i === 0 ? lagS : lagOf(i)));
   const setOptions = resolveMultiOptions({ ...o.multi, lagS: o.multi.lagS ?? lagS, ...(lagsS ? { lagsS } : {}) });
   const sets = setMetricSeries(paths, rows, setOptions);
   return {
