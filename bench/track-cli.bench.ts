@@ -43,6 +43,7 @@ import { Tracker } from '../bridge/tracking/tracker.ts';
 import { crowdedLoad } from './crowded-load.ts';
 import { kalmanBaseline } from './kalman-baseline.ts';
 import { TRACKS_CSV_HEADER, TracksCsvEncoder } from '../bridge/tracking/tracks-csv.ts';
+import { tracksCsvSink } from '../bridge/tracking/tracks-csv-sink.ts';
 import type { Detection, TrackUpdate } from '../bridge/types.ts';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
@@ -106,17 +107,15 @@ async function readReadlineSplit(path: string): Promise<number> {
   return n;
 }
 
-/** The writer `track` uses (bridge/cli/track.ts): rows encoded into ~64 kB pieces, back-pressured. */
+/** The writer `track` uses in one thread (bridge/tracking/tracks-csv-sink.ts): rows encoded into ~64 kB pieces, back-pressured. */
 async function writeProject(updates: TrackUpdate[], path: string): Promise<number> {
-  const out = createWriteStream(path);
-  const rows = new TracksCsvEncoder(65536);
-  rows.header();
-  for (const u of updates) {
-    rows.add(u);
-    if (rows.length >= 65536 && !out.write(rows.take())) await once(out, 'drain');
+  const sink = tracksCsvSink(createWriteStream(path), true, path);
+  // `track` asks for room once per batch the reader hands over (about 2,000 rows).
+  for (let i = 0; i < updates.length; i++) {
+    sink.add(updates[i]);
+    if (i % 2048 === 2047) await sink.room();
   }
-  out.end(rows.take());
-  await once(out, 'finish');
+  await sink.end();
   return updates.length;
 }
 

@@ -8,25 +8,19 @@
  * over it only when the run succeeded: a failed run leaves the previous output as it was.
  */
 import { createWriteStream, statSync } from 'node:fs';
-import { once } from 'node:events';
-import type { Writable } from 'node:stream';
 import { Command, InvalidArgumentError } from 'commander';
 import { parseOrExit } from './parse.ts';
 import { writeAtomically } from '../atomic-file.ts';
 import { reportError } from './report-error.ts';
 import { pathArg } from './user-dir.ts';
-import { EchotrailError } from '../errors.ts';
 import { formatSkipDetails, formatSkipReport, readDetectionsCsv, type DetectionsCsvReader } from '../ingest/detections-csv.ts';
 import { readDetectionsCsvInWorker } from '../ingest/detections-csv-thread.ts';
 import { loadTrackerProfile } from '../tracking/profile.ts';
 import { describeInference, describeNoise, Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
-import { TracksCsvEncoder } from '../tracking/tracks-csv.ts';
+import { tracksCsvSink, type RowSink } from '../tracking/tracks-csv-sink.ts';
 import { TracksCsvWorkerWriter } from '../tracking/tracks-csv-thread.ts';
-import type { TrackUpdate } from '../types.ts';
 
 const DEG = Math.PI / 180;
-/** Output leaves in writes of about this many bytes. */
-const CHUNK_BYTES = 65536;
 /**
  * Input size from which `--io-threads auto` reads and writes in worker threads (about 130k rows).
  * Starting them holds the tracking up for about 0.1 s; measured on the crowded load of
@@ -182,44 +176,6 @@ function ioThreads(when: IoThreads, input: string): boolean {
   return input !== '-' && (statSync(input, { throwIfNoEntry: false })?.size ?? 0) >= IO_THREADS_MIN_BYTES;
 }
 
-/** Where the tracks CSV rows go: formatted here, or in a worker thread (tracks-csv-thread.ts). */
-interface RowSink {
-  add(u: TrackUpdate): void;
-  /** Resolves when the next rows may be added without piling up in memory. */
-  room(): Promise<void>;
-  /** Everything written and the file closed. */
-  end(): Promise<void>;
-  /** A failed run: stop writing, release the file. */
-  abandon(): void;
-}
-
-/** Rows formatted in this thread into ~64 kB writes that wait for the stream to drain. */
-function sinkInThread(out: Writable, toFile: boolean, shownOutput: string): RowSink {
-  const failed = new Promise<never>((_, reject) =>
-    out.once('error', (e: Error) => reject(new EchotrailError('E_PATH', `cannot write ${shownOutput}: ${e.message}`, { cause: e }))),
-  );
-  failed.catch(() => undefined);
-  // Rows are formatted into bytes and leave in ~64 kB writes: a write per row would cost more than the row.
-  const rows = new TracksCsvEncoder(CHUNK_BYTES);
-  rows.header();
-  return {
-    add: (u) => rows.add(u),
-    async room() {
-      if (rows.length >= CHUNK_BYTES && !out.write(rows.take())) await Promise.race([once(out, 'drain'), failed]);
-    },
-    async end() {
-      if (!out.write(rows.take())) await Promise.race([once(out, 'drain'), failed]);
-      if (toFile) {
-        out.end();
-        await Promise.race([once(out, 'finish'), failed]);
-      }
-    },
-    abandon: () => {
-      if (toFile) out.destroy();
-    },
-  };
-}
-
 async function sinkInWorker(output: string, shownOutput: string): Promise<RowSink> {
   const w = await TracksCsvWorkerWriter.open(output, shownOutput);
   return { add: (u) => w.add(u), room: () => w.room(), end: () => w.end(), abandon: () => void w.stop() };
@@ -233,7 +189,7 @@ async function sinkInWorker(output: string, shownOutput: string): Promise<RowSin
 async function trackFile(tracker: Tracker, input: string, output: string, shownOutput: string, maxRangeM: number | undefined, threads: boolean): Promise<void> {
   const readOptions = maxRangeM !== undefined ? { maxRangeM } : {};
   const reader = threads && input !== '-' ? readDetectionsCsvInWorker(input, readOptions) : readDetectionsCsv(input, readOptions);
-  const sink = threads && output !== '-' ? await sinkInWorker(output, shownOutput) : sinkInThread(output === '-' ? process.stdout : createWriteStream(output), output !== '-', shownOutput);
+  const sink = threads && output !== '-' ? await sinkInWorker(output, shownOutput) : tracksCsvSink(output === '-' ? process.stdout : createWriteStream(output), output !== '-', shownOutput);
   try {
     await trackLoop(tracker, reader, sink);
   } catch (err) {
