@@ -2,18 +2,25 @@
  * Errors that reach a user. Each has a stable code (for tests, logs and the dashboard) and a
  * message that says what went wrong and, where possible, what to do about it.
  */
-export type ErrorCode =
-  | 'E_INPUT_EMPTY'
-  | 'E_INPUT_COLUMNS'
-  | 'E_INPUT_ROW'
-  | 'E_INPUT_UNITS'
-  | 'E_OPTION'
-  | 'E_SERIAL'
-  | 'E_SESSION_FORMAT'
-  | 'E_RECORDING'
-  | 'E_PATH'
-  | 'E_CALIBRATION'
-  | 'E_PROTOCOL';
+export const ERROR_CODES = [
+  'E_INPUT_EMPTY',
+  'E_INPUT_COLUMNS',
+  'E_INPUT_ROW',
+  'E_INPUT_UNITS',
+  'E_OPTION',
+  'E_SERIAL',
+  'E_SESSION_FORMAT',
+  'E_RECORDING',
+  'E_PATH',
+  'E_CALIBRATION',
+  'E_PROTOCOL',
+] as const;
+export type ErrorCode = (typeof ERROR_CODES)[number];
+
+/** True when `v` is one of the codes (a code that came over a thread or process boundary). */
+export function isErrorCode(v: unknown): v is ErrorCode {
+  return (ERROR_CODES as readonly unknown[]).includes(v);
+}
 
 export class EchotrailError extends Error {
   readonly code: ErrorCode;

@@ -10,7 +10,7 @@
  * (zod) before use.
  */
 import { z } from 'zod';
-import { EchotrailError, type ErrorCode } from '../errors.ts';
+import { EchotrailError, isErrorCode } from '../errors.ts';
 import { startWorker, workerFailure } from '../worker-thread.ts';
 import { newSkipReport, type DetectionsCsvOptions, type DetectionsCsvReader, type SkipReport } from './detections-csv.ts';
 import { DETECTION_FIELDS, unpackDetections, type DetectionsWorkerInput, type DetectionsWorkerMessage, type MoreMessage, type PlainSkipReport } from './detections-packing.ts';
@@ -42,11 +42,9 @@ function applyReport(to: SkipReport, from: PlainSkipReport): void {
   to.skippedLines.splice(0, to.skippedLines.length, ...from.skippedLines);
 }
 
-const ERROR_CODES = new Set<string>(['E_INPUT_EMPTY', 'E_INPUT_COLUMNS', 'E_INPUT_ROW', 'E_INPUT_UNITS', 'E_OPTION', 'E_PATH'] satisfies ErrorCode[]);
-
 /** The worker's error as the in-thread reader would have thrown it. */
 function errorFrom(m: { code: string | null; message: string }): Error {
-  return m.code !== null && ERROR_CODES.has(m.code) ? new EchotrailError(m.code as ErrorCode, m.message) : new Error(m.message);
+  return isErrorCode(m.code) ? new EchotrailError(m.code, m.message) : new Error(m.message);
 }
 
 /**
