@@ -8,6 +8,7 @@
  */
 import type { LiveComparisonLike, ReplaySourceLike } from './deps.ts';
 import type { TrackEngine } from '../types.ts';
+import type { SourceRecord } from '../ingest/source.ts';
 import type { LiveState } from './state.ts';
 
 /** Records fed between two yields to the event loop, so a long fast-forward keeps the server responsive. */
@@ -15,8 +16,9 @@ const CHUNK = 20_000;
 
 /**
  * Feeds the tracker every detection before `timeS` and leaves `state` holding the tracks,
- * history, recent detections and fixed echoes at that time, and `comparison` (reset) the figures. Returns false when the source offers
- * no way to read its history, or when `abandoned()` turned true (a newer seek overtook this one).
+ * history, recent detections and fixed echoes at that time, and `comparison` (reset) the
+ * figures. Returns false when the source offers no way to read its history, or when
+ * `abandoned()` turned true (a newer seek overtook this one).
  */
 export async function rebuildAfterSeek(
   source: ReplaySourceLike,
@@ -26,11 +28,9 @@ export async function rebuildAfterSeek(
   abandoned: () => boolean,
   comparison: LiveComparisonLike | null = null,
 ): Promise<boolean> {
-  if (typeof source.recordsUntil !== 'function') return false;
-  let n = 0;
-  for await (const r of source.recordsUntil(timeS)) {
+  const done = await replayUntil(source, timeS, abandoned, (r) => {
     if (r.kind === 'detection') {
-      if (r.detection.timeS > timeS) break;
+      if (r.detection.timeS > timeS) return false;
       if (r.detection.timeS >= timeS - state.options.recentDetectionsS) state.addDetection(r.detection);
       const out = tracker.push(r.detection);
       for (const u of out.updates) (state.addUpdate(u), comparison?.update(u));
@@ -44,11 +44,9 @@ export async function rebuildAfterSeek(
       state.setCommanded(r.path, r.target);
       comparison?.commanded(r.path, r.target);
     }
-    if (++n % CHUNK === 0) {
-      await new Promise((res) => setImmediate(res));
-      if (abandoned()) return false;
-    }
-  }
+    return true;
+  });
+  if (!done) return false;
   state.fixedEchoes = tracker.fixedEchoes();
   state.timeS = Math.max(state.timeS, timeS);
   return true;
@@ -63,13 +61,26 @@ export async function rebuildAfterSeek(
  */
 export async function rebuildComparison(source: ReplaySourceLike, comparison: LiveComparisonLike, state: LiveState, timeS: number, abandoned: () => boolean): Promise<boolean> {
   if (typeof source.recordsUntil !== 'function') return false;
-  let n = 0;
   state.clearPositionerPaths();
-  for await (const r of source.recordsUntil(timeS)) {
+  return replayUntil(source, timeS, abandoned, (r) => {
     if (r.kind === 'commanded') comparison.commanded(r.path, r.target);
     else if (r.kind === 'positioner') (comparison.positioner(r.sample), state.addPositioner(r.sample));
     else if (r.kind === 'track') comparison.update(r.update);
     else if (r.kind === 'deletion') comparison.deletion(r.deletion);
+    return true;
+  });
+}
+
+/**
+ * Hands `visit` every record of the run up to `timeS`, yielding to the event loop every CHUNK
+ * records. True once all were visited or `visit` said stop (false); false when the source has
+ * no history or `abandoned()` turned true at a yield.
+ */
+async function replayUntil(source: ReplaySourceLike, timeS: number, abandoned: () => boolean, visit: (r: SourceRecord) => boolean): Promise<boolean> {
+  if (typeof source.recordsUntil !== 'function') return false;
+  let n = 0;
+  for await (const r of source.recordsUntil(timeS)) {
+    if (!visit(r)) break;
     if (++n % CHUNK === 0) {
       await new Promise((res) => setImmediate(res));
       if (abandoned()) return false;
