@@ -67,7 +67,6 @@ export class LiveState {
   /** Per track: [t, x, y, speed, heading] of each update, the filter's own speed and heading included. */
   private readonly historyMap = new Map<number, Ring<[number, number, number, number, number]>>();
   private readonly detections: Ring<DetectionWire>;
-  private commandedPath: PathPointWire[] = [];
   /** Whole commanded paths by target ('' for one without), in the order they came. */
   private readonly commandedByTarget = new Map<string, PathPointWire[]>();
   /** True once the source sent a whole commanded path: positioner samples then no longer extend it. */
@@ -94,7 +93,6 @@ export class LiveState {
   }
 
   clearCommanded(): void {
-    this.commandedPath = [];
     this.commandedByTarget.clear();
     this.commandedExplicit = false;
     this.positionerPaths.clear();
@@ -159,7 +157,6 @@ export class LiveState {
       built.stepS *= 2;
       built.path = thinToStep(built.path, built.stepS);
     }
-    if (this.positionerPaths.keys().next().value === key) this.commandedPath = built.path;
   }
 
   /**
@@ -172,12 +169,13 @@ export class LiveState {
     const step = Math.ceil(path.length / this.options.maxCommandedPoints);
     const kept = step > 1 ? path.filter((_, i) => i % step === 0) : path.slice();
     this.commandedByTarget.set(target, kept);
-    if (this.commandedByTarget.keys().next().value === target) this.commandedPath = kept;
     return kept;
   }
 
   get commanded(): PathPointWire[] {
-    return this.commandedPath;
+    // The first target's path, whole or built from positioner samples.
+    const first = this.commandedExplicit ? this.commandedByTarget.values().next().value : this.positionerPaths.values().next().value?.path;
+    return first ?? [];
   }
 
   /** Every commanded path by target: the whole ones given, else those built from positioner samples. */
@@ -193,7 +191,6 @@ export class LiveState {
   clearPositionerPaths(): void {
     if (this.commandedExplicit) return;
     this.positionerPaths.clear();
-    this.commandedPath = [];
   }
 
   /** Where the paths come from: given whole, built from positioner samples, or none yet. */
