@@ -100,15 +100,19 @@ export function applyMessage(state: DashboardState, msg: ServerMessage, limits: 
   }
 }
 
+/** A point of a running-RMSE chart: of the figures only the time and the RMSE are known. */
+function rmsePoint(timeS: number, rmseM: number, pathId: string): ComparisonFigures {
+  return { timeS, samples: 0, rmseM, crossTrackM: null, alongTrackM: null, maxErrorM: null, lagS: null, trackId: null, pathId };
+}
+
 /**
- * The running-RMSE charts from a snapshot's history (the bridge's figures since the run's start):
- * only the RMSE and the time are known of those points.
+ * The running-RMSE charts from a snapshot's history (the bridge's figures since the run's start).
  */
 function loadComparisonHistory(state: DashboardState, history: readonly { pathId: string; points: readonly number[] }[], limits: StateLimits): void {
   const points: ComparisonFigures[] = [];
   for (const h of history) {
     for (let i = 0; i + 1 < h.points.length; i += 2) {
-      points.push({ timeS: h.points[i], samples: 0, rmseM: h.points[i + 1], crossTrackM: null, alongTrackM: null, maxErrorM: null, lagS: null, trackId: null, pathId: h.pathId });
+      points.push(rmsePoint(h.points[i], h.points[i + 1], h.pathId));
     }
   }
   points.sort((a, b) => a.timeS - b.timeS);
@@ -127,7 +131,7 @@ function addRecentPoints(state: DashboardState, pathId: string, recent: readonly
   }
   for (let i = 0; i + 1 < recent.length; i += 2) {
     if (recent[i] <= lastS) continue;
-    state.comparisonHistory.push({ timeS: recent[i], samples: 0, rmseM: recent[i + 1], crossTrackM: null, alongTrackM: null, maxErrorM: null, lagS: null, trackId: null, pathId });
+    state.comparisonHistory.push(rmsePoint(recent[i], recent[i + 1], pathId));
   }
 }
 
