@@ -4,6 +4,7 @@
  */
 import { z } from 'zod';
 import type { DetectionWire, PathPointWire } from '../../../bridge/server/protocol.ts';
+import { fixedWithMinus } from '../stream/format.ts';
 
 export interface MeasuredSpot {
   label: string;
@@ -102,20 +103,12 @@ export function summaryRows(summary: Record<string, number | string | boolean>):
   });
 }
 
-/**
- * Fixed digits with the minus sign "−" (U+2212) the dashboard shows for negatives, and no sign when
- * the value rounds to zero: "−0.0000 m" would claim an offset the digits do not show.
- */
-function fixed(v: number, digits: number): string {
-  const text = Math.abs(v).toFixed(digits);
-  return v < 0 && Number(text) !== 0 ? `−${text}` : text;
-}
 
 function withUnit(v: number, unit: 'm' | 'deg' | 'ratio' | 'count' | undefined): string {
-  if (unit === 'm') return `${fixed(v, 4)} m`;
-  if (unit === 'deg') return `${fixed(v, 3)}°`;
-  if (unit === 'ratio') return `${fixed(v, 5)} (×)`;
-  return Number.isInteger(v) ? fixed(v, 0) : fixed(v, 4);
+  if (unit === 'm') return `${fixedWithMinus(v, 4)} m`;
+  if (unit === 'deg') return `${fixedWithMinus(v, 3)}°`;
+  if (unit === 'ratio') return `${fixedWithMinus(v, 5)} (×)`;
+  return Number.isInteger(v) ? fixedWithMinus(v, 0) : fixedWithMinus(v, 4);
 }
 
 /** One measured spot's residuals as the offsets answer gives them (bridge/calibrate/api.ts). */
@@ -142,9 +135,9 @@ export interface SpotRow {
   azimuthFlagged: boolean;
 }
 
-/** As `fixed`, with "+" on values that are not negative (a residual reads as a direction). */
+/** As `fixedWithMinus`, with "+" on values that are not negative (a residual reads as a direction). */
 const signed = (v: number, digits: number) => {
-  const text = fixed(v, digits);
+  const text = fixedWithMinus(v, digits);
   return text.startsWith('−') ? text : `+${text}`;
 };
 

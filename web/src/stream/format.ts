@@ -21,11 +21,18 @@ export function normaliseDegrees(deg: number): number {
   return d >= 359.99995 || Object.is(d, -0) ? 0 : d;
 }
 
-/** Metres; a negative value (a coordinate) takes the minus sign, as every signed figure here does; "-0.00" reads "0.00". */
+/**
+ * `v.toFixed(digits)` with the minus sign (U+2212) every signed figure here uses, and no sign when
+ * the value rounds to zero: "−0.00" would claim a negative the digits do not show.
+ */
+export function fixedWithMinus(v: number, digits: number): string {
+  const text = Math.abs(v).toFixed(digits);
+  return v < 0 && Number(text) !== 0 ? `−${text}` : text;
+}
+
+/** Metres; a negative value (a coordinate) takes the minus sign. */
 export function formatMetres(m: number | null | undefined, digits = 2): string {
-  if (!ok(m)) return DASH;
-  const text = Math.abs(m).toFixed(digits);
-  return m < 0 && Number(text) !== 0 ? `−${text} m` : `${text} m`;
+  return ok(m) ? `${fixedWithMinus(m, digits)} m` : DASH;
 }
 
 /** Signed metres keep an explicit "+" so cross/along-track errors read unambiguously. */
@@ -78,9 +85,7 @@ export function formatSpeedFactor(f: number | null | undefined): string {
 /** Short times (lags, steps): milliseconds below one second, seconds above. */
 export function formatShortTime(s: number | null | undefined): string {
   if (!ok(s)) return DASH;
-  // The minus sign (U+2212), as in every other signed figure; "-0 ms" reads as "0 ms".
-  const text = Math.abs(s) < 1 ? `${(Math.abs(s) * 1000).toFixed(0)} ms` : `${Math.abs(s).toFixed(2)} s`;
-  return s < 0 && !/^0 ms$/.test(text) ? `−${text}` : text;
+  return Math.abs(s) < 1 ? `${fixedWithMinus(s * 1000, 0)} ms` : `${fixedWithMinus(s, 2)} s`;
 }
 
 /** Compact age for table cells: "42 s", "76 s", "12 min". */
