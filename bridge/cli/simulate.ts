@@ -5,6 +5,7 @@
  * and renamed into place at the end (atomic-file.ts): a failed run leaves earlier files as they were.
  */
 import { Command, InvalidArgumentError } from 'commander';
+import { numberArg as number } from './run-command.ts';
 import { parseOrExit } from './parse.ts';
 import { writeAtomically } from '../atomic-file.ts';
 import { reportError } from './report-error.ts';
@@ -17,11 +18,6 @@ import { SCENARIOS, builtinScenario } from '../sim/scenarios.ts';
 import { loadScenarioFile } from '../sim/scenario-file.ts';
 import { EchotrailError } from '../errors.ts';
 
-const number = (v: string) => {
-  const n = Number(v);
-  if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('not a number');
-  return n;
-};
 // Option values are checked here, while parsing, so a bad one is a usage error (exit 2) before
 // anything is written; resolveScenarioOptions checks scenario files again when the run starts.
 // σ = 0 is a noise-free run and a rate or lag of 0 means none, so only negatives are wrong

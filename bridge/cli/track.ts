@@ -9,6 +9,7 @@
  */
 import { createWriteStream, statSync } from 'node:fs';
 import { Command, InvalidArgumentError } from 'commander';
+import { numberArg as num } from './run-command.ts';
 import { parseOrExit } from './parse.ts';
 import { writeAtomically } from '../atomic-file.ts';
 import { reportError } from './report-error.ts';
@@ -29,11 +30,6 @@ const DEG = Math.PI / 180;
  */
 const IO_THREADS_MIN_BYTES = 4e6;
 
-const num = (v: string) => {
-  const n = Number(v);
-  if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError('not a number');
-  return n;
-};
 const int = (v: string) => {
   const n = num(v);
   if (!Number.isInteger(n)) throw new InvalidArgumentError('not an integer');
