@@ -7,6 +7,7 @@
  * The prose description with examples is docs/protocol.md; keep both in step.
  */
 import { z } from 'zod';
+import { POSITIONER_ID_RE } from '../ingest/line-protocol.ts';
 
 export const PROTOCOL_VERSION = 1;
 
@@ -70,7 +71,7 @@ export const positionerWire = z.object({
   measX: finite.optional(),
   measY: finite.optional(),
   /** Which positioner or carriage, on a bench with several (the line protocol's `id=`). */
-  target: z.string().regex(/^[A-Za-z0-9_.-]{1,32}$/).optional(),
+  target: z.string().regex(POSITIONER_ID_RE).optional(),
 });
 export type PositionerWire = z.infer<typeof positionerWire>;
 
