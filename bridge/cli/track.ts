@@ -172,11 +172,6 @@ function ioThreads(when: IoThreads, input: string): boolean {
   return input !== '-' && (statSync(input, { throwIfNoEntry: false })?.size ?? 0) >= IO_THREADS_MIN_BYTES;
 }
 
-async function sinkInWorker(output: string, shownOutput: string): Promise<RowSink> {
-  const w = await TracksCsvWorkerWriter.open(output, shownOutput);
-  return { add: (u) => w.add(u), room: () => w.room(), end: () => w.end(), abandon: () => void w.stop() };
-}
-
 /**
  * The streaming loop: reader → tracker → CSV, with the stderr reports. With `threads`, the
  * reading and the writing run in worker threads, so the tracking has this thread to itself
@@ -185,7 +180,7 @@ async function sinkInWorker(output: string, shownOutput: string): Promise<RowSin
 async function trackFile(tracker: Tracker, input: string, output: string, shownOutput: string, maxRangeM: number | undefined, threads: boolean): Promise<void> {
   const readOptions = maxRangeM !== undefined ? { maxRangeM } : {};
   const reader = threads && input !== '-' ? readDetectionsCsvInWorker(input, readOptions) : readDetectionsCsv(input, readOptions);
-  const sink = threads && output !== '-' ? await sinkInWorker(output, shownOutput) : tracksCsvSink(output === '-' ? process.stdout : createWriteStream(output), output !== '-', shownOutput);
+  const sink: RowSink = threads && output !== '-' ? await TracksCsvWorkerWriter.open(output, shownOutput) : tracksCsvSink(output === '-' ? process.stdout : createWriteStream(output), output !== '-', shownOutput);
   try {
     await trackLoop(tracker, reader, sink);
   } catch (err) {

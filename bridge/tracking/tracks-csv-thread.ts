@@ -14,6 +14,7 @@ import { EchotrailError } from '../errors.ts';
 import { startWorker, workerFailure } from '../worker-thread.ts';
 import { packUpdate, ROWS_PER_PIECE, UPDATE_FIELDS, type TracksWorkerCommand, type TracksWorkerInput, type TracksWorkerMessage } from './tracks-packing.ts';
 import type { TrackUpdate } from '../types.ts';
+import type { RowSink } from './tracks-csv-sink.ts';
 
 const fromWorker: z.ZodType<TracksWorkerMessage> = z.discriminatedUnion('type', [
   /** One piece formatted and handed to the file. */
@@ -25,7 +26,7 @@ const fromWorker: z.ZodType<TracksWorkerMessage> = z.discriminatedUnion('type', 
 ]);
 
 /** Writes a tracks CSV file from a worker thread; the caller adds rows, waits for room, ends. */
-export class TracksCsvWorkerWriter {
+export class TracksCsvWorkerWriter implements RowSink {
   private piece = new Float64Array(ROWS_PER_PIECE * UPDATE_FIELDS);
   private count = 0;
   private inFlight = 0;
@@ -79,8 +80,12 @@ export class TracksCsvWorkerWriter {
     if (this.failure) throw this.failure;
   }
 
-  /** Stops the worker without finishing the file (a failed run: the caller discards it). */
-  async stop(): Promise<void> {
+  /** A failed run: stops the worker without finishing the file (the caller discards it). */
+  abandon(): void {
+    void this.stop();
+  }
+
+  private async stop(): Promise<void> {
     this.done = true;
     this.worker.removeAllListeners();
     await this.worker.terminate();
