@@ -39,6 +39,25 @@ describe('readSessionRun', () => {
     expect(s.commanded!.length).toBe(901);
   });
 
+  it("with several named positioners, takes one positioner's samples, not a path zigzagging between them", async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'echotrail-sess-'));
+    const rec = new Recorder({ dir, name: 'two carriages', source: { kind: 'simulator', name: 'test' }, startUtc: new Date('2026-12-02T02:00:00Z') });
+    expect(rec.open()).toBe(true);
+    for (let i = 0; i <= 50; i++) {
+      const t = i * 0.1;
+      rec.record({ kind: 'positioner', sample: { timeS: t, cmdX: -1 + 0.1 * t, cmdY: 2, target: '1' } });
+      rec.record({ kind: 'positioner', sample: { timeS: t, cmdX: 1 - 0.1 * t, cmdY: 3, target: '2' } });
+      rec.record({ kind: 'detection', detection: { timeS: t, azimuthRad: 0.1, rangeM: 2.5, amplitude: 10 } });
+    }
+    const file = rec.status().path as string;
+    await rec.close();
+    const s = await readSessionRun(file);
+    expect(s.pathSource).toBe('positioner');
+    expect(s.commanded!.length).toBe(51);
+    expect(s.commanded!.every((p) => p.y === 2)).toBe(true);
+    expect(s.warnings).toContain(`${file} holds positioner samples of 2 positioners (1, 2); those of 1 are used`);
+  });
+
   it('falls back to the positioner samples, and tunes from the session', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'echotrail-sess-'));
     const file = await recordSession(dir, 'positioner');
