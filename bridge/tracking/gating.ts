@@ -24,6 +24,20 @@ export interface BatchGates {
 }
 
 /**
+ * An established track takes a detection that only its manoeuvre model gates (an "unlikely"
+ * pair) only if its amplitude is at least this share of the track's recent amplitude (−14 dB).
+ * A false alarm sits near the detection threshold while the track's reflector is usually well
+ * above it; the manoeuvre model's wide gate is where a false alarm can pull a track off its target
+ * and send it coasting away at the speed the jump implies. Amplitude as a feature of the
+ * association: Lerro & Bar-Shalom, "Interacting multiple model tracking with target amplitude
+ * feature", IEEE Trans. AES 29(2), 1993. The ratio is ours: a Rayleigh-fluctuating echo (Swerling
+ * I) falls below a fifth of its mean amplitude in 3.1 % of scans (P = 1 − exp(−(0.2·√(π/2))²/2),
+ * from the Rayleigh distribution function, common practice), so the veto costs a fluctuating
+ * target about one detection in thirty, and only where its likely model missed it anyway.
+ */
+export const MANOEUVRE_AMPLITUDE_FLOOR = 0.2;
+
+/**
  * @param minGapS a track takes no detection less than this after its last hit: on a rotating
  *   antenna one target answers once per revolution, so a second detection within the same sweep
  *   is a neighbour's (the way a track would chain along a wall of reflectors); 0 = no limit
@@ -33,6 +47,8 @@ export interface BatchGates {
  *   position variance of a coasting IMM's manoeuvre model grows as the fourth power of the time
  *   since its last hit, its gate to tens of metres after a few missed scans, which no positioner
  *   covers.
+ * @param amplitudes each detection's amplitude, for the manoeuvre gate's amplitude floor
+ *   (MANOEUVRE_AMPLITUDE_FLOOR); null = no floor
  */
 export function gateBatch(
   ms: readonly Measurement[],
@@ -41,6 +57,7 @@ export function gateBatch(
   gamma: number,
   minGapS = 0,
   maxSpeedMps = Infinity,
+  amplitudes: ArrayLike<number> | null = null,
 ): BatchGates {
   const g: BatchGates = {
     established: [],
@@ -70,6 +87,7 @@ export function gateBatch(
       if (cost > echoCost) continue;
       const tentative = t.status === 'tentative';
       const unlikely = !((d2Likely ?? d2) < gamma);
+      if (unlikely && !tentative && amplitudes && tooFaintToManoeuvre(t, amplitudes[j])) continue;
       (tentative ? g.tentative : g.established).push({ track: id, det: j, cost, unlikely });
       g.missCost.set(id, Math.max(g.missCost.get(id) ?? -Infinity, gamma + logDetS));
       // Only a detection the track really expects (under its likely model) is kept from seeding:
@@ -79,6 +97,11 @@ export function gateBatch(
     }
   }
   return g;
+}
+
+/** The detection is far fainter than the track's reflector (see MANOEUVRE_AMPLITUDE_FLOOR). */
+function tooFaintToManoeuvre(t: Track, amplitude: number): boolean {
+  return amplitude < MANOEUVRE_AMPLITUDE_FLOOR * t.recentAmplitude;
 }
 
 /** The detection lies within what the fastest target covers since the track's last hit, plus 3σ of noise. */

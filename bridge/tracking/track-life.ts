@@ -39,6 +39,9 @@ function departed(a: Measurement, b: Measurement, minM: number): boolean {
 /** Earlier hits a track keeps for the left-behind test: the start of a three-hit departure. */
 export const RECENT_HITS = 5;
 
+/** Weight of each new hit in Track.recentAmplitude: about the last three hits count. */
+const RECENT_AMPLITUDE_WEIGHT = 1 / 3;
+
 export class Track {
   status: TrackStatus = 'tentative';
   hits = 1;
@@ -77,6 +80,12 @@ export class Track {
   /** First hit of the current run of hits away from the anchor. */
   private outsideFrom: Measurement | undefined;
   private ampSum: number;
+  /**
+   * The amplitude of the latest hits, smoothed (weight RECENT_AMPLITUDE_WEIGHT on each new hit).
+   * It follows the echo as the range changes (the voltage amplitude goes as 1/R², radar equation),
+   * which the run's mean amplitude does not: a carriage driving from 1.5 m to 4 m fades to a seventh.
+   */
+  recentAmplitude: number;
 
   constructor(
     readonly id: number,
@@ -93,6 +102,7 @@ export class Track {
     this.ax = m.x;
     this.ay = m.y;
     this.ampSum = d.amplitude;
+    this.recentAmplitude = d.amplitude;
     this.lastMeasurement = m;
     this.lastRMax = lambdaMax(m.rxx, m.rxy, m.ryy);
     if (mofn.m <= 1) this.confirm(m.timeS);
@@ -122,6 +132,7 @@ export class Track {
     this.lastRMax = lambdaMax(m.rxx, m.rxy, m.ryy);
     this.lastMeasurement = m;
     this.ampSum += d.amplitude;
+    this.recentAmplitude += RECENT_AMPLITUDE_WEIGHT * (d.amplitude - this.recentAmplitude);
     this.noteStay(m, Math.max(2 * moveThresholdM, 3 * Math.sqrt(m.rxx + m.ryy)));
     // Consistent innovations (NIS near its mean of 2) raise quality more than surprising ones.
     const g = Math.exp(-Math.max(0, nis - 2) / 4);

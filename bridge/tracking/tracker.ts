@@ -251,7 +251,8 @@ export class Tracker implements TrackEngine {
     let latest = -Infinity;
     for (const m of ms) if (m.timeS > latest) latest = m.timeS;
     this.index.refresh(latest, this.live);
-    const gates = gateBatch(ms, this.index, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps);
+    const amplitudes = dets.map((d) => d.amplitude);
+    const gates = gateBatch(ms, this.index, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps, amplitudes);
     let { established, tentative } = gates;
     const { missCost, echo: cand, nearEstablished: nearConfirmed } = gates;
     const now = dets[dets.length - 1].timeS;

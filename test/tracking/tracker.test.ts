@@ -194,22 +194,31 @@ describe('tracker end to end on simulated runs', () => {
     const run = simulateRun({ ...crowdScenario(30, 5), durationS: 40 });
     const tracker = new Tracker({});
     const lags: number[] = [];
-    for (const d of run.detections) {
-      for (const u of tracker.push(d).updates) if (u.measurement && u.timeS > 15) lags.push(d.timeS - u.measurement.timeS);
+    // How long before the releasing push the beam was already half a revolution past (must be never).
+    let heldPastHalf = 0;
+    const dets = run.detections;
+    for (let k = 0; k < dets.length; k++) {
+      for (const u of tracker.push(dets[k]).updates) {
+        if (!u.measurement || u.timeS <= 15) continue;
+        lags.push(dets[k].timeS - u.measurement.timeS);
+        if (k > 0 && dets[k - 1].timeS - u.measurement.timeS > 0.5 * tracker.inferred()!.intervalS + 1e-9) heldPastHalf++;
+      }
     }
     const period = tracker.inferred()!.intervalS;
     expect(lags.length).toBeGreaterThan(300);
+    expect(heldPastHalf).toBe(0);
     lags.sort((a, b) => a - b);
     // An update leaves with its own detection, or, in a contested cluster (tracks sharing
     // detections, a tentative or coasting track's wide gate), once the beam has passed the
     // cluster's gates: half a revolution at most, plus the wait for the next detection (this
-    // bench gives ~40 a revolution). A whole-revolution batch lags half a revolution on average
+    // bench gives ~40 a revolution, with gaps of a tenth of a revolution now and then: checked
+    // exactly above, loosely here). A whole-revolution batch lags half a revolution on average
     // and up to one.
     const q = (p: number) => lags[Math.floor(p * (lags.length - 1))] / period;
     expect(lags.filter((l) => l === 0).length / lags.length).toBeGreaterThan(0.2);
     expect(q(0.5)).toBeLessThan(0.15);
     expect(q(0.9)).toBeLessThan(0.5);
-    expect(q(1)).toBeLessThan(0.6);
+    expect(q(1)).toBeLessThan(0.7);
   });
 
   it('holds a detection no longer than until the push of the first detection half a revolution later', () => {
