@@ -198,6 +198,8 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
     await picker.selectOption(await option.getAttribute('value') ?? '');
     await page.locator('[data-testid=source-status]', { hasText: 'crossing' }).waitFor();
     expect(await page.locator('[data-testid=replay-clock]').innerText()).toMatch(/^0:0\d\.\d/);
+    // The select may cut the line short; its tooltip carries all of it (name, start, length, tracks).
+    expect(await picker.getAttribute('title')).toMatch(/^bay3-crossing-carriages · \d{4}-\d\d-\d\d \d\d:\d\d — .*tracks?/);
     expect(pageErrors).toEqual([]);
   });
 });
