@@ -202,13 +202,23 @@ export async function startBridge(input: Partial<BridgeOptions> = {}): Promise<R
   });
   server.on('clientError', (_err, socket) => socket.destroy());
 
-  await new Promise<void>((resolveListen, reject) => {
-    server.once('error', reject);
-    server.listen(o.port, o.host, () => {
-      server.off('error', reject);
-      resolveListen();
+  try {
+    await new Promise<void>((resolveListen, reject) => {
+      server.once('error', reject);
+      server.listen(o.port, o.host, () => {
+        server.off('error', reject);
+        resolveListen();
+      });
     });
-  });
+  } catch (err) {
+    // The hub's ping timer and the pipeline are already running: left open, they kept the
+    // process alive after `start` had reported the busy port.
+    playlist?.stop();
+    hub.close();
+    wss.close();
+    await pipeline.close();
+    throw err;
+  }
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : o.port;
   const base = `${hostForUrl(o.host)}:${port}`;

@@ -4,6 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { spawn } from 'node:child_process';
+import { createServer } from 'node:net';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -57,4 +58,25 @@ describe('echotrail start', () => {
     expect(missing.code).toBe(1);
     expect(missing.err).toMatch(/E_PATH: replay file '\/nonexistent\/run.session.jsonl' not found/);
   });
+
+  it('exits 1 at once, with the reason, when its port is taken (nothing left running)', async () => {
+    const blocker = createServer();
+    await new Promise<void>((r) => blocker.listen(0, '127.0.0.1', () => r()));
+    const port = (blocker.address() as { port: number }).port;
+    try {
+      const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'bridge/cli/main.ts'), 'start', '--no-build', '--port', String(port), '--replay', session(mkdtempSync(join(tmpdir(), 'et-cli-')))], { cwd: root, stdio: ['ignore', 'ignore', 'pipe'] });
+      let err = '';
+      child.stderr.on('data', (d: Buffer) => (err += d));
+      // Before the fix the process printed the reason and then stayed up: the hub's timer and the
+      // opened pipeline kept the event loop alive. 20 s is far beyond a normal exit (about 1 s).
+      const code = await new Promise<number | null | 'hung'>((resolve) => {
+        const timer = setTimeout(() => (child.kill('SIGKILL'), resolve('hung')), 20_000);
+        child.on('exit', (c) => (clearTimeout(timer), resolve(c)));
+      });
+      expect(code).toBe(1);
+      expect(err).toMatch(/port in use; choose another with --port or PORT/);
+    } finally {
+      blocker.close();
+    }
+  }, 30_000);
 });

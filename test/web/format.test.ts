@@ -50,6 +50,10 @@ describe('formatting with units', () => {
     expect(formatDuration(125)).toBe('2 min 05 s');
     expect(formatClock(65.25)).toBe('1:05.3');
     expect(formatClock(-1)).toBe('0:00.0');
+    // A time just short of the minute rolls over whole: never "1:60.0".
+    expect(formatClock(119.997)).toBe('2:00.0');
+    expect(formatClock(59.94)).toBe('0:59.9');
+    expect(formatClock(59.95)).toBe('1:00.0');
     expect(formatSpeedFactor(0.25)).toBe('0.25×');
     expect(formatSpeedFactor(0.1)).toBe('0.1×');
     expect(formatSpeedFactor(1)).toBe('1×');

@@ -59,8 +59,10 @@ export function formatDuration(s: number | null | undefined): string {
 /** Timeline clock "m:ss.s" for the replay bar (the unit is in the label beside it). */
 export function formatClock(s: number | null | undefined): string {
   if (!ok(s) || s < 0) return '0:00.0';
-  const min = Math.floor(s / 60);
-  const sec = s - min * 60;
+  // Round to the tenth first, then split: splitting first turned 119.97 s into "1:60.0".
+  const tenths = Math.round(s * 10);
+  const min = Math.floor(tenths / 600);
+  const sec = (tenths - min * 600) / 10;
   return `${min}:${sec.toFixed(1).padStart(4, '0')}`;
 }
 
