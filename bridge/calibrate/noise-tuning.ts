@@ -8,13 +8,19 @@
  *    target's. σ_range and σ_azimuth are the std of their residuals, with χ² confidence intervals
  *    ((n−1)s²/σ² ~ χ²(n−1); Papoulis & Pillai, *Probability, Random Variables and Stochastic
  *    Processes*, 4th ed., §7-4, from memory). What the positioner does besides its command
- *    (following error, vibration) counts as measurement noise here.
+ *    (following error, vibration) counts as measurement noise here. Detections on a fixed echo
+ *    (a mount, a cable joint), as the tracker's fixed-echo map learns them over the whole run,
+ *    are left out first: a mount 0.3 m from where the carriage dwells lies inside the gate, and
+ *    taking it in doubled the σ estimates on the rail runs.
  * 2. The chosen filter (bridge/tracking/filter.ts, used as is) runs over those detections and the
  *    process-noise level is bisected (on a log scale) until the time-averaged NIS equals its
  *    expected value n_z = 2 (nis.ts; Bar-Shalom et al. 2001 §5.4).
  */
 import { EchotrailError } from '../errors.ts';
-import type { Detection } from '../types.ts';
+import type { Detection, FixedEcho } from '../types.ts';
+import { Tracker } from '../tracking/tracker.ts';
+import { gateThreshold } from '../tracking/gate.ts';
+import { mahalanobis2 } from '../tracking/filter-types.ts';
 import { createFilter, resolveFilterOptions, type FilterOptions } from '../tracking/filter.ts';
 import { resolveMeasurementOptions, toMeasurement } from '../tracking/measurement.ts';
 import quantile from '@stdlib/stats-base-dists-chisquare-quantile';
@@ -39,14 +45,20 @@ export interface NoiseTuningOptions {
   searchRange?: [number, number];
   /** Fewest associated detections (default 30). */
   minSamples?: number;
+  /** Leave out detections on the run's fixed echoes (default true). */
+  skipFixedEchoes?: boolean;
 }
 
 export function resolveNoiseTuningOptions(o: NoiseTuningOptions = {}) {
-  return { gateM: o.gateM ?? 0.4, filter: o.filter ?? 'kalman', settleUpdates: o.settleUpdates ?? 5, restartGapS: o.restartGapS ?? 5, searchRange: o.searchRange ?? ([0.001, 20] as [number, number]), minSamples: o.minSamples ?? 30 };
+  return { gateM: o.gateM ?? 0.4, filter: o.filter ?? 'kalman', settleUpdates: o.settleUpdates ?? 5, restartGapS: o.restartGapS ?? 5, searchRange: o.searchRange ?? ([0.001, 20] as [number, number]), minSamples: o.minSamples ?? 30, skipFixedEchoes: o.skipFixedEchoes ?? true };
 }
 
 export interface NoiseTuningResult {
   samples: number;
+  /** Detections within the gate left out because they lie on a fixed echo of the run. */
+  onFixedEchoes: number;
+  /** Fixed echoes the run showed (the tracker's map at its end, bench-corrected frame). */
+  fixedEchoes: number;
   sigmaRangeM: number;
   /** 95% confidence interval of σ_range, m. */
   sigmaRangeCiM: [number, number];
@@ -118,9 +130,41 @@ export function runNis(dets: Detection[], filter: FilterOptions, sigmaRangeM: nu
   return nis;
 }
 
+/**
+ * The run's fixed echoes, learned by the tracker itself over the bench-corrected detections (its
+ * map keeps a target pausing on its positioner out, see fixed-echo-map.ts), and the measurement
+ * noise it inferred, to draw each echo's gate with.
+ */
+function fixedEchoesOf(detections: readonly Detection[], config: BenchConfig): { echoes: FixedEcho[]; sigmaRangeM: number; sigmaAzimuthRad: number } {
+  const tracker = new Tracker({});
+  for (const d of detections) tracker.push(correctDetection(d, config));
+  tracker.flush();
+  const info = tracker.inferred();
+  const defaults = resolveMeasurementOptions();
+  return { echoes: tracker.fixedEchoes(), sigmaRangeM: info?.sigmaRangeM ?? defaults.sigmaRangeM, sigmaAzimuthRad: info?.sigmaAzimuthRad ?? defaults.sigmaAzimuthRad };
+}
+
+/** True when the (corrected) detection falls in a fixed echo's 99 % gate (R of both, from `noise`). */
+function onFixedEcho(d: Detection, echoes: readonly FixedEcho[], noise: { sigmaRangeM: number; sigmaAzimuthRad: number }, gamma: number): boolean {
+  if (!echoes.length) return false;
+  const m = toMeasurement(d, resolveMeasurementOptions(noise));
+  return echoes.some((e) => mahalanobis2(m.x - e.x, m.y - e.y, 2 * m.rxx, 2 * m.rxy, 2 * m.ryy) < gamma);
+}
+
 export function tuneNoise(detections: Iterable<Detection>, commanded: TimedPoint[], config: BenchConfig, options?: NoiseTuningOptions): NoiseTuningResult {
   const o = resolveNoiseTuningOptions(options);
-  let assoc = associateWithPath(detections, commanded, config, o.gateM);
+  const all = [...detections];
+  let assoc = associateWithPath(all, commanded, config, o.gateM);
+  let onFixedEchoes = 0;
+  let fixedEchoes = 0;
+  if (o.skipFixedEchoes && assoc.length) {
+    const learned = fixedEchoesOf(all, config);
+    fixedEchoes = learned.echoes.length;
+    const gamma = gateThreshold(0.99, 2);
+    const before = assoc.length;
+    assoc = assoc.filter((a) => !onFixedEcho(a.d, learned.echoes, learned, gamma));
+    onFixedEchoes = before - assoc.length;
+  }
   if (assoc.length >= 8) {
     const mr = median(assoc.map((a) => a.dr));
     const ma = median(assoc.map((a) => a.da));
@@ -129,7 +173,8 @@ export function tuneNoise(detections: Iterable<Detection>, commanded: TimedPoint
     assoc = assoc.filter((a) => Math.abs(a.dr - mr) <= 4 * sr && Math.abs(a.da - ma) <= 4 * sa);
   }
   if (assoc.length < o.minSamples) {
-    throw new EchotrailError('E_CALIBRATION', `tuning: only ${assoc.length} detections lie within ${o.gateM} m of the commanded path (need ${o.minSamples}); check the frame calibration, the run/path pairing or widen the gate; nothing was written`);
+    const echoNote = onFixedEchoes ? ` (${onFixedEchoes} more lie on fixed echoes of the run and were left out)` : '';
+    throw new EchotrailError('E_CALIBRATION', `tuning: only ${assoc.length} detections lie within ${o.gateM} m of the commanded path${echoNote} (need ${o.minSamples}); check the frame calibration, the run/path pairing or widen the gate; nothing was written`);
   }
   const r = sigmaWithCi(assoc.map((a) => a.dr));
   const a = sigmaWithCi(assoc.map((x) => x.da));
@@ -161,6 +206,8 @@ export function tuneNoise(detections: Iterable<Detection>, commanded: TimedPoint
   const filter: Partial<FilterOptions> = o.filter === 'kalman' ? { kind: 'kalman', sigmaAccel: tuned.sigmaAccel } : { kind: 'imm', sigmaLow: tuned.sigmaLow, sigmaHigh: tuned.sigmaHigh };
   return {
     samples: assoc.length,
+    onFixedEchoes,
+    fixedEchoes,
     sigmaRangeM: r.sigma, sigmaRangeCiM: r.ci, rangeBiasM: r.mean,
     sigmaAzimuthRad: a.sigma, sigmaAzimuthCiRad: a.ci, azimuthBiasRad: a.mean,
     filter, nisTuned, nisDefault, bracketed,

@@ -40,7 +40,7 @@ export function tunedProfile(result: NoiseTuningResult, config: BenchConfig, met
   const f = result.filter;
   const profile = parseTrackerProfile({
     version: 1,
-    description: `${meta.name}: tuned ${meta.dateUtc} by ${meta.measuredBy} from ${meta.run} on bench ${config.bench}; mean NIS ${result.nisTuned.mean.toFixed(2)} over ${result.nisTuned.count} updates`,
+    description: `${meta.name}: tuned ${meta.dateUtc} by ${meta.measuredBy} from ${meta.run} on bench '${config.bench}'; mean NIS ${result.nisTuned.mean.toFixed(2)} over ${result.nisTuned.count} updates`,
     measurement: {
       sigmaRangeM: result.sigmaRangeM,
       sigmaAzimuthDeg: result.sigmaAzimuthRad / DEG,

@@ -25,9 +25,10 @@ function command(): Command {
     .option('--target-id <n>', 'which target of a multi-target commanded file', numberArg)
     .requiredOption('--name <name>', 'profile name (letters, digits, . _ -): written to <profile-dir>/<name>.json')
     .option('--profile-dir <dir>', 'folder of tracker profiles', pathArg, 'profiles')
-    .option('--calibration <file>', 'calibration file with offsets and frame (read; the noise figures are added to its history)', pathArg, 'calibration.json')
+    .option('--calibration <file>', 'calibration file with offsets and frame: read, then written back with the tuned noise and a history entry (created if missing; not with --dry-run)', pathArg, 'calibration.json')
     .option('--filter <kind>', 'filter to tune: kalman (σ_a, m/s²) or imm (both levels scaled)', 'kalman')
     .option('--gate <m>', 'association radius around the commanded position, metres', numberArg, 0.4)
+    .option('--keep-fixed-echoes', 'also take detections that lie on the run\'s fixed echoes (left out by default: a mount near the path would count as noise)')
     .option('--by <who>', 'who or what tuned it, stored in the profile and the config history', process.env.USER ?? 'unknown')
     .option('--dry-run', 'estimate and print, write nothing');
 }
@@ -38,10 +39,10 @@ async function body(o: Record<string, unknown>): Promise<number> {
   const path = profilePath(o.name as string, o.profileDir as string);
   const config = await loadBenchConfig(o.calibration as string, true);
   const run = await readRunInputs(o, true, 'tune');
-  const r = tuneNoise(run.detections, run.commanded as TimedPoint[], config, { filter, gateM: o.gate as number });
+  const r = tuneNoise(run.detections, run.commanded as TimedPoint[], config, { filter, gateM: o.gate as number, skipFixedEchoes: !o.keepFixedEchoes });
   const ci = (v: [number, number], k = 1) => `[${(v[0] * k).toFixed(4)}, ${(v[1] * k).toFixed(4)}]`;
   const lines = [
-    `associated detections: ${r.samples}`,
+    `associated detections: ${r.samples}` + (r.onFixedEchoes ? ` (${r.onFixedEchoes} more within the gate ${r.onFixedEchoes === 1 ? 'lies' : 'lie'} on the run's fixed echoes (${r.fixedEchoes} learned) and ${r.onFixedEchoes === 1 ? 'was' : 'were'} left out)` : ''),
     `σ_range    ${r.sigmaRangeM.toFixed(4)} m   95% CI ${ci(r.sigmaRangeCiM)} m   (bias ${(r.rangeBiasM * 1000).toFixed(1)} mm)`,
     `σ_azimuth  ${(r.sigmaAzimuthRad / DEG).toFixed(4)}°   95% CI ${ci(r.sigmaAzimuthCiRad, 1 / DEG)}°   (bias ${(r.azimuthBiasRad / DEG).toFixed(3)}°)`,
     `process noise: ${JSON.stringify(r.filter)}`,
@@ -59,6 +60,7 @@ async function body(o: Record<string, unknown>): Promise<number> {
   await saveTrackerProfile(path, profile);
   await saveBenchConfig(o.calibration as string, withCalibration(config, { radar: { ...config.radar, sigmaRangeM: r.sigmaRangeM, sigmaAzimuthDeg: r.sigmaAzimuthRad / DEG } }, noiseRecord(r, o.by as string, now)));
   process.stdout.write(`profile written to ${path}; use: echotrail track --profile ${path}\n`);
+  process.stdout.write(`noise figures and a history entry written to ${o.calibration as string}\n`);
   return 0;
 }
 

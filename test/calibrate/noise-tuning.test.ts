@@ -34,6 +34,25 @@ describe('tuneNoise', () => {
     }
   });
 
+  it('leaves out a rail mount next to where the carriage dwells (it would count as noise)', () => {
+    // rail-sweep: the west rail mount sits 0.3 m from a dwell point, inside the 0.4 m gate. The
+    // simulated noise is σ_r = 5 cm, σ_az = 1.5°; with the mount taken in, both came out about
+    // twice as large and their 95 % intervals (Papoulis & Pillai §7-4, from memory) excluded
+    // the truth.
+    const run = simulateRun({ ...builtinScenario('rail-sweep'), seed: 4 });
+    const cfg = defaultBenchConfig();
+    const kept = tuneNoise(run.detections, run.commanded[0].points, cfg, { skipFixedEchoes: false });
+    expect(kept.onFixedEchoes).toBe(0);
+    expect(kept.sigmaRangeCiM[0]).toBeGreaterThan(0.05);
+    const r = tuneNoise(run.detections, run.commanded[0].points, cfg);
+    expect(r.onFixedEchoes).toBeGreaterThan(10);
+    expect(r.fixedEchoes).toBeGreaterThan(0);
+    expect(r.sigmaRangeCiM[0]).toBeLessThan(0.05);
+    expect(r.sigmaRangeCiM[1]).toBeGreaterThan(0.05);
+    expect(r.sigmaAzimuthCiRad[0]).toBeLessThan(1.5 * DEG);
+    expect(r.sigmaAzimuthCiRad[1]).toBeGreaterThan(1.5 * DEG);
+  });
+
   it('a manoeuvring run needs more process noise than a gentle one', () => {
     // brake-reverse brakes at 0.8 m/s² and reverses; the turntable glides. Same antenna period
     // (0.5 s) and noise, so only the motion differs.
