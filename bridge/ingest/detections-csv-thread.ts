@@ -23,6 +23,7 @@ const reportSchema = z.object({
   skipped: z.number().int().nonnegative(),
   reasons: z.array(z.tuple([z.string(), z.number().int().nonnegative()])),
   skippedLines: z.array(z.object({ line: z.number().int().nonnegative(), reason: z.string() })),
+  lastSkipped: z.object({ line: z.number().int().nonnegative(), reason: z.string() }).nullable(),
 });
 
 const fromWorker: z.ZodType<DetectionsWorkerMessage> = z.discriminatedUnion('type', [
@@ -40,6 +41,7 @@ function applyReport(to: SkipReport, from: PlainSkipReport): void {
   to.skipped = from.skipped;
   to.reasons = new Map(from.reasons);
   to.skippedLines.splice(0, to.skippedLines.length, ...from.skippedLines);
+  to.lastSkipped = from.lastSkipped;
 }
 
 /** The worker's error as the in-thread reader would have thrown it. */

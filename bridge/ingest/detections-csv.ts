@@ -40,6 +40,8 @@ export interface SkipReport {
    * a file of millions of bad rows; the extra one tells that more follow).
    */
   skippedLines: { line: number; reason: string }[];
+  /** The skipped row latest in the file so far (a replay shows it as the last bad line). */
+  lastSkipped: { line: number; reason: string } | null;
 }
 
 /** Skipped rows listed one per line after the summary line; the rest are counted. */
@@ -144,7 +146,7 @@ function num(cell: string | undefined): number {
 /** A report of nothing read yet. */
 export function newSkipReport(): SkipReport {
   return {
-    rows: 0, accepted: 0, skipped: 0, reasons: new Map(), skippedLines: [],
+    rows: 0, accepted: 0, skipped: 0, reasons: new Map(), skippedLines: [], lastSkipped: null,
     get firstSkipped() {
       return this.skippedLines[0] ?? null;
     },
@@ -167,6 +169,7 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
   const skip = (line: number, kind: string, detail: string) => {
     report.skipped++;
     report.reasons.set(kind, (report.reasons.get(kind) ?? 0) + 1);
+    if (!report.lastSkipped || line > report.lastSkipped.line) report.lastSkipped = { line, reason: detail };
     // Insert in line order (csv-parse reports malformed records as it parses ahead of us, so they
     // can come early), keeping only the earliest ones.
     if (kept.length <= SKIP_DETAIL_LIMIT || line < kept[kept.length - 1].line) {

@@ -25,6 +25,7 @@ export interface PlainSkipReport {
   skipped: number;
   reasons: [string, number][];
   skippedLines: { line: number; reason: string }[];
+  lastSkipped: { line: number; reason: string } | null;
 }
 
 /** Worker → reader. */
@@ -43,7 +44,7 @@ export interface MoreMessage {
 
 /** The report's plain parts (for postMessage). */
 export function plainReport(r: SkipReport): PlainSkipReport {
-  return { rows: r.rows, accepted: r.accepted, skipped: r.skipped, reasons: [...r.reasons], skippedLines: r.skippedLines };
+  return { rows: r.rows, accepted: r.accepted, skipped: r.skipped, reasons: [...r.reasons], skippedLines: r.skippedLines, lastSkipped: r.lastSkipped };
 }
 
 /** Packs detections for the crossing. */

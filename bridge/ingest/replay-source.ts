@@ -1,7 +1,7 @@
 /**
  * Replays a recorded session (its tracks included: carriesTracks = true) or a detections CSV
- * (carriesTracks = false: the pipeline tracks it) on a clock: real time × speed, pause, step,
- * seek, loop. Records are released when the run time they carry comes due on the clock.
+ * (carriesTracks = false: the pipeline tracks it) on a clock: real time × speed, pause, step
+ * forward and back, seek, loop. Records are released when the run time they carry comes due on the clock.
  *
  * After a seek it emits 'seeked' (consumers reset) and then, for sessions, re-emits the state at
  * the new time (resendAt: commanded path, fixed echoes, alive tracks, the history window) so the
@@ -57,7 +57,11 @@ export class ReplaySource extends EventEmitter implements Source, ReplayControl 
   async start(): Promise<void> {
     if (this.timeline) return;
     this.timeline = await openTimeline(this.options.path, this.format(), this.name, this.options.session);
-    for (const bad of this.timeline.badLines) this.emit('bad', bad satisfies BadLine);
+    // The timeline lists a bounded number of bad lines; the last one listed also carries those
+    // it only counted, so the source's bad-line count is the file's.
+    const bads = this.timeline.badLines;
+    const unlisted = this.timeline.badLineCount - bads.reduce((n, b) => n + (b.count ?? 1), 0);
+    bads.forEach((bad, i) => this.emit('bad', (i === bads.length - 1 && unlisted > 0 ? { ...bad, count: (bad.count ?? 1) + unlisted } : bad) satisfies BadLine));
     this.reposition(0, false);
     if (this.options.autoplay) this.play();
     else this.emit('state', 'paused');
@@ -89,7 +93,12 @@ export class ReplaySource extends EventEmitter implements Source, ReplayControl 
     this.emit('state', 'paused');
   }
 
-  step(seconds = this.options.stepS ?? this.timeline?.revolutionS ?? 0.5): void {
+  /** The default step: the configured one, else one antenna revolution as recorded, else 0.5 s. */
+  private get defaultStepS(): number {
+    return this.options.stepS ?? this.timeline?.revolutionS ?? 0.5;
+  }
+
+  step(seconds = this.defaultStepS): void {
     if (!this.timeline) return;
     if (this.playing) this.pause();
     if (this.ended) return;
@@ -98,6 +107,19 @@ export class ReplaySource extends EventEmitter implements Source, ReplayControl 
     this.positionS = target;
     if (!this.next) this.finish();
     else this.emit('state', 'paused');
+  }
+
+  /**
+   * Goes back `seconds` of run time from the current position (exactly: one revolution earlier
+   * after a default step forward), clamped at 0, and pauses. A seek underneath: consumers rebuild
+   * the state there; at 0 already it only pauses.
+   */
+  stepBack(seconds = this.defaultStepS): void {
+    if (!this.timeline) return;
+    if (this.playing) this.pause();
+    const target = Math.max(0, this.positionS - Math.max(0, seconds));
+    if (target === this.positionS && !this.ended) return;
+    this.seek(target);
   }
 
   seek(timeS: number): void {

@@ -6,7 +6,7 @@ import type { BadLine, SourceRecord } from './source.ts';
 import type { Detection } from '../types.ts';
 import { openSession, type OpenSessionOptions, type SessionReader } from '../session/reader.ts';
 import type { SessionSnapshot } from '../session/run-state.ts';
-import { formatSkipReport, readDetectionsCsv } from './detections-csv.ts';
+import { readDetectionsCsv, SKIP_DETAIL_LIMIT, type SkipReport } from './detections-csv.ts';
 
 export interface TimedSourceRecord {
   timeS: number;
@@ -74,7 +74,7 @@ class CsvTimeline implements ReplayTimeline {
   constructor(readonly id: string, private readonly d: Detection[], readonly badLines: BadLine[], private readonly windowS: number) {
     this.durationS = d.length ? d[d.length - 1].timeS : 0;
   }
-  get badLineCount() { return this.badLines.length; }
+  get badLineCount() { return this.badLines.reduce((n, b) => n + (b.count ?? 1), 0); }
   *cursor(fromS: number): Iterator<TimedSourceRecord> {
     for (let i = lowerBound(this.d, fromS); i < this.d.length; i++) yield { timeS: this.d[i].timeS, record: { kind: 'detection', detection: this.d[i] } };
   }
@@ -92,6 +92,19 @@ class CsvTimeline implements ReplayTimeline {
   close() { /* nothing held open */ }
 }
 
+/**
+ * A CSV's skipped rows as bad lines: the earliest ones the reader lists, then the last in the file,
+ * which also counts those between the two (the reader keeps a bounded list, not every row).
+ */
+function csvBadLines(report: SkipReport): BadLine[] {
+  const listed: BadLine[] = report.skippedLines.slice(0, SKIP_DETAIL_LIMIT).map((s) => ({ line: s.line, reason: s.reason, text: '' }));
+  const last = report.lastSkipped;
+  if (last && (listed.length === 0 || last.line > listed[listed.length - 1].line)) listed.push({ line: last.line, reason: last.reason, text: '' });
+  const unlisted = report.skipped - listed.length;
+  if (unlisted > 0 && listed.length) listed[listed.length - 1] = { ...listed[listed.length - 1], count: 1 + unlisted };
+  return listed;
+}
+
 /** Opens a session file (`*.jsonl`) or a detections CSV (`*.csv`) for replay. */
 export async function openTimeline(path: string, format: 'session' | 'csv', id: string, session: Partial<OpenSessionOptions>): Promise<ReplayTimeline> {
   if (format === 'session') return new SessionTimeline(await openSession(path, session));
@@ -100,8 +113,5 @@ export async function openTimeline(path: string, format: 'session' | 'csv', id: 
   const csv = readDetectionsCsv(path);
   const detections: Detection[] = [];
   for await (const batch of csv.batches()) for (const d of batch) detections.push(d);
-  // The reader keeps the first skipped row and counts the rest by kind: one BadLine says both.
-  const first = csv.report.firstSkipped;
-  const bad: BadLine[] = first ? [{ line: first.line, reason: csv.report.skipped > 1 ? formatSkipReport(csv.report) : first.reason, text: '' }] : [];
-  return new CsvTimeline(id, detections, bad, session.recentDetectionsS ?? 1);
+  return new CsvTimeline(id, detections, csvBadLines(csv.report), session.recentDetectionsS ?? 1);
 }

@@ -26,6 +26,11 @@ export interface BadLine {
   reason: string;
   /** The offending text, cut to 200 characters. */
   text: string;
+  /**
+   * How many bad lines this entry stands for (default 1). A file read whole at open lists its
+   * first bad lines and its last, and the last entry counts the unlisted ones in between.
+   */
+  count?: number;
 }
 
 export type SourceState = 'live' | 'waiting' | 'disconnected' | 'playing' | 'paused' | 'ended';
@@ -54,6 +59,8 @@ export interface ReplayControl {
   pause(): void;
   /** Advance by `seconds` of run time (default: one antenna revolution or 0.5 s) and pause. */
   step(seconds?: number): void;
+  /** Go back by `seconds` of run time (default: as step()), never before 0, and pause (a seek: consumers rebuild). */
+  stepBack(seconds?: number): void;
   /** Jump to `timeS` (clamped to the run) keeping the play/pause state. */
   seek(timeS: number): void;
   /** Replay speed factor, 0.1–50. */

@@ -45,7 +45,7 @@ export class SourceStats {
   }
 
   bad(b: BadLine): void {
-    this.badLines++;
+    this.badLines += b.count ?? 1;
     this.lastBad = { line: b.line, reason: b.reason };
   }
 

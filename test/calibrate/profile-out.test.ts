@@ -14,7 +14,7 @@ import { builtinScenario } from '../../bridge/sim/scenarios.ts';
 
 const DEG = Math.PI / 180;
 const result: NoiseTuningResult = {
-  samples: 200, sigmaRangeM: 0.045, sigmaRangeCiM: [0.04, 0.05], rangeBiasM: 0.001,
+  samples: 200, onFixedEchoes: 0, fixedEchoes: 0, sigmaRangeM: 0.045, sigmaRangeCiM: [0.04, 0.05], rangeBiasM: 0.001,
   sigmaAzimuthRad: 1.3 * DEG, sigmaAzimuthCiRad: [1.2 * DEG, 1.4 * DEG], azimuthBiasRad: 0,
   filter: { kind: 'kalman', sigmaAccel: 0.12 }, nisTuned: nisStats(new Array(100).fill(2)), nisDefault: nisStats(new Array(100).fill(1)), bracketed: true,
 };

@@ -99,6 +99,69 @@ describe('ReplaySource over a session', () => {
     await h.src.close();
   });
 
+  it('step back goes exactly one revolution earlier, paused, with the state there re-sent', async () => {
+    const reader = await openSession(syn.path);
+    const rev = reader.revolutionS!;
+    expect(rev).toBeGreaterThan(0);
+    const h = harness(syn.path, { autoplay: false });
+    await h.src.start();
+    h.src.step();
+    h.src.step();
+    expect(h.src.state().positionS).toBe(2 * rev);
+    h.src.stepBack();
+    expect(h.src.state()).toMatchObject({ positionS: 2 * rev - rev, playing: false });
+    const i = h.log.findIndex((l) => l.ev === 'seeked');
+    expect(h.log[i].t).toBe(rev);
+    // A seek underneath: the re-sent records rebuild the run as the reader has it there.
+    expect(h.src.snapshot()).toEqual(reader.snapshotAt(rev));
+    const tracks = new Map<number, unknown>();
+    for (const r of h.log.slice(i + 1).map((l) => l.rec!)) {
+      if (r.kind === 'track') tracks.set(r.update.id, r.update);
+      if (r.kind === 'deletion') tracks.delete(r.deletion.id);
+    }
+    expect([...tracks.values()].sort((a: any, b: any) => a.id - b.id)).toEqual(reader.snapshotAt(rev).tracks);
+    reader.close();
+
+    // While playing: from the clock's position, and paused there; a given length is honoured.
+    h.src.play();
+    h.clock.advance(3000);
+    h.src.stepBack();
+    expect(h.log.filter((l) => l.ev === 'state').at(-1)).toEqual({ ev: 'state', state: 'paused' });
+    expect(h.src.state().playing).toBe(false);
+    expect(h.src.state().positionS).toBeCloseTo(3, 12);
+    h.clock.advance(5000);
+    expect(h.src.state().positionS).toBeCloseTo(3, 12);
+    h.src.stepBack(0.25);
+    expect(h.src.state().positionS).toBeCloseTo(2.75, 12);
+    await h.src.close();
+  });
+
+  it('step back stops at 0 and stays there, and from the end it leaves the replay paused', async () => {
+    const h = harness(syn.path, { autoplay: false });
+    await h.src.start();
+    h.src.step(0.1);
+    h.src.stepBack();
+    expect(h.src.state()).toMatchObject({ positionS: 0, playing: false });
+    const seeks = h.log.filter((l) => l.ev === 'seeked').length;
+    expect(seeks).toBe(1);
+    h.src.stepBack();
+    expect(h.src.state()).toMatchObject({ positionS: 0, playing: false });
+    expect(h.log.filter((l) => l.ev === 'seeked').length).toBe(seeks);
+    await h.src.close();
+
+    const e = harness(syn.path, { speed: 50 });
+    await e.src.start();
+    e.clock.advance(2000);
+    expect(e.log.at(-1)).toEqual({ ev: 'state', state: 'ended' });
+    e.src.stepBack(1);
+    expect(e.log.filter((l) => l.ev === 'state').at(-1)).toEqual({ ev: 'state', state: 'paused' });
+    expect(e.src.state()).toMatchObject({ positionS: 59, playing: false });
+    // No longer ended: a step forward goes on from there instead of doing nothing.
+    e.src.step(0.5);
+    expect(e.src.state().positionS).toBe(59.5);
+    await e.src.close();
+  });
+
   it("seek emits 'seeked', re-sends the state there, then continues after it", async () => {
     const h = harness(syn.path);
     await h.src.start();
@@ -188,6 +251,23 @@ describe('ReplaySource over a session', () => {
 });
 
 describe('ReplaySource over a detections CSV', () => {
+  it('counts every skipped row of a badly damaged file and ends on the last one', async () => {
+    // 60 bad rows: more than the reader lists one by one. The source's count must still be 60 and
+    // its last bad line the file's last bad row (the dashboard shows both).
+    const path = join(dir, 'damaged.csv');
+    const rows = ['time_s,azimuth_deg,range_m,amplitude'];
+    for (let i = 0; i < 200; i++) rows.push(i % 3 === 1 && i < 180 ? `${(i * 0.05).toFixed(2)},10,abc,5` : `${(i * 0.05).toFixed(2)},${(i * 3) % 360},2.5,5`);
+    writeFileSync(path, rows.join('\n') + '\n');
+    const h = harness(path);
+    await h.src.start();
+    const count = h.bad.reduce((n, b) => n + (b.count ?? 1), 0);
+    expect(count).toBe(60);
+    const lastBadLine = 1 + 1 + 178; // header is line 1; i = 178 is the last i % 3 === 1 below 180
+    expect(h.bad[h.bad.length - 1].line).toBe(lastBadLine);
+    expect(h.bad[0].line).toBe(3);
+    await h.src.close();
+  });
+
   it('replays detections without tracks and can hand them over for re-tracking', async () => {
     const path = join(dir, 'run.csv');
     const rows = ['amplitude,time_s,range_m,azimuth_deg,extra'];
@@ -199,9 +279,10 @@ describe('ReplaySource over a detections CSV', () => {
     const h = harness(path);
     await h.src.start();
     expect(h.src.carriesTracks).toBe(false);
-    // The CSV reader keeps the first skipped row and counts the others: one report says both.
-    expect(h.bad.map((b) => b.line)).toEqual([21]);
-    expect(h.bad[0].reason).toMatch(/^2 rows skipped: first at line 21: range_m "abc" is not a number/);
+    // One bad line per skipped row, with its own number and reason.
+    expect(h.bad.map((b) => b.line)).toEqual([21, 31]);
+    expect(h.bad[0].reason).toMatch(/^range_m "abc" is not a number/);
+    expect(h.bad[1].reason).toMatch(/amplitude/);
     h.clock.advance(1000);
     const recs = h.records();
     expect(recs.every((r) => r.kind === 'detection')).toBe(true);

@@ -23,3 +23,17 @@ describe('SourceStats detection rate', () => {
     expect(s.status().detectionsPerSecond).toBe(0);
   });
 });
+
+describe('SourceStats bad lines', () => {
+  it('counts an entry that stands for several lines by its count, and shows the latest', () => {
+    const s = new SourceStats(() => 0);
+    s.reset('replay', 'x');
+    s.bad({ line: 3, reason: 'range_m "abc" is not a number', text: '' });
+    s.bad({ line: 180, reason: 'range_m "abc" is not a number', text: '', count: 41 });
+    const st = s.status();
+    expect(st.badLines).toBe(42);
+    expect(st.lastBad).toMatchObject({ line: 180 });
+    s.reset('replay', 'y');
+    expect(s.status().badLines).toBe(0);
+  });
+});
