@@ -38,6 +38,20 @@ describe.skipIf(!dashboardSuiteRuns('dashboard review e2e'))('dashboard review f
     expect(texts.some((t) => /\b1 tracks\b/.test(t))).toBe(false);
   });
 
+  it('keeps keyboard focus inside an open dialog and gives it back on close', async () => {
+    await page.locator('[data-testid=open-safety]').click();
+    await page.locator('[role=dialog]').waitFor();
+    const inside = () => page.evaluate(() => document.activeElement?.closest('[role=dialog]') !== null);
+    expect(await inside()).toBe(true);
+    for (let i = 0; i < 12; i++) {
+      await page.keyboard.press(i % 3 === 2 ? 'Shift+Tab' : 'Tab');
+      expect(await inside()).toBe(true);
+    }
+    await page.keyboard.press('Escape');
+    await page.locator('[role=dialog]').waitFor({ state: 'detached' });
+    expect(await page.evaluate(() => document.activeElement?.getAttribute('data-testid'))).toBe('open-safety');
+  });
+
   it('compares each carriage with its own path and names the path', async () => {
     await page.waitForFunction(() => (document.querySelector('[data-testid=comparison]')?.textContent ?? '').includes('path 2'), undefined, { timeout: 60_000 });
     const rows = page.locator('[data-testid=track-list] tbody tr[data-track-id]');
