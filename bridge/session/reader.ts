@@ -67,7 +67,11 @@ export class SessionReader {
     try {
       this.fd = openSync(path, 'r');
     } catch (err) {
-      throw new EchotrailError('E_SESSION_FORMAT', `cannot open session '${path}': ${(err as Error).message}`, { cause: err });
+      // A missing or unreadable file is a path problem, said the way the other commands say it;
+      // E_SESSION_FORMAT is for a file that opens but is not a session.
+      const code = (err as NodeJS.ErrnoException).code;
+      const why = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : code === 'EISDIR' ? 'is a folder' : (err as Error).message;
+      throw new EchotrailError('E_PATH', `cannot read session ${path}: ${why}`, { cause: err });
     }
   }
 

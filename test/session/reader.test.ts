@@ -97,7 +97,8 @@ describe('openSession', () => {
     const text = readFileSync(newer, 'utf8').replace('"version":1', '"version":7');
     writeFileSync(newer, text);
     await expect(openSession(newer)).rejects.toThrow(/version 7 is newer/);
-    await expect(openSession(join(root, 'missing.session.jsonl'))).rejects.toSatisfy((e) => hasCode(e, 'E_SESSION_FORMAT'));
+    // A missing file is a path problem, said as the other commands say it.
+    await expect(openSession(join(root, 'missing.session.jsonl'))).rejects.toSatisfy((e) => hasCode(e, 'E_PATH') && /missing\.session\.jsonl: no such file$/.test((e as Error).message));
   });
 
   it('reports an oversized line as bad without holding it', async () => {

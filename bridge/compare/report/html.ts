@@ -49,7 +49,8 @@ function lagValue(a: Analysis): string {
   if (a.lag.lagS === null) return '–';
   if (i?.undetermined) return 'undetermined';
   if (i && !i.significant) return 'not significant';
-  return `${cell(a.lag.lagS, 2)} s`;
+  // No interval (too few samples): the figure is only a rough estimate, and must not read as firm.
+  return `${i ? '' : '≈ '}${cell(a.lag.lagS, 2)} s`;
 }
 
 /** Under the lag card's figure: the interval, on which track, and the live track's own lag. */
@@ -137,17 +138,20 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
     sm ? [{ name, color, dash: true, points: withGaps(sm.states.map((s, k) => [s.timeS, f(k)]), smTimes, gap) }] : [];
 
   const errPlot = timePlot(
-    [series((i) => a.filtered.noLag[i].positionM, C.trk, 'filtered, raw'), series((i) => a.filtered.aligned[i].positionM, C.alt, 'filtered, lag removed'),
+    // The raw line drawn wide underneath: with a small lag the two filtered lines coincide, and the
+    // thin one on top would otherwise hide the raw one completely.
+    [{ ...series((i) => a.filtered.noLag[i].positionM, C.trk, 'filtered, raw'), width: 3 }, series((i) => a.filtered.aligned[i].positionM, C.alt, 'filtered, lag removed'),
       ...smSeries((k) => sm!.deviations.aligned[k].positionM, C.smo, 'smoothed, lag removed')],
     { id: 'err', width: 1038, height: 240, xLabel: 'time, s', yLabel: 'position error, m', markers },
   );
   const acPlot = (key: 'alongM' | 'crossM', label: string, id: string) => timePlot(
-    [series((i) => a.filtered.noLag[i][key], C.trk, 'filtered, raw'), series((i) => a.filtered.aligned[i][key], C.alt, 'filtered, lag removed'),
+    [{ ...series((i) => a.filtered.noLag[i][key], C.trk, 'filtered, raw'), width: 3 }, series((i) => a.filtered.aligned[i][key], C.alt, 'filtered, lag removed'),
       ...smSeries((k) => sm!.deviations.aligned[k][key], C.smo, 'smoothed, lag removed')],
     { id, width: 500, height: 220, xLabel: 'time, s', yLabel: label, zeroLine: true, symmetric: true, markers },
   );
   const spPlot = timePlot([series((i) => a.filtered.aligned[i].speedMps ?? NaN, C.trk, 'speed error'), ...smSeries((k) => sm!.deviations.aligned[k].speedMps ?? NaN, C.smo, 'smoothed')], { id: 'spd', width: 500, height: 200, xLabel: 'time, s', yLabel: 'speed error, m/s', zeroLine: true, symmetric: true });
-  const hdPlot = timePlot([series((i) => { const h = a.filtered.aligned[i].headingRad; return h === null ? NaN : (h * 180) / Math.PI; }, C.trk, 'heading error')], { id: 'hdg', width: 500, height: 200, xLabel: 'time, s', yLabel: 'heading error, °', zeroLine: true, symmetric: true });
+  const degOrGap = (h: number | null | undefined): number => (h === null || h === undefined ? NaN : (h * 180) / Math.PI);
+  const hdPlot = timePlot([series((i) => degOrGap(a.filtered.aligned[i].headingRad), C.trk, 'heading error'), ...smSeries((k) => degOrGap(sm!.deviations.aligned[k].headingRad), C.smo, 'smoothed')], { id: 'hdg', width: 500, height: 200, xLabel: 'time, s', yLabel: 'heading error, °', zeroLine: true, symmetric: true });
   const setPts = (f: (s: (typeof a.sets)[number]) => number): [number, number][] => a.sets.map((s) => [s.timeS, f(s)]);
   const setPlot = timePlot(
     [{ name: 'GOSPA', color: C.smo, points: setPts((s) => s.gospaM), width: 2 }, { name: 'OSPA', color: C.cmd, points: setPts((s) => s.ospaM) },
@@ -181,7 +185,7 @@ export function renderReport(a: Analysis, meta: SummaryMeta, o: ReportOptions): 
 ${warnings.length ? `<p class="note warn">${warnings.map(esc).join('<br>')}</p>` : ''}
 <section class="cards">${cards}</section>
 <h2>Paths in the radar frame</h2>
-<div class="row">${figure('Commanded path, the followed track as the live view showed it, and the smoothed track. Red dots: the followed track changed.', plan,
+<div class="row">${figure(`Commanded path (the dot in its colour: where it starts), the followed track as the live view showed it, and the smoothed track.${a.switches.length > 1 ? ' Red dots: where the followed track changed (hover one for which).' : ''}`, plan,
     [{ name: 'commanded', color: C.cmd }, { name: 'tracked (filtered)', color: C.trk }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
 <div style="flex:1;min-width:300px">${figure(`Least-squares lag search: RMS distance between the ${a.lagSource} track and the commanded path shifted by each candidate lag; shaded: the lag's ${ci ? Math.round(ci.level * 100) : 95} % confidence interval (moving-block bootstrap over the samples).`, lagPlot,
     [{ name: `${a.lagSource} track`, color: a.lagSource === 'smoothed' ? C.smo : C.trk }, ...(lagCurves.length > 1 ? [{ name: 'filtered track', color: C.trk, dash: true }] : [])])}
@@ -191,7 +195,7 @@ ${figure('Euclidean distance between the estimate and the commanded position.', 
 <div class="row" style="margin-top:12px">${figure('Along-track error: positive ahead of the commanded point.', acPlot('alongM', 'along-track, m', 'along'), [{ name: 'filtered, raw', color: C.trk }, { name: 'lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
 ${figure('Cross-track error: positive left of the commanded direction of travel.', acPlot('crossM', 'cross-track, m', 'cross'), [{ name: 'filtered, raw', color: C.trk }, { name: 'lag removed', color: C.alt }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}</div>
 <div class="row" style="margin-top:12px">${figure('Track speed minus commanded speed (lag removed).', spPlot, [{ name: 'filtered', color: C.trk }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}
-${figure('Track heading minus commanded heading (lag removed); blank while either stands still.', hdPlot, [{ name: 'filtered', color: C.trk }])}</div>
+${figure('Track heading minus commanded heading (lag removed); blank while either stands still.', hdPlot, [{ name: 'filtered', color: C.trk }, ...(sm ? [{ name: 'smoothed', color: C.smo, dash: true }] : [])])}</div>
 <h2>Figures for the whole run</h2>
 ${wholeRunTable(a)}
 <h2>Figures per leg</h2>
