@@ -208,7 +208,8 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
     parser.on('end', () => ((ended = true), wake?.()));
     parser.on('error', (err: Error) => ((failure = err), wake?.()));
     source.pipe(parser);
-    let col: Record<(typeof REQUIRED)[number], number> | null = null;
+    /** Each required column's index, and how many fields a row needs to hold them all. */
+    let col: (Record<(typeof REQUIRED)[number], number> & { fields: number }) | null = null;
     // Time order: good rows are released SPIKE_ROWS rows late, so that a short run of corrupted
     // timestamps far in the future (…, 12.0, 9e6, 9e6, 12.1, …) is what gets skipped, not every
     // row up to that time; SPIKE_ROWS + 1 rows in order past a jump make it a real one.
@@ -249,10 +250,17 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
         const idx = (n: string) => names.indexOf(n);
         const missing = REQUIRED.filter((n) => idx(n) < 0 && !(n === 'amplitude' && opts.defaultAmplitude !== null));
         if (missing.length) throw new EchotrailError('E_INPUT_COLUMNS', `${name}: header lacks ${missing.join(', ')} (line ${line} must name the columns time_s,azimuth_deg,range_m,amplitude, in any order)${delimiterHint(record)}`);
-        col = { time_s: idx('time_s'), azimuth_deg: idx('azimuth_deg'), range_m: idx('range_m'), amplitude: idx('amplitude') };
+        col = { time_s: idx('time_s'), azimuth_deg: idx('azimuth_deg'), range_m: idx('range_m'), amplitude: idx('amplitude'), fields: 0 };
+        col.fields = 1 + Math.max(col.time_s, col.azimuth_deg, col.range_m, col.amplitude);
         return;
       }
       report.rows++;
+      // A row cut short (a truncated write, a lost delimiter) said as such: "amplitude (missing) is
+      // not a number" named a symptom, not the fault.
+      if (record.length < col.fields) {
+        skip(line, 'short row', `the row has ${record.length} field${record.length === 1 ? '' : 's'} where the header's columns need ${col.fields}`);
+        return;
+      }
       const t = num(record[col.time_s]);
       const az = num(record[col.azimuth_deg]);
       const r = num(record[col.range_m]);

@@ -62,7 +62,7 @@ describe('readDetectionsCsv', () => {
     expect(report.skipped).toBe(9);
     expect(report.firstSkipped).toEqual({ line: 3, reason: 'azimuth_deg "abc" is not a number' });
     expect(Object.fromEntries(report.reasons)).toEqual({
-      'bad azimuth_deg': 1, 'bad range_m': 1, 'range out of bounds': 2, 'amplitude not positive': 1, 'bad amplitude': 2, 'time going backwards': 1, 'bad time_s': 1,
+      'bad azimuth_deg': 1, 'bad range_m': 1, 'range out of bounds': 2, 'amplitude not positive': 1, 'bad amplitude': 1, 'short row': 1, 'time going backwards': 1, 'bad time_s': 1,
     });
     expect(formatSkipReport(report)).toBe('9 rows skipped: first at line 3: azimuth_deg "abc" is not a number');
     // Every skipped row after the first, in line order, with its reason.
@@ -72,7 +72,8 @@ describe('readDetectionsCsv', () => {
     expect(report.skippedLines.map((s) => s.line)).toEqual([...report.skippedLines.map((s) => s.line)].sort((a, b) => a - b));
     expect(formatSkipDetails(report, 3)).toEqual([...details.slice(0, 3), '… and 5 more']);
     const { report: r2 } = await readAll('time_s,azimuth_deg,range_m,amplitude\n0,1,2\n,1,2,3\n0,1,2,3\n');
-    expect(r2.firstSkipped?.reason).toBe('amplitude (missing) is not a number');
+    expect(r2.firstSkipped?.reason).toBe("the row has 3 fields where the header's columns need 4");
+    expect(Object.fromEntries(r2.reasons)).toEqual({ 'short row': 1, 'bad time_s': 1 });
     expect(r2.skipped).toBe(2);
   });
 
