@@ -33,7 +33,7 @@ export class SeedPool {
     private readonly lifeS: number,
     private readonly minGapS = 0,
   ) {
-    // One cell spans a seed's whole reach, so a look-up needs the 3×3 block around it.
+    // One cell spans a seed's reach before noise, so a look-up reads two or three cells a side.
     this.inv = 1 / Math.max(maxSpeedMps * lifeS + 0.3, 0.05);
   }
 
@@ -56,13 +56,20 @@ export class SeedPool {
    */
   take(m: Measurement): Seed | null {
     this.expire(m.timeS);
-    const ix = Math.floor(m.x * this.inv);
-    const iy = Math.floor(m.y * this.inv);
+    // The cells a seed in reach can be in: the square of the widest reach around m. That reach
+    // adds 3σ of both detections' noise to the speed bound, which the cell size does not cover
+    // (cross-range noise grows with range: 3σ passes 0.3 m beyond about 2.7 m at 1.5°). The
+    // seed's σ is taken as up to twice m's (a seed farther out in range is noisier).
+    const reachMax = this.maxSpeedMps * this.lifeS + 3 * Math.sqrt(5 * Math.max(m.rxx, m.ryy));
+    const x0 = Math.floor((m.x - reachMax) * this.inv);
+    const x1 = Math.floor((m.x + reachMax) * this.inv);
+    const y0 = Math.floor((m.y - reachMax) * this.inv);
+    const y1 = Math.floor((m.y + reachMax) * this.inv);
     let best: Seed | null = null;
     let bq = 1;
-    for (let a = -1; a <= 1; a++) {
-      for (let b = -1; b <= 1; b++) {
-        const c = this.cells.get(this.key(ix + a, iy + b));
+    for (let ix = x0; ix <= x1; ix++) {
+      for (let iy = y0; iy <= y1; iy++) {
+        const c = this.cells.get(this.key(ix, iy));
         if (!c) continue;
         for (const s of c) {
           const dt = m.timeS - s.m.timeS;

@@ -24,4 +24,14 @@ describe('seed pool (two-point initiation)', () => {
     expect(p.take(m(3, 0.1, 5))).toBeNull(); // expired after 2.5 s
     expect(p.size).toBe(0);
   });
+
+  it('finds a seed two cells away when the noise widens the reach past the cell size', () => {
+    // Cells are maxSpeed·life + 0.3 m = 4.05 m. Far out, cross-range σ is large (here 0.5 m in
+    // both detections): the reach 1.5·2.4 + 3·√(0.25 + 0.25) = 5.72 m spans more than a cell, and
+    // 5.5 m from x = 3.9 (cell 0) lands in cell 2, outside the 3×3 block a look-up once read.
+    const wide = (timeS: number, x: number): Measurement => ({ timeS, x, y: 40, rxx: 0.25, rxy: 0, ryy: 0.25 });
+    const p = new SeedPool(1.5, 2.5);
+    p.add(wide(0, 3.9), d(0));
+    expect(p.take(wide(2.4, 3.9 + 5.5))?.m.x).toBe(3.9);
+  });
 });
