@@ -44,6 +44,10 @@ export async function handleClientMessage(ctx: ControlContext, msg: ClientMessag
       if (msg.value !== undefined) replay.step(need(msg.value, 'step', 0.001, 3600));
       else replay.step();
       break;
+    case 'step-back':
+      if (msg.value !== undefined) replay.stepBack(need(msg.value, 'step-back', 0.001, 3600));
+      else replay.stepBack();
+      break;
     case 'seek':
       replay.seek(need(msg.value, 'seek', 0, Number.MAX_SAFE_INTEGER));
       break;

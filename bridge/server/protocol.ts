@@ -230,8 +230,12 @@ export type ServerMessage = z.infer<typeof serverMessage>;
 export const clientMessage = z.discriminatedUnion('type', [
   z.object({
     type: z.literal('control'),
-    action: z.enum(['play', 'pause', 'step', 'seek', 'speed', 'loop']),
-    /** seek: seconds from start; speed: factor 0.1–50; loop: 1 or 0; step: seconds (default one scan). */
+    /** step-back: added within protocol 1. */
+    action: z.enum(['play', 'pause', 'step', 'step-back', 'seek', 'speed', 'loop']),
+    /**
+     * seek: seconds from start; speed: factor 0.1–50; loop: 1 or 0; step, step-back: seconds
+     * (default one antenna revolution as recorded, else 0.5 s), then paused.
+     */
     value: finite.optional(),
   }),
   z.object({ type: z.literal('open-session'), sessionId: z.string().max(200) }),

@@ -13,6 +13,8 @@ import {
   colourDistance, repoRoot, rgbOf, samplePixels,
 } from '../web/fixtures/browser.ts';
 import type { RunningBridge } from '../../bridge/server/bridge.ts';
+import { openSession } from '../../bridge/session/reader.ts';
+import { formatClock } from '../../web/src/stream/format.ts';
 import { dashboardSuiteRuns, openDashboard, type DashboardPage } from '../web/fixtures/dashboard-page.ts';
 
 const artifacts = join(repoRoot, 'test-artifacts');
@@ -120,6 +122,59 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
     expect(await page.locator('[data-testid=source-status] [data-state=replay-paused]').count()).toBe(1);
   });
 
+  it('steps back exactly one revolution with ◂ Step and with the , key, paused; not before 0', async () => {
+    const reader = await openSession(session);
+    const rev = reader.revolutionS!;
+    reader.close();
+    expect(rev).toBeGreaterThan(0.2);
+    // The bridge's own replay position (exact; the clock shows tenths).
+    const position = () => bridge.pipeline.replayState()!.positionS;
+    const clockShows = (s: number) => page.waitForFunction(
+      (want) => document.querySelector('[data-testid=replay-clock]')?.textContent?.startsWith(want), formatClock(s));
+    const paused = async () => {
+      await page.locator('[data-testid=source-status] [data-state=replay-paused]').waitFor();
+      await page.locator('[data-testid=play-pause]', { hasText: 'Play' }).waitFor();
+      expect(bridge.pipeline.replayState()!.playing).toBe(false);
+    };
+    await page.mouse.move(5, 5);
+    await paused();
+    const start = position();
+    const once = start + rev;
+    const twice = once + rev;
+    await page.click('[data-testid=step-forward]');
+    await clockShows(once);
+    await page.click('[data-testid=step-forward]');
+    await clockShows(twice);
+    expect(position()).toBe(twice);
+    await page.click('[data-testid=step-back]');
+    await clockShows(twice - rev);
+    expect(position()).toBe(twice - rev);
+    expect(position()).toBeCloseTo(once, 9);
+    await paused();
+    // A seek underneath: the comparison is rebuilt for the new time and stays on screen.
+    await page.locator('[data-testid=comparison]', { hasText: 'RMSE (running)' }).waitFor({ timeout: 10_000 });
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await page.keyboard.press(',');
+    await clockShows(twice - rev - rev);
+    expect(position()).toBe(twice - rev - rev);
+    await paused();
+
+    // At 0 it stays at 0: a step forward after it lands exactly one revolution in.
+    await page.locator('[data-testid=timeline]').fill('0');
+    await clockShows(0);
+    await page.locator('[data-testid=timeline]').blur();
+    await page.keyboard.press(',');
+    await page.click('[data-testid=step-forward]');
+    await clockShows(rev);
+    expect(position()).toBe(rev);
+    await paused();
+    // Back to where the test found the replay, for the tests after it.
+    await page.locator('[data-testid=timeline]').fill(start.toFixed(1));
+    await clockShows(Number(start.toFixed(1)));
+    await page.locator('[data-testid=timeline]').blur();
+    expect(pageErrors).toEqual([]);
+  });
+
   it('opens the safety note and the shortcut list from the keyboard', async () => {
     await page.mouse.move(5, 5);
     await page.keyboard.press('s');
@@ -127,6 +182,7 @@ describe.skipIf(!dashboardSuiteRuns('dashboard e2e'))('dashboard against a repla
     await page.keyboard.press('Escape');
     await page.keyboard.press('?');
     await page.locator('[data-testid=help]', { hasText: 'Play / pause the replay' }).waitFor();
+    expect(await page.locator('[data-testid=help]').innerText()).toMatch(/,\s+Step back and pause/);
     await page.keyboard.press('Escape');
     expect(await page.locator('[role=dialog]').count()).toBe(0);
     expect(pageErrors).toEqual([]);

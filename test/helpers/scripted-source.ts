@@ -60,6 +60,7 @@ export class ScriptedSource extends EventEmitter implements Source, ReplayContro
   play(): void { this.calls.push('play'); this.replay = { ...this.replay, playing: true }; }
   pause(): void { this.calls.push('pause'); this.replay = { ...this.replay, playing: false }; }
   step(seconds?: number): void { this.calls.push(`step ${seconds ?? 'default'}`); }
+  stepBack(seconds?: number): void { this.calls.push(`step-back ${seconds ?? 'default'}`); }
   seek(timeS: number): void {
     this.calls.push(`seek ${timeS}`);
     this.replay = { ...this.replay, positionS: timeS };

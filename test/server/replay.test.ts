@@ -114,6 +114,53 @@ describe('replay of a recorded session', () => {
     expect(scan.timeS).toBeLessThanOrEqual(2.5 + 1e-9);
   });
 
+  it('steps back over the WebSocket: exactly one step earlier, paused, the figures rebuilt; never before 0', async () => {
+    // 10 s along x = 0.5·t, y = 2: the track is 0.2 m off the line for its first 5 s, on it after.
+    const records: SourceRecord[] = [
+      { kind: 'commanded', path: [{ timeS: 0, x: 0, y: 2 }, { timeS: 10, x: 5, y: 2 }] },
+      ...trackedRun(10, (t) => ({ x: 0.5 * t, y: t < 5 ? 2.2 : 2 })),
+    ];
+    const file = recordSession('steps', '2026-01-01T13:00:00Z', records);
+    bridge = await startBridge({ port: 0, replay: file, sessionsDir: dir, autoplay: false, log: () => undefined });
+    const c = await connect(bridge);
+    c.send({ type: 'control', action: 'seek', value: 6 });
+    await c.next('snapshot', (s) => s.replay?.positionS === 6);
+    // No antenna samples in this run: the default step is 0.5 s, forward and back alike.
+    c.send({ type: 'control', action: 'step' });
+    c.send({ type: 'control', action: 'step' });
+    await c.next('replay', (m) => m.replay.positionS === 7);
+    let from = c.messages.length;
+    c.send({ type: 'control', action: 'step-back' });
+    const snap = await c.next('snapshot', (s) => s.replay?.positionS === 6.5, from);
+    expect(snap.replay?.playing).toBe(false);
+    expect(snap.tracks[0].timeS).toBeCloseTo(6.5, 6);
+    // The figures are those of the run played through to 6.5 s, as after any seek.
+    const through = createLiveComparison(() => undefined);
+    for (const r of records) {
+      if (r.kind === 'commanded') through.commanded(r.path, r.target);
+      if (r.kind === 'track' && r.update.timeS <= 6.5) through.update(r.update);
+    }
+    const [expected] = through.figures();
+    expect(expected.rmseM).toBeGreaterThan(0.1);
+    expect(snap.comparisonHistory?.[0].points.at(-1)).toBeCloseTo(expected.rmseM!, 9);
+    const m = await c.next('comparison', (x) => x.figures.samples > 0, c.messages.indexOf(snap));
+    expect(m.figures.samples).toBe(expected.samples);
+    expect(m.figures.rmseM).toBeCloseTo(expected.rmseM!, 9);
+
+    // Near the start it stops at 0, and at 0 it stays there.
+    c.send({ type: 'control', action: 'seek', value: 0.2 });
+    await c.next('snapshot', (s) => s.replay?.positionS === 0.2);
+    c.send({ type: 'control', action: 'step-back' });
+    await c.next('snapshot', (s) => s.replay?.positionS === 0);
+    from = c.messages.length;
+    c.send({ type: 'control', action: 'step-back' });
+    const at0 = await c.next('replay', () => true, from);
+    expect(at0.replay).toMatchObject({ positionS: 0, playing: false });
+    // A length, when given, is checked as the forward step's is.
+    c.send({ type: 'control', action: 'step-back', value: -1 });
+    expect((await c.next('error', () => true, from)).message).toMatch(/'step-back' value -1/);
+  });
+
   it('plays from the seek position: updates after it arrive in time order, then the deletion', async () => {
     bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
     const c = await connect(bridge);

@@ -9,17 +9,28 @@ describe('keyboard shortcuts', () => {
     expect(commandFor(key(' '))).toBe('play-pause');
     expect(commandFor(key('F'))).toBe('fit');
     expect(commandFor(key('ArrowLeft'))).toBe('back');
+    // The step pair sits side by side, as < and > do on the keyboard.
+    expect(commandFor(key('.'))).toBe('step');
+    expect(commandFor(key(','))).toBe('step-back');
     expect(commandFor(key('r', { ctrlKey: true }))).toBeNull();
     expect(commandFor(key('z'))).toBeNull();
   });
 
   it('lists every command the keys can trigger in the help table', () => {
     const listed = new Set(shortcuts.map((s) => s.command));
-    for (const k of [' ', '.', 'ArrowLeft', 'ArrowRight', '[', ']', 'l', 'f', 'r', 'g', 'e', 'd', 'n', 'p', 'Escape', '?', 'h', 's']) {
+    for (const k of [' ', '.', ',', 'ArrowLeft', 'ArrowRight', '[', ']', 'l', 'f', 'r', 'g', 'e', 'd', 'n', 'p', 'Escape', '?', 'h', 's']) {
       const c = commandFor(key(k));
       expect(c).not.toBeNull();
       expect(listed.has(c!)).toBe(true);
     }
+  });
+
+  it('gives each command one line of the help and each key one command', () => {
+    const commands = shortcuts.map((s) => s.command);
+    expect(new Set(commands).size).toBe(commands.length);
+    const keys = shortcuts.flatMap((s) => s.keys);
+    expect(new Set(keys).size).toBe(keys.length);
+    expect(shortcuts.find((s) => s.command === 'step-back')).toMatchObject({ keys: [','], label: 'Step back and pause' });
   });
 
   it('steps the replay speed along the ladder within the bridge limits', () => {

@@ -3,7 +3,7 @@
  * list on screen cannot drift from what the keys do.
  */
 export type Command =
-  | 'play-pause' | 'step' | 'back' | 'forward' | 'slower' | 'faster' | 'loop'
+  | 'play-pause' | 'step' | 'step-back' | 'back' | 'forward' | 'slower' | 'faster' | 'loop'
   | 'fit' | 'reset' | 'grid' | 'fixed' | 'detections' | 'next-track' | 'previous-track'
   | 'deselect' | 'help' | 'safety';
 
@@ -12,6 +12,7 @@ export interface Shortcut { keys: string[]; label: string; command: Command }
 export const shortcuts: readonly Shortcut[] = [
   { keys: ['Space'], label: 'Play / pause the replay', command: 'play-pause' },
   { keys: ['.'], label: 'Step forward and pause', command: 'step' },
+  { keys: [','], label: 'Step back and pause', command: 'step-back' },
   { keys: ['←'], label: 'Seek 5 s back', command: 'back' },
   { keys: ['→'], label: 'Seek 5 s forward', command: 'forward' },
   { keys: ['['], label: 'Slower replay', command: 'slower' },
@@ -30,7 +31,7 @@ export const shortcuts: readonly Shortcut[] = [
 ];
 
 const byKey = new Map<string, Command>([
-  [' ', 'play-pause'], ['.', 'step'], ['ArrowLeft', 'back'], ['ArrowRight', 'forward'], ['[', 'slower'], [']', 'faster'],
+  [' ', 'play-pause'], ['.', 'step'], [',', 'step-back'], ['ArrowLeft', 'back'], ['ArrowRight', 'forward'], ['[', 'slower'], [']', 'faster'],
   ['l', 'loop'], ['f', 'fit'], ['r', 'reset'], ['g', 'grid'], ['e', 'fixed'], ['d', 'detections'], ['n', 'next-track'],
   ['p', 'previous-track'], ['Escape', 'deselect'], ['?', 'help'], ['h', 'help'], ['s', 'safety'],
 ]);
