@@ -14,6 +14,8 @@ export const ERROR_CODES = [
   'E_PATH',
   'E_CALIBRATION',
   'E_PROTOCOL',
+  /** A fault of echotrail itself, not of the input: the message is the program's own. */
+  'E_INTERNAL',
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number];
 

@@ -7,6 +7,7 @@
 import type { WebSocket, RawData } from 'ws';
 import type { ClientMessage, ServerMessage } from './protocol.ts';
 import { clientMessage } from './protocol.ts';
+import { isErrorCode } from '../errors.ts';
 
 /** Fan-out limits, copied from the bridge options. */
 export interface HubOptions {
@@ -161,7 +162,10 @@ export class Hub {
     Promise.resolve()
       .then(() => this.o.onClientMessage(result.data, answer))
       .catch((err: unknown) => {
-        const code = typeof (err as { code?: unknown }).code === 'string' ? (err as { code: string }).code : 'E_PROTOCOL';
+        // Only the documented codes go out: a Node error's own code (ENOENT…) would mean nothing
+        // to the dashboard, and an error without one is a fault of ours, not of the request.
+        const own = (err as { code?: unknown }).code;
+        const code = isErrorCode(own) ? own : 'E_INTERNAL';
         fail(code, (err as Error).message ?? String(err));
       });
   }

@@ -27,7 +27,7 @@ export function resolveDeletionOptions(o: Partial<DeletionOptions> = {}): Deleti
 
 /**
  * Two detections of one stationary reflector differ by noise of covariance R₁ + R₂: beyond its
- * 99 % χ² bound (9.2103 for 2 dof, reference-values.md) and by more than `minM`, they are taken
+ * 99 % χ² bound (9.2103 for 2 dof; NIST/SEMATECH e-Handbook of Statistical Methods, χ² table) and by more than `minM`, they are taken
  * to be of two spots. (99 %, not 99.9 %: a target at 0.2 m/s must pass within a few scans.)
  */
 function departed(a: Measurement, b: Measurement, minM: number): boolean {

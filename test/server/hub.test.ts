@@ -3,6 +3,7 @@
  * loopback socket hands megabytes to the kernel at once, which hides them).
  */
 import { EventEmitter } from 'node:events';
+import { EchotrailError } from '../../bridge/errors.ts';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { WebSocket } from 'ws';
 import { Hub, type HubOptions } from '../../bridge/server/hub.ts';
@@ -116,5 +117,16 @@ describe('Hub lag rules', () => {
     expect(handled).toHaveLength(5);
     expect(s.sent.filter((m) => m.type === 'error' && m.code === 'E_PROTOCOL')).toHaveLength(1);
     expect(h.stats.badMessages).toBe(15);
+  });
+
+  it("answers a failed request with the error's own code, or E_INTERNAL for a code that is not ours", async () => {
+    const failures: unknown[] = [new EchotrailError('E_PATH', 'no session named x'), Object.assign(new Error('ENOENT: no such file'), { code: 'ENOENT' }), new Error('boom')];
+    const h = hub(100, { onClientMessage: () => { throw failures.shift(); } });
+    const s = new FakeSocket();
+    h.add(s as unknown as WebSocket);
+    for (let i = 0; i < 3; i++) s.emit('message', Buffer.from('{"type":"list-sessions"}'), false);
+    await tick();
+    const codes = s.sent.filter((m) => m.type === 'error' && m.code !== 'SNAPSHOT').map((m) => (m as { code: string }).code);
+    expect(codes).toEqual(['E_PATH', 'E_INTERNAL', 'E_INTERNAL']);
   });
 });

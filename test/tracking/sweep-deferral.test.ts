@@ -16,7 +16,7 @@ function track(id: number, x: number, y: number): Track {
 
 describe('sweep deferral', () => {
   // 1 s revolution; the beam at azimuth 0 (straight ahead, +y) at t = 1.
-  const gamma = 9.2103; // 99 % χ², 2 dof (reference-values.md)
+  const gamma = 9.2103; // 99 % χ², 2 dof (NIST/SEMATECH e-Handbook of Statistical Methods, χ² table)
   it('holds a detection two tracks compete for while their gates lie ahead of the beam, until the beam has passed them', () => {
     // Two tracks 10 cm apart at 3 m, 10° clockwise of the beam: both gates are ahead of it.
     const az = (10 * Math.PI) / 180;
