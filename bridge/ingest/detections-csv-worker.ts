@@ -5,16 +5,18 @@
 import { parentPort } from 'node:worker_threads';
 import { workerInput } from '../worker-input.ts';
 import { readDetectionsCsv } from './detections-csv.ts';
-import { packDetections, plainReport, type DetectionsWorkerInput, type DetectionsWorkerMessage } from './detections-packing.ts';
+import { isDetectionsWorkerInput, isMoreMessage, packDetections, plainReport, type DetectionsWorkerMessage } from './detections-packing.ts';
 import { EchotrailError } from '../errors.ts';
 
 async function main(): Promise<void> {
   const port = parentPort!;
-  const { path, options, window } = workerInput() as DetectionsWorkerInput;
+  const input = workerInput();
+  if (!isDetectionsWorkerInput(input)) throw new Error('the detections reader thread was started without a readable file path, options and window');
+  const { path, options, window } = input;
   let credit = window;
   let wake: (() => void) | null = null;
-  port.on('message', (m: { type?: string }) => {
-    if (m?.type !== 'more') return;
+  port.on('message', (m: unknown) => {
+    if (!isMoreMessage(m)) return;
     credit++;
     wake?.();
   });

@@ -42,6 +42,24 @@ export interface MoreMessage {
   type: 'more';
 }
 
+/**
+ * Checks what the worker was started with (hand-written, not zod: the worker bundle stays small
+ * and starts fast, see worker-thread.ts).
+ */
+export function isDetectionsWorkerInput(v: unknown): v is DetectionsWorkerInput {
+  const i = v as Partial<Record<keyof DetectionsWorkerInput, unknown>> | null;
+  if (typeof i?.path !== 'string' || !Number.isInteger(i.window) || (i.window as number) < 1) return false;
+  const o = i.options as Record<string, unknown> | null;
+  if (typeof o !== 'object' || o === null) return false;
+  const optionalNumber = (k: keyof DetectionsCsvOptions) => o[k] === undefined || typeof o[k] === 'number';
+  return optionalNumber('maxRangeM') && optionalNumber('defaultAmplitude') && optionalNumber('spikeS');
+}
+
+/** True for the consumer's "send one more" message. */
+export function isMoreMessage(m: unknown): m is MoreMessage {
+  return (m as Partial<MoreMessage> | null)?.type === 'more';
+}
+
 /** The report's plain parts (for postMessage). */
 export function plainReport(r: SkipReport): PlainSkipReport {
   return { rows: r.rows, accepted: r.accepted, skipped: r.skipped, reasons: [...r.reasons], skippedLines: r.skippedLines, lastSkipped: r.lastSkipped };

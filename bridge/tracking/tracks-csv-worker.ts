@@ -7,11 +7,13 @@ import { createWriteStream } from 'node:fs';
 import { parentPort } from 'node:worker_threads';
 import { workerInput } from '../worker-input.ts';
 import { tracksCsvSink } from './tracks-csv-sink.ts';
-import { isTracksWorkerCommand, UPDATE_FIELDS, unpackUpdate, type TracksWorkerInput, type TracksWorkerMessage } from './tracks-packing.ts';
+import { isTracksWorkerCommand, isTracksWorkerInput, UPDATE_FIELDS, unpackUpdate, type TracksWorkerMessage } from './tracks-packing.ts';
 import type { Measurement, TrackUpdate } from '../types.ts';
 
 const port = parentPort!;
-const { path, shownPath } = workerInput() as TracksWorkerInput;
+const input = workerInput();
+if (!isTracksWorkerInput(input)) throw new Error('the tracks writer thread was started without a file path');
+const { path, shownPath } = input;
 const send = (m: TracksWorkerMessage) => port.postMessage(m);
 // Its write errors say `cannot write <shownPath>: …`, which goes back as the worker's error.
 const sink = tracksCsvSink(createWriteStream(path), true, shownPath);

@@ -17,6 +17,12 @@ export interface TracksWorkerInput {
   shownPath: string;
 }
 
+/** Checks what the writer thread was started with (hand-written: see isTracksWorkerCommand). */
+export function isTracksWorkerInput(v: unknown): v is TracksWorkerInput {
+  const i = v as Partial<Record<keyof TracksWorkerInput, unknown>> | null;
+  return typeof i?.path === 'string' && i.path.length > 0 && typeof i.shownPath === 'string';
+}
+
 /** Messages to the worker: a piece of `count` packed rows, or the end of the file. */
 export type TracksWorkerCommand = { type: 'rows'; rows: Float64Array; count: number } | { type: 'end' };
 
