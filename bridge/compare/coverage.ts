@@ -18,7 +18,8 @@ export interface Coverage {
 
 /**
  * Coverage of followed rows (time order) over [startS, endS]. Default gap limit: 1.5× the median
- * update interval, so a single missed scan leaves the coverage whole but a lost track does not.
+ * update interval: a gap longer than that counts as uncovered beyond the limit, so a single missed
+ * scan costs half an interval of coverage, and a lost track costs all of its absence.
  */
 export function coverageOf(rows: readonly TrackRow[], startS: number, endS: number, gapLimitS?: number): Coverage {
   const span = endS - startS;

@@ -106,6 +106,8 @@ export function lagInterval(path: TimedPath, all: readonly (Point & { timeS: num
   }
   estimates.sort((a, b) => a - b);
   const at = (q: number) => estimates[Math.min(estimates.length - 1, Math.max(0, Math.round(q * (estimates.length - 1))))];
+  // Widened to hold the point estimate itself: with few samples the refined lagS (found off the
+  // grid the bootstrap re-estimates on) can fall just outside the percentile interval.
   const lowS = Math.min(at((1 - o.level) / 2), lagS);
   const highS = Math.max(at(1 - (1 - o.level) / 2), lagS);
   const edge = lag.maxLagS - lag.stepS / 2;

@@ -39,7 +39,7 @@ export interface LagEstimate {
   rmsAtZeroM: number;
   /** The coarse cost curve, for the report. */
   curve: { lagS: number; rmsM: number }[];
-  /** Samples used (after the outlier pass). */
+  /** Samples used (after the outlier pass); rmsAtLagM and rmsAtZeroM are both over these. */
   samples: number;
   /** Samples dropped as outliers by the second pass. */
   outliers: number;
@@ -64,8 +64,10 @@ export function estimateLag(path: TimedPath, all: readonly (Point & { timeS: num
   if (!Number.isFinite(o.inlierM) || first.lagS === null) return first;
   const inliers = inliersAt(path, all, first.lagS, o.inlierM);
   if (inliers.length === all.length || inliers.length < 10) return first;
+  // Both RMS figures of the answer are over the second pass's samples (the inliers), so that
+  // rmsAtLagM ≤ rmsAtZeroM compares like with like.
   const second = searchLag(path, inliers, o);
-  return { ...second, rmsAtZeroM: first.rmsAtZeroM, outliers: all.length - inliers.length };
+  return { ...second, outliers: all.length - inliers.length };
 }
 
 /** The samples within `inlierM` of the commanded point `lagS` earlier: the outlier rule of the second pass. */

@@ -28,7 +28,7 @@ export interface LiveComparisonOptions {
   follow: Partial<FollowOptions>;
   /** Lag search settings (lag.ts); the live default search is ±1.5 s. */
   lag: Partial<LagOptions>;
-  /** Accepted samples kept for the lag estimate (a ring buffer). */
+  /** Accepted samples kept for the lag estimate (the latest ones; older ones drop off the front). */
   lagWindow: number;
   /** Re-estimate the lag after this many newly accepted samples. */
   lagEvery: number;

@@ -20,8 +20,10 @@ export interface SmootherOptions {
 }
 
 /**
- * Defaults. q̃ = 0.05 m²/s³ lets the model follow bench manoeuvres (a 0.5 m/s positioner turning a
- * corner changes velocity by ~0.5 m/s within ~1 s: q̃ ≈ Δv²/Δt; common practice for choosing q̃).
+ * Defaults. q̃ = 0.05 m²/s³. The rule of thumb q̃ ≈ Δv²/Δt (common practice) gives 0.25 m²/s³ for a
+ * 0.5 m/s positioner reversing within a second, the hardest bench manoeuvre; the smoother sees the
+ * whole run, before and after, so it follows such a change with a fifth of that and smooths the
+ * glides better (chosen on the demo scenarios, not derived).
  */
 export function resolveSmootherOptions(o: Partial<SmootherOptions> = {}): SmootherOptions {
   return { accelPsd: o.accelPsd ?? 0.05, initialSpeedStdMps: o.initialSpeedStdMps ?? 1 };

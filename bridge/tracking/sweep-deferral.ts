@@ -1,14 +1,16 @@
 /**
- * Which detections of a short batch must wait for the next one (rotating antenna).
+ * Which detections must wait before they are assigned (rotating antenna, live mode).
  *
- * Batches are short sectors of the sweep so that updates leave soon after their detections; but
- * a track whose gate reaches beyond the beam may still get a better detection from the part of the
- * sweep not yet seen (two targets crossing: the beam reaches one just before the other). So every
+ * Live, each detection is assigned as it comes, so that its update leaves at once; but a track
+ * whose gate reaches beyond the beam may still get a better detection from the part of the sweep
+ * not yet seen (two targets crossing: the beam reaches one just before the other). So every
  * cluster of gated pairs (tracks and detections linked by gates) that holds a track whose gate
- * still lies ahead of the beam waits, whole, for the next batch; global nearest neighbour then
- * sees the cluster complete, as it would in a batch of a whole revolution. Only contested
- * clusters wait (see heldBack): a lone established track takes a detection its likely model
- * expects at once, so most updates leave with their own detection.
+ * still lies ahead of the beam is held, whole, until the beam has swept past those gates (the
+ * tracker keeps held detections in its release queue, release-queue.ts, and assigns them with
+ * whatever arrived meanwhile); global nearest neighbour then sees the cluster complete, as it would
+ * in a batch of a whole revolution. Only contested clusters wait (see heldBack): a lone
+ * established track takes a detection its likely model expects at once, so most updates leave
+ * with their own detection.
  */
 import type { GatedPair } from './assignment.ts';
 import type { Track } from './track-life.ts';

@@ -203,8 +203,9 @@ export class Tracker implements TrackEngine {
     // (2 m cells were slower on the benchmark: more cells to rewrite than candidates saved).
     this.index = new GateIndex(4, this.gamma, this.info.intervalS, o.initiation.maxSpeedMps, (r) => noiseAtRange(r, this.meas));
     this.echoes = new FixedEchoMap(this.gamma, this.info.intervalS, this.echoAfterS(), this.info.antenna === 'staring');
-    // A seed may wait out one missed scan, as a one-hit tentative track would under M-of-N.
     this.minGapS = this.info.antenna === 'rotating' ? MIN_GAP_REVOLUTIONS * this.info.intervalS : 0;
+    // A seed lives 2.5 intervals: it may wait out one missed scan, as a one-hit tentative track
+    // would under M-of-N.
     this.seeds = new SeedPool(this.options.initiation.maxSpeedMps, 2.5 * this.info.intervalS, this.minGapS);
     const sink = out ?? { updates: [], deletions: [] };
     for (const d of buf) this.step(d, sink);
@@ -310,8 +311,9 @@ export class Tracker implements TrackEngine {
       // a mount, a wall of reflectors): it loses its moving status, and with it access to
       // fixed-echo detections. A target pausing on its positioner starts its own spot's history
       // when it arrives, so it is not affected.
-      // (Preexisting: twice the settle time old; one reflector may be held as neighbouring
-      // candidates, so any such reflector counts, not only the same one.)
+      // (Preexisting: the reflector was already at least the settle time old when the track
+      // arrived on it; one reflector may be held as neighbouring candidates, so any such
+      // reflector counts, not only the same one.)
       t.echoHits = wasMoving && refl && refl.ageS - (m.timeS - t.lastArrivalS(m)) >= this.echoes.settleS() ? t.echoHits + 1 : 0;
       if (t.echoHits >= 4) t.demote(m);
       if (this.becomesEcho(t, m.timeS, out)) continue;

@@ -1,7 +1,7 @@
 // Least-squares time alignment; golden-section refinement (Kiefer, "Sequential minimax search for
 // a maximum", Proc. AMS 4:502–506, 1953). Acceptance figure from the issue: 0.4 s within 0.02 s.
 import { describe, expect, it } from 'vitest';
-import { estimateLag } from '../../bridge/compare/lag.ts';
+import { estimateLag, lagCost, resolveLagOptions, searchSamples } from '../../bridge/compare/lag.ts';
 import { waypointsToPath } from '../../bridge/compare/waypoints.ts';
 import { path, shifted } from './lag-fixture.ts';
 
@@ -25,6 +25,11 @@ describe('estimateLag', () => {
     const robust = estimateLag(path, samples, { inlierM: 1 });
     expect(Math.abs(robust.lagS! - 0.4)).toBeLessThan(0.02);
     expect(robust.outliers).toBe(8);
+    // Both RMS figures are over the same (inlier) samples: the one at zero lag is not inflated by
+    // the 2 m stray, and the one at the lag is no larger than it.
+    const inliers = samples.filter((p) => !(p.timeS >= 6 && p.timeS < 8));
+    expect(robust.rmsAtZeroM).toBeCloseTo(Math.sqrt(lagCost(path, searchSamples(path, inliers, resolveLagOptions().maxLagS), 0)), 9);
+    expect(robust.rmsAtLagM).toBeLessThanOrEqual(robust.rmsAtZeroM);
   });
 
   it('finds a lead as a negative lag', () => {
