@@ -31,6 +31,8 @@ describe('IMM of CV at two noise levels (Blom & Bar-Shalom 1988; Bar-Shalom et a
       if (t === 19) muBefore = imm.mu[1];
       if (t === 22) muAfter = imm.mu[1];
     }
+    // Chosen tolerances, not published figures: the quiet model must dominate a steady glide and
+    // the manoeuvre model take over within three updates of the reversal.
     expect(muBefore).toBeLessThan(0.2);
     expect(muAfter).toBeGreaterThan(0.5);
     expect(imm.mu[0] + imm.mu[1]).toBeCloseTo(1, 12);
@@ -60,6 +62,8 @@ describe('IMM of CV at two noise levels (Blom & Bar-Shalom 1988; Bar-Shalom et a
         }
       }
     }
+    // Chosen tolerances: at least half the error of the quiet model alone, and most of the 20
+    // post-reversal detections inside the gate.
     expect(immErr).toBeLessThan(0.5 * quietErr);
     expect(immGated).toBeGreaterThanOrEqual(quietGated);
     expect(immGated).toBeGreaterThan(15);

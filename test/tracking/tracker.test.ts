@@ -98,6 +98,8 @@ describe('tracker end to end on simulated runs', () => {
     expect(new Set(f.map((u) => u.id)).size).toBe(1);
     expect(maxGap(f)).toBeLessThanOrEqual(1.01); // 0.5 s antenna: at most one missed scan in a row
     const r = rmse(run, rows, 0);
+    // Chosen tolerance: through accelerations, stops and a reversal the filter's lag eats much of
+    // its noise reduction; it must still beat the raw detections.
     expect(r.track / r.meas).toBeLessThan(0.95);
   });
 
@@ -249,6 +251,7 @@ describe('tracker end to end on simulated runs', () => {
     // pass for a target; after that, every row must be the target's.
     const late = rows.filter((u) => u.timeS > 25);
     const onTarget = late.filter((u) => dist(run, 0, u) < 0.5).length;
+    // Chosen tolerance: a stray coast row or two past a mount, not a lasting echo track.
     expect(onTarget / late.length).toBeGreaterThan(0.97);
   });
 
@@ -310,6 +313,8 @@ describe('tracker end to end on simulated runs', () => {
     const { tracker } = track({ ...SCENARIOS['staring-approach'], durationS: 14, sigmaRangeM: 0.03, sigmaAzimuthDeg: 1 });
     const inf = tracker.inferred()!;
     expect(inf.noiseFrom).toBe('inferred');
+    // ±30 %: the estimator's own test (noise-estimate.test.ts) holds it to ±25 % = 3 standard errors
+    // over 40 revolutions; this run is shorter (14 s of a staring antenna), so a little wider.
     expect(inf.sigmaRangeM / 0.03).toBeGreaterThan(0.7);
     expect(inf.sigmaRangeM / 0.03).toBeLessThan(1.3);
     expect(inf.sigmaAzimuthRad / DEG).toBeGreaterThan(0.7);
