@@ -8,7 +8,7 @@ import type { TrackDeletion, TrackEngine, TrackUpdate, PositionerSample } from '
 import type { ComparisonFigures, PathPointWire } from './protocol.ts';
 import { EchotrailError } from '../errors.ts';
 import { Recorder } from '../session/recorder.ts';
-import { MultiPathComparison } from '../compare/live.ts';
+import { MultiPathComparison } from '../compare/live-multi.ts';
 import { Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
 import { calibrationApi } from '../calibrate/api.ts';
 
