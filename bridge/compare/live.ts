@@ -14,7 +14,7 @@
  * dropped once no lookup can reach it (trimPath). rmseM, maxErrorM, alongTrackM and crossTrackM are
  * raw (track at t against command at t): what the operator sees; lagS is reported beside them.
  */
-import { DEFAULT_PATH_ID, POSITIONER_PATH_ID, type ComparisonFigures } from '../server/protocol.ts';
+import type { ComparisonFigures } from '../server/protocol.ts';
 import type { PositionerSample, TrackUpdate } from '../types.ts';
 import { deviationAt } from './deviation.ts';
 import { TrackFollower, type FollowOptions } from './follow.ts';

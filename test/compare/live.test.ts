@@ -1,7 +1,7 @@
 // The live figures must agree with the offline computation on the same data (deviation.ts,
 // lag.ts); RMSE definition common practice. Inputs: the seeded analytic run of bench-run.ts.
 import { describe, expect, it } from 'vitest';
-import { comparisonFigures, POSITIONER_PATH_ID } from '../../bridge/server/protocol.ts';
+import { comparisonFigures } from '../../bridge/server/protocol.ts';
 import { LiveComparison } from '../../bridge/compare/live.ts';
 import { deviations } from '../../bridge/compare/deviation.ts';
 import { sampleAt } from '../../bridge/compare/timed-path.ts';
