@@ -4,22 +4,30 @@
  * recording and listing; `--dir` stays for the scripts that already use it.
  */
 import { Command } from 'commander';
-import { join } from 'node:path';
-import { listSessions } from '../session/list.ts';
+import { join, relative } from 'node:path';
+import { findSession, listSessions } from '../session/list.ts';
 import { REPO_ROOT } from '../server/web-build.ts';
 import type { SessionInfo } from '../server/protocol.ts';
 
-function duration(s: number): string {
-  const h = Math.floor(s / 3600);
-  const m = Math.floor((s % 3600) / 60);
-  const sec = Math.round(s % 60);
-  return h ? `${h}h${String(m).padStart(2, '0')}m` : m ? `${m}m${String(sec).padStart(2, '0')}s` : `${s.toFixed(1)}s`;
+/**
+ * "12.5 s", "1 min 20 s", "1 h 05 min": the way the dashboard's session picker says it. Whole
+ * seconds are rounded before they are split, so 119.6 s is "2 min 00 s", never "1 min 60 s".
+ */
+export function duration(s: number): string {
+  if (s < 59.95) return `${s.toFixed(1)} s`;
+  const whole = Math.round(s);
+  if (whole < 3600) return `${Math.floor(whole / 60)} min ${String(whole % 60).padStart(2, '0')} s`;
+  const min = Math.round(s / 60);
+  return `${Math.floor(min / 60)} h ${String(min % 60).padStart(2, '0')} min`;
 }
 
-/** A plain text table: one header row, one row per session. */
-export function sessionsTable(sessions: SessionInfo[]): string {
-  const head = ['id', 'start (UTC)', 'duration', 'detections', 'tracks', 'commanded', 'closed'];
-  const rows = sessions.map((s) => [s.id, s.startUtc.replace('T', ' ').replace(/\.\d+Z$|Z$/, ''), duration(s.durationS), String(s.detections), String(s.tracks), s.hasCommanded ? 'yes' : 'no', s.closed === false ? 'no (cut off)' : 'yes']);
+/**
+ * A plain text table: one header row, one row per session. `files` gives each session's file as
+ * the user should type it (for `start --replay` and `compare --session`), by id.
+ */
+export function sessionsTable(sessions: SessionInfo[], files: ReadonlyMap<string, string> = new Map()): string {
+  const head = ['id', 'start (UTC)', 'duration', 'detections', 'tracks', 'commanded', 'closed', ...(files.size ? ['file'] : [])];
+  const rows = sessions.map((s) => [s.id, s.startUtc.replace('T', ' ').replace(/\.\d+Z$|Z$/, ''), duration(s.durationS), String(s.detections), String(s.tracks), s.hasCommanded ? 'yes' : 'no', s.closed === false ? 'no (cut off)' : 'yes', ...(files.size ? [files.get(s.id) ?? '?'] : [])]);
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const right = new Set([2, 3, 4]);
   const fmt = (r: string[]): string => r.map((c, i) => (right.has(i) ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join('  ').trimEnd();
@@ -45,6 +53,13 @@ export async function run(argv: string[]): Promise<number> {
   const sessions = await listSessions(dirs);
   if (f.json) process.stdout.write(JSON.stringify(sessions, null, 2) + '\n');
   else if (!sessions.length) process.stdout.write(`no sessions in ${dirs.join(', ')}\n`);
-  else process.stdout.write(sessionsTable(sessions) + '\n');
+  else {
+    const files = new Map<string, string>();
+    for (const s of sessions) {
+      const path = await findSession(dirs, s.id);
+      if (path) files.set(s.id, relative(process.cwd(), path) || path);
+    }
+    process.stdout.write(sessionsTable(sessions, files) + '\n');
+  }
   return 0;
 }

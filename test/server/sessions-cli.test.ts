@@ -2,7 +2,7 @@ import { afterAll, describe, expect, it, vi } from 'vitest';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { run, sessionsTable } from '../../bridge/cli/sessions.ts';
+import { duration, run, sessionsTable } from '../../bridge/cli/sessions.ts';
 import { Recorder } from '../../bridge/session/recorder.ts';
 
 describe('echotrail sessions table', () => {
@@ -14,11 +14,22 @@ describe('echotrail sessions table', () => {
     const lines = text.split('\n');
     expect(lines).toHaveLength(3);
     expect(lines[0]).toMatch(/^id\s+start \(UTC\)\s+duration\s+detections\s+tracks\s+commanded\s+closed$/);
-    expect(lines[1]).toMatch(/^20261202-093000-circle\s+2026-12-02 09:30:00\s+1h02m\s+120000\s+3\s+yes\s+yes$/);
+    expect(lines[1]).toMatch(/^20261202-093000-circle\s+2026-12-02 09:30:00\s+1 h 02 min\s+120000\s+3\s+yes\s+yes$/);
     // A recording cut off before its summary says so.
-    expect(lines[2]).toMatch(/^short\s+2026-12-02 10:00:00\s+42\.3s\s+7\s+0\s+no\s+no \(cut off\)$/);
+    expect(lines[2]).toMatch(/^short\s+2026-12-02 10:00:00\s+42\.3 s\s+7\s+0\s+no\s+no \(cut off\)$/);
     // Right-aligned numbers end in the same column.
     expect(lines[1].indexOf('120000') + 6).toBe(lines[2].indexOf(' 7 ') + 2);
+    // With the files known, a last column gives each one's path as --replay / --session take it.
+    const withFiles = sessionsTable([{ id: 'short', name: 'short', startUtc: '2026-12-02T10:00:00Z', durationS: 42.25, detections: 7, tracks: 0, hasCommanded: false }], new Map([['short', 'sessions/short.session.jsonl']]));
+    expect(withFiles.split('\n')[0]).toMatch(/\s+file$/);
+    expect(withFiles.split('\n')[1]).toMatch(/\s+sessions\/short\.session\.jsonl$/);
+  });
+
+  it('says durations as the dashboard does, rounding before it splits', () => {
+    expect(duration(42.25)).toBe('42.3 s');
+    expect(duration(119.6)).toBe('2 min 00 s');
+    expect(duration(80)).toBe('1 min 20 s');
+    expect(duration(3725)).toBe('1 h 02 min');
   });
 });
 
