@@ -122,4 +122,18 @@ describe.skipIf(!dashboardSuiteRuns('dashboard review e2e'))('dashboard review f
     expect(Math.min(rect.width, rect.height) / pxPerM).toBeGreaterThan(1);
     expect(pageErrors).toEqual([]);
   });
+
+  it('opens the legend on a tall window and keeps it closed on a 720-pixel one, where it would cover the room', async () => {
+    const open = () => page.locator('.legend-toggle').getAttribute('aria-expanded');
+    expect(await open()).toBe('true');
+    await page.setViewportSize({ width: 1280, height: 720 });
+    await page.reload();
+    await page.waitForFunction(() => window.echotrail?.renderer);
+    expect(await open()).toBe('false');
+    expect(await page.locator('ul.legend').count()).toBe(0);
+    await page.locator('.legend-toggle').click();
+    expect(await page.locator('ul.legend').count()).toBe(1);
+    await page.setViewportSize({ width: 1600, height: 1000 });
+  });
 });
+
