@@ -11,24 +11,24 @@
  * (assignment.ts), and leftovers become seeds (or pair with an earlier seed into a tentative
  * track) unless a fixed echo or a confirmed track already claims them. Misses are counted
  * against each track's expected next detection (one interval after its last hit).
+ *
+ * The filter, gate, associator, initiator and deleter are parts (tracker-parts.ts): the defaults
+ * named above, or others given to the constructor.
  */
 import type { Detection, FixedEcho, Measurement, TrackDeletion, TrackEngine, TrackerOutput, TrackUpdate } from '../types.ts';
-import { assign } from './assignment.ts';
-import { gateBatch } from './gating.ts';
-import { createFilter } from './filter.ts';
 import { FixedEchoMap } from './fixed-echo-map.ts';
 import { gateThreshold } from './gate.ts';
 import { antennaSettled, decide, decideNoise, describeInference, describeNoise, type TrackerInference } from './inference.ts';
 import { noiseAtRange, toMeasurement, type MeasurementOptions } from './measurement.ts';
-import { SeedPool } from './seeds.ts';
 import { ReleaseQueue } from './release-queue.ts';
 import { heldBack } from './sweep-deferral.ts';
 import { GateIndex } from './gate-index.ts';
 import { RECENT_HITS, Track } from './track-life.ts';
 import { resolveTrackerOptions, type TrackerOptions, type TrackerOptionsInput } from './tracker-options.ts';
+import { resolveTrackerParts, type Initiator, type TrackerParts } from './tracker-parts.ts';
 
 export { resolveTrackerOptions, describeInference, describeNoise };
-export type { TrackerOptions, TrackerOptionsInput, TrackerInference };
+export type { TrackerOptions, TrackerOptionsInput, TrackerInference, TrackerParts };
 
 /**
  * On a rotating antenna one target gives one detection per revolution, so a track takes no
@@ -47,12 +47,14 @@ const MAX_WAIT_REVOLUTIONS = 0.5;
 
 export class Tracker implements TrackEngine {
   readonly options: TrackerOptions;
+  /** Filter, gate, associator, initiator and deleter (tracker-parts.ts). */
+  private readonly parts: TrackerParts;
   private readonly gamma: number;
   private warm: Detection[] | null = [];
   private info: TrackerInference | null = null;
   private meas!: MeasurementOptions;
   private echoes!: FixedEchoMap;
-  private seeds!: SeedPool;
+  private seeds!: Initiator;
   /** Tracks by where their gates reach (set up once the interval is known). */
   private index!: GateIndex<Track>;
   private readonly live = new Map<number, Track>();
@@ -79,8 +81,10 @@ export class Tracker implements TrackEngine {
   /** Shortest time between two hits of one track, s (see MIN_GAP_REVOLUTIONS). */
   private minGapS = 0;
 
-  constructor(options: TrackerOptionsInput | TrackerOptions = {}) {
+  /** @param parts parts to use instead of the defaults (tracker-parts.ts) */
+  constructor(options: TrackerOptionsInput | TrackerOptions = {}, parts: Partial<TrackerParts> = {}) {
     this.options = resolveTrackerOptions(options as TrackerOptionsInput);
+    this.parts = resolveTrackerParts(parts);
     this.gamma = gateThreshold(this.options.gate.probability, 2);
     const o = this.options;
     // The antenna must be inferred before tracking can start; the noise estimate need not hold
@@ -206,7 +210,7 @@ export class Tracker implements TrackEngine {
     this.minGapS = this.info.antenna === 'rotating' ? MIN_GAP_REVOLUTIONS * this.info.intervalS : 0;
     // A seed lives 2.5 intervals: it may wait out one missed scan, as a one-hit tentative track
     // would under M-of-N.
-    this.seeds = new SeedPool(this.options.initiation.maxSpeedMps, 2.5 * this.info.intervalS, this.minGapS);
+    this.seeds = this.parts.createInitiator(this.options.initiation.maxSpeedMps, 2.5 * this.info.intervalS, this.minGapS);
     const sink = out ?? { updates: [], deletions: [] };
     for (const d of buf) this.step(d, sink);
   }
@@ -253,7 +257,7 @@ export class Tracker implements TrackEngine {
     for (const m of ms) if (m.timeS > latest) latest = m.timeS;
     this.index.refresh(latest, this.live);
     const amplitudes = dets.map((d) => d.amplitude);
-    const gates = gateBatch(ms, this.index, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps, amplitudes);
+    const gates = this.parts.gate(ms, this.index, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps, amplitudes);
     let { established, tentative } = gates;
     const { missCost, echo: cand, nearEstablished: nearConfirmed } = gates;
     const now = dets[dets.length - 1].timeS;
@@ -285,9 +289,9 @@ export class Tracker implements TrackEngine {
     const taken = new Uint8Array(ms.length); // 1 = by a track that had not moved, 2 = by a moving track
     const hitNow = new Set<number>();
     const miss = (id: number) => missCost.get(id)!;
-    const chosen = assign(established, miss);
+    const chosen = this.parts.associate(established, miss);
     for (const [, j] of chosen) taken[j] = 1;
-    chosen.push(...assign(tentative.filter((p) => !taken[p.det]), miss));
+    chosen.push(...this.parts.associate(tentative.filter((p) => !taken[p.det]), miss));
     for (const [id, j] of chosen) {
       const t = this.live.get(id)!;
       const m = ms[j];
@@ -334,7 +338,7 @@ export class Tracker implements TrackEngine {
         continue;
       }
       // Two-point start: the seed is the first hit, this detection the second.
-      const f = createFilter(seed.m, o.filter, o.initiation.maxSpeedMps / 2, this.info!.intervalS);
+      const f = this.parts.createFilter(seed.m, o.filter, o.initiation.maxSpeedMps / 2, this.info!.intervalS);
       const t = new Track(this.nextId++, f, seed.m, seed.d, o.initiation);
       f.predict(ms[j].timeS);
       t.onHit(ms[j], f.update(ms[j]), dets[j], o.fixedEchoes.moveThresholdM);
@@ -364,7 +368,7 @@ export class Tracker implements TrackEngine {
         continue;
       }
       t.filter.predict(now);
-      const reason = t.deletionReason(now, this.options.deletion);
+      const reason = this.parts.deletionReason(t, now, this.options.deletion);
       if (reason) {
         this.drop(t);
         out.deletions.push({ timeS: now, id: t.id, reason });
