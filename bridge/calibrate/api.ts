@@ -22,8 +22,13 @@
  *   offsets    → { ok, action, summary: { rangeOffsetM, rangeOffsetSeM, rangeScale, rangeScaleSe,
  *                 azimuthOffsetDeg, azimuthOffsetSeDeg, sigmaRangeM, sigmaAzimuthDeg, detectionsUsed },
  *                 reflectors: [{ label, trueRangeM, trueAzimuthDeg, detections, meanRangeResidualM,
- *                 stdRangeResidualM, meanAzimuthResidualDeg, stdAzimuthResidualDeg, rangeBeyondNoise,
- *                 azimuthBeyondNoise }], warnings: string[], config }
+ *                 stdRangeResidualM, meanAzimuthResidualDeg, stdAzimuthResidualDeg,
+ *                 deletedRangeResidualM?, deletedRangeSdM?, deletedAzimuthResidualDeg?,
+ *                 deletedAzimuthSdDeg? (leave-one-out: measured − predicted by the other spots),
+ *                 rangeVerdict, azimuthVerdict ('consistent' | 'inconsistent' | 'disagree' |
+ *                 'unchecked'), rangeBeyondNoise, azimuthBeyondNoise (verdict 'inconsistent') }],
+ *                 warnings: string[], config }
+ *                 A spot seen in fewer revolutions than the guide asks (guide.ts) is refused.
  *   frame      → { ok, action, summary: { rotationDeg, rotationSeDeg, translationXM, translationYM,
  *                 translationSeXM, translationSeYM, rmsM, maxM, pairs, candidates }, warnings, config }
  *   tune       → { ok, action, summary: { samples, sigmaRangeM, sigmaAzimuthDeg, rangeBiasM,
@@ -41,7 +46,7 @@ import { benchConfigSchema, correctDetection, defaultBenchConfig, withCalibratio
 import { alignFrame, frameWarnings } from './frame-align.ts';
 import { nisBounds } from './nis.ts';
 import { tuneNoise } from './noise-tuning.ts';
-import { fitRadarOffsets, spotBeyondNoise, type ReflectorResidual } from './offsets.ts';
+import { fitRadarOffsets, spotFlags, type ReflectorResidual } from './offsets.ts';
 import { tunedProfile } from './profile-out.ts';
 import { GUIDE_STEPS, frameRecord, offsetsRecord, offsetsSummary, frameSummary, noiseRecord } from './report.ts';
 
@@ -74,14 +79,21 @@ export type CalibrationResponse =
   | { ok: true; action: 'nis-bounds'; lower: number; upper: number }
   | { ok: false; code: string; message: string };
 
-/** One spot's residuals for the answer, degrees at this edge, with the verdicts of offsetWarnings. */
+/**
+ * One spot's residuals for the answer, degrees at this edge, with the verdicts of the fit's
+ * leave-one-out check: the same figures its warnings quote, so the panel's marks and the warnings
+ * name the same spots. The deleted residuals are left out when the other spots cannot predict it.
+ */
 function reflectorRow(r: ReflectorResidual): Record<string, number | string | boolean> {
-  const beyond = spotBeyondNoise(r);
+  const flags = spotFlags(r);
   return {
     label: r.label, trueRangeM: r.trueRangeM, trueAzimuthDeg: r.trueAzimuthRad / DEG, detections: r.detections,
     meanRangeResidualM: r.meanRangeResidualM, stdRangeResidualM: r.stdRangeResidualM,
     meanAzimuthResidualDeg: r.meanAzimuthResidualRad / DEG, stdAzimuthResidualDeg: r.stdAzimuthResidualRad / DEG,
-    rangeBeyondNoise: beyond.range, azimuthBeyondNoise: beyond.azimuth,
+    ...(r.deletedRangeResidualM !== null && r.deletedRangeSdM !== null ? { deletedRangeResidualM: r.deletedRangeResidualM, deletedRangeSdM: r.deletedRangeSdM } : {}),
+    ...(r.deletedAzimuthResidualRad !== null && r.deletedAzimuthSdRad !== null ? { deletedAzimuthResidualDeg: r.deletedAzimuthResidualRad / DEG, deletedAzimuthSdDeg: r.deletedAzimuthSdRad / DEG } : {}),
+    rangeVerdict: r.rangeVerdict, azimuthVerdict: r.azimuthVerdict,
+    rangeBeyondNoise: flags.range, azimuthBeyondNoise: flags.azimuth,
   };
 }
 

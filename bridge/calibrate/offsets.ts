@@ -9,12 +9,19 @@
  * are first gated wide around each entered position (the offsets are unknown), then re-gated at
  * 4 robust σ about a median fit so a nearby fixed echo or clutter does not pull the result.
  *
+ * Each spot is then checked against what the other spots alone predict (spot-check.ts, leave-one-
+ * out), so that a spot entered wrong is named and the good ones are not blamed with it. And each
+ * spot must have been recorded as long as the guide asks (guide.ts: revolutions of a rotating
+ * antenna, seconds of a staring one); a fit on six stray detections is refused.
+ *
  * The tracker adds its offsets to what it measures (bridge/tracking/measurement.ts), so its
  * corrections are the negatives: rangeOffsetM = −b (valid for s ≈ 1), azimuthOffsetRad = −δ.
  */
 import { EchotrailError } from '../errors.ts';
 import type { Detection } from '../types.ts';
+import { MIN_REVOLUTIONS_PER_SPOT, MIN_STARING_S_PER_SPOT } from './guide.ts';
 import { leastSquares, median, robustSigma } from './linalg.ts';
+import { checkSpots, type SpotCheck, type SpotObservation, type SpotVerdict } from './spot-check.ts';
 
 const DEG = Math.PI / 180;
 
@@ -40,10 +47,23 @@ export interface OffsetFitOptions {
   minScaleSpanM?: number;
   /** Fewest detections per position after gating (default 5). */
   minDetections?: number;
+  /** Fewest antenna revolutions in which each position must be seen, rotating antenna (default: the guide's, guide.ts). */
+  minRevolutions?: number;
+  /** Shortest span of each position's detections with a staring antenna, s (default: the guide's, guide.ts). */
+  minStaringS?: number;
+  /**
+   * Standard uncertainty of a tape-measured position per coordinate, m (default 0.01: steel tape
+   * and a reflector set up by eye, common practice). Spots are judged against it: a spot off by
+   * less than about 3 of these is ordinary tape error, not a mistake.
+   */
+  tapeSigmaM?: number;
 }
 
 export function resolveOffsetFitOptions(o: OffsetFitOptions = {}): Required<OffsetFitOptions> {
-  return { gateRangeM: o.gateRangeM ?? 0.5, gateAzimuthDeg: o.gateAzimuthDeg ?? 10, fitScale: o.fitScale ?? 'auto', minScaleSpanM: o.minScaleSpanM ?? 0.5, minDetections: o.minDetections ?? 5 };
+  return {
+    gateRangeM: o.gateRangeM ?? 0.5, gateAzimuthDeg: o.gateAzimuthDeg ?? 10, fitScale: o.fitScale ?? 'auto', minScaleSpanM: o.minScaleSpanM ?? 0.5, minDetections: o.minDetections ?? 5,
+    minRevolutions: o.minRevolutions ?? MIN_REVOLUTIONS_PER_SPOT, minStaringS: o.minStaringS ?? MIN_STARING_S_PER_SPOT, tapeSigmaM: o.tapeSigmaM ?? 0.01,
+  };
 }
 
 export interface ReflectorResidual {
@@ -56,6 +76,17 @@ export interface ReflectorResidual {
   stdRangeResidualM: number;
   meanAzimuthResidualRad: number;
   stdAzimuthResidualRad: number;
+  /**
+   * Leave-one-out (spot-check.ts): the spot's mean measured − what the other spots alone predict,
+   * with the standard deviation of that difference; null when the others cannot predict it.
+   */
+  deletedRangeResidualM: number | null;
+  deletedRangeSdM: number | null;
+  deletedAzimuthResidualRad: number | null;
+  deletedAzimuthSdRad: number | null;
+  /** The check's verdict on this spot's range and azimuth (SpotVerdict). */
+  rangeVerdict: SpotVerdict;
+  azimuthVerdict: SpotVerdict;
 }
 
 export interface OffsetFit {
@@ -76,40 +107,67 @@ export interface OffsetFit {
   sigmaAzimuthRad: number;
   reflectors: ReflectorResidual[];
   detectionsUsed: number;
+  /** The leave-one-out checks of the spots' ranges and azimuths. */
+  rangeCheck: SpotCheck;
+  azimuthCheck: SpotCheck;
   /**
-   * What the fit cannot vouch for (see offsetWarnings): a spot whose mean residual is far beyond
-   * its noise (a mis-measured or mislabelled position), or too few spots to check the fit at all.
-   * The standard errors above assume the tape-measured positions are right.
+   * What the fit cannot vouch for (see offsetWarnings): a spot that disagrees with what the other
+   * spots predict (a mis-measured or mislabelled position), spots that disagree without one to
+   * blame, or too few spots to check the fit at all. The standard errors above assume the
+   * tape-measured positions are right.
    */
   warnings: string[];
 }
 
-/** Smallest mean residuals worth a warning: tape placement errors below these are common practice. */
-const SPOT_RANGE_FLOOR_M = 0.03;
-const SPOT_AZIMUTH_FLOOR_RAD = 0.5 * (Math.PI / 180);
-
 /**
- * Whether a spot's mean residuals lie beyond 3 standard errors of its own detections (and a floor
- * for ordinary tape error): a mis-measured or mislabelled position.
+ * Floor of a spot's azimuth uncertainty besides the tape, rad: 0.5° at 3σ for the reflector's
+ * alignment and the beam's error from one azimuth to another (common practice), so a far spot,
+ * where a centimetre of tape is a small angle, is not held to less.
  */
-export function spotBeyondNoise(r: ReflectorResidual): { range: boolean; azimuth: boolean } {
-  const k = 3 / Math.sqrt(Math.max(r.detections, 1));
-  return {
-    range: Math.abs(r.meanRangeResidualM) > Math.max(k * r.stdRangeResidualM, SPOT_RANGE_FLOOR_M),
-    azimuth: Math.abs(r.meanAzimuthResidualRad) > Math.max(k * r.stdAzimuthResidualRad, SPOT_AZIMUTH_FLOOR_RAD),
-  };
+const SPOT_AZIMUTH_FLOOR_RAD = (0.5 / 3) * DEG;
+
+/** Whether the spot check singled this spot out (the panel marks it, the warnings name it). */
+export function spotFlags(r: Pick<ReflectorResidual, 'rangeVerdict' | 'azimuthVerdict'>): { range: boolean; azimuth: boolean } {
+  return { range: r.rangeVerdict === 'inconsistent', azimuth: r.azimuthVerdict === 'inconsistent' };
+}
+
+/** `v.toFixed(digits)` with the minus sign (U+2212), and no sign on what rounds to zero. */
+export function fixedWithMinus(v: number, digits: number): string {
+  const text = Math.abs(v).toFixed(digits);
+  return v < 0 && Number(text) !== 0 ? `−${text}` : text;
+}
+const mm = (m: number) => `${fixedWithMinus(m * 1000, 0)} mm`;
+const degrees = (rad: number) => `${fixedWithMinus(rad / DEG, 2)}°`;
+const names = (labels: string[]) => (labels.length > 1 ? `${labels.slice(0, -1).join(', ')} and ${labels[labels.length - 1]}` : labels[0]);
+
+/** The warning for spots that disagree in one quantity without a spot to blame. */
+function disagreement(what: 'range' | 'azimuth', check: SpotCheck, reflectors: readonly ReflectorResidual[], params: number): string | null {
+  const among = reflectors.filter((_, i) => check.verdicts[i] === 'disagree').map((r) => r.label);
+  if (among.length === 0) return null;
+  const point = check.pointsAt !== null ? `; leave-one-out points at ${reflectors[check.pointsAt].label}, without confirming it` : '';
+  const unknowns = params === 1 ? `the ${what} offset` : 'range scale and offset';
+  const why = check.redundancy <= 1
+    ? `with ${reflectors.length} spots for ${unknowns} leave-one-out cannot tell which is wrong${point}: re-measure them, or add a spot${what === 'range' ? ' at another distance' : ''}`
+    : `leave-one-out cannot single one out${point}: re-measure them; more spots help tell them apart`;
+  return `the spots disagree in ${what} (${names(among)} beyond 3σ of what the others predict), and ${why}`;
 }
 
 /**
- * Warnings for a fit: each spot beyond its noise (spotBeyondNoise), and the redundancy left to
- * check the fit with.
+ * Warnings for a fit: each spot the leave-one-out check singled out, spots that disagree without
+ * one to blame, and the redundancy left to check the fit with.
  */
-export function offsetWarnings(reflectors: readonly ReflectorResidual[], scaleFitted: boolean): string[] {
+export function offsetWarnings(reflectors: readonly ReflectorResidual[], scaleFitted: boolean, checks?: { range: SpotCheck; azimuth: SpotCheck }): string[] {
   const out: string[] = [];
   for (const r of reflectors) {
-    const beyond = spotBeyondNoise(r);
-    if (beyond.range) out.push(`spot ${r.label}: mean range residual ${(r.meanRangeResidualM * 1000).toFixed(0)} mm, beyond its noise: check its tape-measured position and label`);
-    if (beyond.azimuth) out.push(`spot ${r.label}: mean azimuth residual ${(r.meanAzimuthResidualRad / DEG).toFixed(2)}°, beyond its noise: check its tape-measured position and label`);
+    const flags = spotFlags(r);
+    if (flags.range && r.deletedRangeResidualM !== null && r.deletedRangeSdM !== null) out.push(`spot ${r.label}: range ${mm(r.deletedRangeResidualM)} off what the other spots predict (±${mm(3 * r.deletedRangeSdM)} expected): check its tape-measured position and label; the offsets above include it`);
+    if (flags.azimuth && r.deletedAzimuthResidualRad !== null && r.deletedAzimuthSdRad !== null) out.push(`spot ${r.label}: azimuth ${degrees(r.deletedAzimuthResidualRad)} off what the other spots predict (±${degrees(3 * r.deletedAzimuthSdRad)} expected): check its tape-measured position and label; the offsets above include it`);
+  }
+  if (checks) {
+    const range = disagreement('range', checks.range, reflectors, scaleFitted ? 2 : 1);
+    const azimuth = disagreement('azimuth', checks.azimuth, reflectors, 1);
+    if (range) out.push(range);
+    if (azimuth) out.push(azimuth);
   }
   const distances = new Set(reflectors.map((r) => r.trueRangeM.toFixed(2))).size;
   if (reflectors.length < 2) out.push('one spot fits the offsets exactly and cannot check them: measure at two or more spots');
@@ -121,6 +179,50 @@ const wrapPi = (a: number) => a - 2 * Math.PI * Math.floor((a + Math.PI) / (2 * 
 const deg360 = (a: number) => ((((a / DEG) % 360) + 360) % 360).toFixed(1);
 const mean = (v: number[]) => v.reduce((a, b) => a + b, 0) / v.length;
 const std = (v: number[]) => (v.length > 1 ? Math.sqrt(v.reduce((a, b) => a + (b - mean(v)) ** 2, 0) / (v.length - 1)) : 0);
+
+/** Variance within groups, pooled: Σ (v − group mean)² / (count − groups); 0 when nothing is left. */
+function pooledWithin(groups: number[][]): number {
+  let ss = 0;
+  let dof = 0;
+  for (const g of groups) {
+    const m = mean(g);
+    for (const v of g) ss += (v - m) ** 2;
+    dof += g.length - 1;
+  }
+  return dof > 0 ? ss / dof : 0;
+}
+
+/**
+ * Fastest revisit of one spot taken for a rotating antenna, s: benches turn in 0.5–2 s (common
+ * practice; bridge/tracking/antenna-inference.ts uses the same floor). Detections of a spot that
+ * come faster are a staring antenna's (or several per pass), judged by the time they span.
+ */
+const MIN_REVISIT_S = 0.1;
+
+/**
+ * Why a spot's detections fall short of the guide, or null. Judged on the spot's own detections:
+ * the antenna inferred from a whole run misreads a sparse one (a lone reflector at 0° jitters
+ * across the zero reference), while a reflector's revisits are its revolutions. A reflector
+ * standing at the spot is seen nearly every revolution, so few revolutions mean a short recording
+ * or a position where nothing stands (six stray detections of clutter are not a reflector).
+ */
+function coverageProblem(label: string, dets: readonly Detection[], o: Required<OffsetFitOptions>): string | null {
+  const times = dets.map((d) => d.timeS).sort((a, b) => a - b);
+  const gaps = times.slice(1).map((t, i) => t - times[i]).filter((g) => g > 0).sort((a, b) => a - b);
+  // Its revisit interval: the lower quartile of the gaps between its detections, which is one
+  // revolution even when it is missed now and then (the median would be two at Pd below ½).
+  const revisitS = gaps.length ? gaps[Math.floor(0.25 * (gaps.length - 1))] : 0;
+  if (revisitS >= MIN_REVISIT_S || gaps.length === 0) {
+    // Detections more than half a revisit apart are in different revolutions.
+    let seen = times.length ? 1 : 0;
+    for (let i = 1; i < times.length; i++) if (times[i] - times[i - 1] > 0.5 * revisitS) seen++;
+    if (seen >= o.minRevolutions) return null;
+    return `offset fit: ${label} was seen in ${seen} antenna revolution${seen === 1 ? '' : 's'} (the guide asks for at least ${o.minRevolutions} per spot): record longer; a reflector standing there is seen nearly every revolution, so if the recording was long enough, check the entered position; nothing was saved`;
+  }
+  const span = times[times.length - 1] - times[0];
+  if (span >= o.minStaringS) return null;
+  return `offset fit: ${label} was seen over ${span.toFixed(1)} s of a staring antenna (the guide asks for at least ${o.minStaringS} s per spot, or ${o.minRevolutions} revolutions of a rotating one): record longer; nothing was saved`;
+}
 
 export function fitRadarOffsets(positions: ReflectorPosition[], detections: Iterable<Detection>, options?: OffsetFitOptions): OffsetFit {
   const o = resolveOffsetFitOptions(options);
@@ -153,6 +255,11 @@ export function fitRadarOffsets(positions: ReflectorPosition[], detections: Iter
     r.dets = r.dets.filter((d) => Math.abs(d.rangeM - r.r - centre[i].dr) <= 4 * sr && Math.abs(wrapPi(d.azimuthRad - r.az) - centre[i].da) <= 4 * sa);
     if (r.dets.length < o.minDetections) throw new EchotrailError('E_CALIBRATION', `offset fit: only ${r.dets.length} consistent detections of ${r.label} (need ${o.minDetections}); record longer or check the position; nothing was saved`);
   });
+  // Recorded as long as the guide asks (guide.ts)?
+  for (const r of refl) {
+    const problem = coverageProblem(r.label, r.dets, o);
+    if (problem) throw new EchotrailError('E_CALIBRATION', problem);
+  }
   const span = Math.max(...refl.map((r) => r.r)) - Math.min(...refl.map((r) => r.r));
   const canScale = span >= o.minScaleSpanM;
   if (o.fitScale === true && !canScale) {
@@ -172,6 +279,22 @@ export function fitRadarOffsets(positions: ReflectorPosition[], detections: Iter
     const ea = r.dets.map((d) => wrapPi(d.azimuthRad - r.az - delta));
     return { label: r.label, trueRangeM: r.r, trueAzimuthRad: (r.az + 2 * Math.PI) % (2 * Math.PI), detections: r.dets.length, meanRangeResidualM: mean(er), stdRangeResidualM: std(er), meanAzimuthResidualRad: mean(ea), stdAzimuthResidualRad: std(ea) };
   });
+  // Leave-one-out per spot (spot-check.ts) on the spots' means. The detection noise is the scatter
+  // within each spot, pooled, which a wrong spot does not inflate (the fit's σ above it does).
+  const sr2 = pooledWithin(refl.map((r) => r.dets.map((d) => d.rangeM)));
+  const sa2 = pooledWithin(refl.map((r) => r.dets.map((d) => wrapPi(d.azimuthRad - r.az))));
+  const rangeCheck = checkSpots(refl.map((r): SpotObservation => {
+    const v = o.tapeSigmaM ** 2 + sr2 / r.dets.length;
+    return scaleFitted ? { x: [r.r, 1], y: mean(r.dets.map((d) => d.rangeM)), v } : { x: [1], y: mean(r.dets.map((d) => d.rangeM - r.r)), v };
+  }));
+  // A position error of τ across the line of sight turns the azimuth by τ/R.
+  const azimuthCheck = checkSpots(refl.map((r): SpotObservation => ({ x: [1], y: mean(r.dets.map((d) => wrapPi(d.azimuthRad - r.az))), v: Math.max(o.tapeSigmaM / r.r, SPOT_AZIMUTH_FLOOR_RAD) ** 2 + sa2 / r.dets.length })));
+  const checked: ReflectorResidual[] = reflectors.map((row, i) => ({
+    ...row,
+    deletedRangeResidualM: rangeCheck.deleted[i]?.residual ?? null, deletedRangeSdM: rangeCheck.deleted[i]?.sd ?? null,
+    deletedAzimuthResidualRad: azimuthCheck.deleted[i]?.residual ?? null, deletedAzimuthSdRad: azimuthCheck.deleted[i]?.sd ?? null,
+    rangeVerdict: rangeCheck.verdicts[i], azimuthVerdict: azimuthCheck.verdicts[i],
+  }));
   return {
     rangeOffsetM: b,
     rangeOffsetSeM: scaleFitted ? rangeFit.se[1] : rangeFit.se[0],
@@ -183,10 +306,12 @@ export function fitRadarOffsets(positions: ReflectorPosition[], detections: Iter
     azimuthOffsetSeRad: azFit.se[0],
     sigmaRangeM: Math.sqrt(rangeFit.sigma2),
     sigmaAzimuthRad: Math.sqrt(azFit.sigma2),
-    reflectors,
+    reflectors: checked,
     detectionsUsed: all.length,
+    rangeCheck,
+    azimuthCheck,
     warnings: [
-      ...offsetWarnings(reflectors, scaleFitted),
+      ...offsetWarnings(checked, scaleFitted, { range: rangeCheck, azimuth: azimuthCheck }),
       // Auto mode left the scale out: say so, or the scale of 1 reads as a measured one.
       ...(o.fitScale === 'auto' && !scaleFitted && reflectors.length > 1 ? [`range scale not fitted (held at 1): the spots' distances span ${(span * 100).toFixed(0)} cm, less than ${(o.minScaleSpanM * 100).toFixed(0)} cm; add a spot at another distance to fit it`] : []),
     ],

@@ -7,12 +7,13 @@ import type { CalibrationRecord } from './bench-config.ts';
 import type { FrameAlignment } from './frame-align.ts';
 import type { NoiseTuningResult } from './noise-tuning.ts';
 import type { OffsetFit } from './offsets.ts';
+import { MIN_REVOLUTIONS_PER_SPOT, MIN_STARING_S_PER_SPOT } from './guide.ts';
 
 const DEG = Math.PI / 180;
 
 export const GUIDE_STEPS: string[] = [
   'Offsets: stand a corner reflector at a spot you can tape-measure from the antenna (x across, y along boresight, metres); two or three spots at different distances also give the range scale.',
-  'Record at least 20 revolutions (or 10 s staring) per spot, keeping people and tools out of the beam.',
+  `Record at least ${MIN_REVOLUTIONS_PER_SPOT} revolutions (or ${MIN_STARING_S_PER_SPOT} s staring) per spot, keeping people and tools out of the beam; the fit refuses less.`,
   'Enter each spot and, if the reflector was moved within one recording, the time span it stood there; fit, check the residuals, accept.',
   'Frame: run a 2-D path (circle, figure-eight, waypoints) on the positioner with the offsets applied and fit the positioner frame from the run and its commanded path.',
   'Tuning: with offsets and frame in place, tune on a run with manoeuvres like the ones you will test; the profile makes the tracker consistent (mean NIS inside its bounds).',

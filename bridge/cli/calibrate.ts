@@ -7,7 +7,8 @@
 import { Command, InvalidArgumentError } from 'commander';
 import { loadBenchConfig, saveBenchConfig, withCalibration, correctDetection } from '../calibrate/bench-config.ts';
 import { alignFrame, frameWarnings } from '../calibrate/frame-align.ts';
-import { fitRadarOffsets, type ReflectorPosition } from '../calibrate/offsets.ts';
+import { fitRadarOffsets, fixedWithMinus, spotFlags, type ReflectorPosition, type ReflectorResidual } from '../calibrate/offsets.ts';
+import { MIN_REVOLUTIONS_PER_SPOT, MIN_STARING_S_PER_SPOT } from '../calibrate/guide.ts';
 import { parseTracksById, readPathCsv, type TimedPoint } from '../calibrate/path.ts';
 import { formatSummary, frameRecord, frameSummary, offsetsRecord, offsetsSummary } from '../calibrate/report.ts';
 import { numberArg, readRunInputs, runCommand } from './run-command.ts';
@@ -48,7 +49,7 @@ function common(cmd: Command): Command {
 
 function offsetsCommand(): Command {
   return common(new Command('echotrail calibrate offsets'))
-    .description('Fit range offset, range scale and azimuth offset from detections of a reflector at tape-measured positions (radar frame: x across, y along the antenna zero, metres).')
+    .description(`Fit range offset, range scale and azimuth offset from detections of a reflector at tape-measured positions (radar frame: x across, y along the antenna zero, metres). Each position must be seen in at least ${MIN_REVOLUTIONS_PER_SPOT} antenna revolutions (or ${MIN_STARING_S_PER_SPOT} s of a staring antenna). Each is checked against what the others alone predict (leave-one-out): ⚠ marks one that disagrees with them, ? spots that disagree when too few to tell which is wrong.`)
     .option('--detections <file>', 'detections CSV of the calibration run(s) (time_s,azimuth_deg,range_m,amplitude)', pathArg)
     .option('--session <file>', 'or a recorded session (its raw detections are used)', pathArg)
     .option('--reflector <x,y,…>', 'a tape-measured position x,y[,label[,from_s,to_s]], metres; repeat for each; from/to limit it to a time span, s', reflector)
@@ -71,6 +72,21 @@ function frameCommand(): Command {
     .option('--allow-line', 'accept a straight commanded path (tracking lag then shifts the translation along it)');
 }
 
+/** A verdict's mark on a spot's leave-one-out figure: as the dashboard's residual table marks it. */
+const mark = (flagged: boolean, verdict: string) => (flagged ? ' ⚠' : verdict === 'disagree' ? ' ?' : '');
+
+/**
+ * One spot: its residuals against the fit (mean ± std of its detections) and, leave-one-out,
+ * against what the other spots alone predict (± std), the figure its verdict rests on.
+ */
+function spotLine(r: ReflectorResidual): string {
+  const flags = spotFlags(r);
+  const vsRange = r.deletedRangeResidualM === null || r.deletedRangeSdM === null ? '—' : `${fixedWithMinus(r.deletedRangeResidualM * 1000, 1)} ± ${(r.deletedRangeSdM * 1000).toFixed(1)} mm`;
+  const vsAzimuth = r.deletedAzimuthResidualRad === null || r.deletedAzimuthSdRad === null ? '—' : `${fixedWithMinus(r.deletedAzimuthResidualRad / DEG, 3)} ± ${(r.deletedAzimuthSdRad / DEG).toFixed(3)}°`;
+  return `  ${r.label}: ${r.detections} detections at ${r.trueRangeM.toFixed(3)} m, residual range ${fixedWithMinus(r.meanRangeResidualM * 1000, 1)} ± ${(r.stdRangeResidualM * 1000).toFixed(1)} mm, azimuth ${fixedWithMinus(r.meanAzimuthResidualRad / DEG, 3)} ± ${(r.stdAzimuthResidualRad / DEG).toFixed(3)}°; `
+    + `vs. the other spots: range ${vsRange}${mark(flags.range, r.rangeVerdict)}, azimuth ${vsAzimuth}${mark(flags.azimuth, r.azimuthVerdict)}\n`;
+}
+
 async function offsets(o: Record<string, unknown>): Promise<number> {
   const positions = [...((o.reflector as ReflectorPosition[] | undefined) ?? []), ...(o.reflectors ? await readPositions(o.reflectors as string) : [])];
   if (positions.length === 0) throw new EchotrailError('E_OPTION', 'give at least one --reflector x,y (tape-measured, metres)');
@@ -80,9 +96,7 @@ async function offsets(o: Record<string, unknown>): Promise<number> {
   const dets = (await readRunInputs(o, false, 'calibrate offsets')).detections;
   const fit = fitRadarOffsets(positions, dets, { fitScale: mode === 'auto' ? 'auto' : mode === 'yes', gateRangeM: o.gateRange as number, gateAzimuthDeg: o.gateAzimuth as number });
   process.stdout.write(formatSummary('radar offsets (measured = scale·true + offset):', offsetsSummary(fit)) + '\n');
-  for (const r of fit.reflectors) {
-    process.stdout.write(`  ${r.label}: ${r.detections} detections at ${r.trueRangeM.toFixed(3)} m, residual range ${(r.meanRangeResidualM * 1000).toFixed(1)} ± ${(r.stdRangeResidualM * 1000).toFixed(1)} mm, azimuth ${(r.meanAzimuthResidualRad / DEG).toFixed(3)} ± ${(r.stdAzimuthResidualRad / DEG).toFixed(3)}°\n`);
-  }
+  for (const r of fit.reflectors) process.stdout.write(spotLine(r));
   for (const w of fit.warnings) process.stderr.write(`echotrail calibrate offsets: warning: ${w}\n`);
   process.stdout.write(`tracker corrections (added to measurements): rangeOffsetM ${(-fit.rangeOffsetM).toFixed(4)}, azimuthOffsetDeg ${(-fit.azimuthOffsetRad / DEG).toFixed(3)}${fit.scaleFitted ? ' (the tracker has no range scale)' : ''}\n`);
   if (o.dryRun) return 0;

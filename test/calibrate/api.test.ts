@@ -28,6 +28,19 @@ describe('calibrationApi', () => {
     const b = wrong.reflectors.find((r) => r.label === 'B')!;
     expect(b.rangeBeyondNoise || b.azimuthBeyondNoise).toBe(true);
     expect(wrong.reflectors.filter((r) => r.rangeBeyondNoise || r.azimuthBeyondNoise).length).toBe(new Set(wrong.warnings.filter((w) => w.startsWith('spot ')).map((w) => w.split(':')[0])).size);
+    // The row carries the leave-one-out figure its warning quotes (degrees at this edge), and the
+    // verdict behind the flag.
+    expect(b.azimuthVerdict).toBe('inconsistent');
+    const deg = b.deletedAzimuthResidualDeg as number;
+    expect(wrong.warnings.find((w) => w.startsWith('spot B: azimuth'))).toContain(`${deg < 0 ? '−' : ''}${Math.abs(deg).toFixed(2)}°`);
+    expect(res.reflectors.every((r) => typeof r.deletedAzimuthSdDeg === 'number' && r.rangeVerdict === 'consistent')).toBe(true);
+  });
+
+  it('offsets: refuses a capture shorter than the guide asks for (20 revolutions per spot)', () => {
+    const tape = simulateRun(builtinScenario('tape-points'));
+    const short = calibrationApi({ action: 'offsets', positions: [{ x: 0.5, y: 1.5, label: 'A' }, { x: -1, y: 3 }], detections: wire(tape.detections.filter((d) => d.timeS < 8)) });
+    expect(short).toMatchObject({ ok: false, code: 'E_CALIBRATION' });
+    expect((short as { message: string }).message).toMatch(/A was seen in \d antenna revolutions \(the guide asks for at least 20 per spot\)/);
   });
 
   it('frame and tune, chained through the returned config', () => {

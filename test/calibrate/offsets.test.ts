@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { fitRadarOffsets, type ReflectorPosition } from '../../bridge/calibrate/offsets.ts';
+import { fitRadarOffsets, spotFlags, type OffsetFit, type ReflectorPosition } from '../../bridge/calibrate/offsets.ts';
+import { MIN_REVOLUTIONS_PER_SPOT } from '../../bridge/calibrate/guide.ts';
 import { simulateRun } from '../../bridge/sim/run.ts';
 import type { ScenarioOptions } from '../../bridge/sim/scenario.ts';
 import { offsetsSummary } from '../../bridge/calibrate/report.ts';
@@ -17,6 +18,24 @@ function bench(seed: number, extra: Partial<ScenarioOptions> = {}): ScenarioOpti
     ...extra,
   };
 }
+
+/** The spots the fit singled out (range or azimuth), as the warnings and the panel name them. */
+function flagged(fit: OffsetFit): string[] {
+  return fit.reflectors.filter((r) => spotFlags(r).range || spotFlags(r).azimuth).map((r) => r.label);
+}
+
+/** Spots at `spots` on a bench with the usual errors; detections of a 60 s run (1 s antenna). */
+function spotRun(seed: number, spots: readonly ReflectorPosition[]) {
+  return simulateRun(bench(seed, { targets: spots.map((s) => ({ trajectory: { kind: 'static' as const, at: { x: s.x, y: s.y } } })) })).detections;
+}
+
+/** A tape slip: the position entered `by` metres further along its line of sight than it is. */
+const further = (p: ReflectorPosition, by: number): ReflectorPosition => {
+  const r = Math.hypot(p.x, p.y);
+  return { ...p, x: (p.x * (r + by)) / r, y: (p.y * (r + by)) / r };
+};
+
+const FIVE: ReflectorPosition[] = [...SPOTS, { x: -0.6, y: 2.2, label: 'D' }, { x: 0.2, y: 3.8, label: 'E' }];
 
 function failure(f: () => unknown): unknown {
   try {
@@ -46,6 +65,7 @@ describe('fitRadarOffsets on a simulated bench', () => {
     const wrong = SPOTS.map((p) => (p.label === 'B' ? { ...p, x: p.x + 0.2 } : p));
     const bad = fitRadarOffsets(wrong, simulateRun(bench(1)).detections);
     expect(bad.warnings.some((w) => w.startsWith('spot B:') && w.includes('azimuth'))).toBe(true);
+    expect(flagged(bad)).toEqual(['B']);
     // Two spots: scale and offset fit the two distances exactly.
     const two = fitRadarOffsets(SPOTS.slice(0, 2), simulateRun(bench(1)).detections);
     expect(two.scaleFitted).toBe(true);
@@ -118,5 +138,58 @@ describe('fitRadarOffsets on a simulated bench', () => {
     const fit = fitRadarOffsets([{ x: 0, y: 2, toS: 24 }, { x: 0, y: 4, fromS: 28 }], run.detections);
     expect(fit.reflectors.map((r) => r.detections).every((n) => n > 15)).toBe(true);
     expect(Math.abs(fit.rangeScale - 1)).toBeLessThan(3 * fit.rangeScaleSe);
+  });
+
+  // Leave-one-out (bridge/calibrate/spot-check.ts): each spot against what the others alone predict.
+  it('leave-one-out names only the spot tape-measured 0.2 m wrong, with four and with five spots', () => {
+    for (const seed of [1, 2, 3]) {
+      // Four spots; B entered 0.2 m too far: its range disagrees with the others by about 0.2 m.
+      const four = SPOTS.concat(FIVE[3]);
+      const fit4 = fitRadarOffsets(four.map((p) => (p.label === 'B' ? further(p, 0.2) : p)), spotRun(seed, four));
+      expect(flagged(fit4)).toEqual(['B']);
+      const b = fit4.reflectors.find((r) => r.label === 'B')!;
+      expect(b.rangeVerdict).toBe('inconsistent');
+      expect(Math.abs(b.deletedRangeResidualM! + 0.2)).toBeLessThan(3 * b.deletedRangeSdM!);
+      // Not "the spots disagree" either: the others are cleared.
+      expect(fit4.reflectors.filter((r) => r.label !== 'B').every((r) => r.rangeVerdict === 'consistent' && r.azimuthVerdict === 'consistent')).toBe(true);
+      expect(fit4.warnings.filter((w) => w.startsWith('spot ')).every((w) => w.startsWith('spot B:'))).toBe(true);
+      expect(fit4.warnings.some((w) => w.includes('disagree'))).toBe(false);
+      // Five spots; the far one (C, 4.95 m, the most leverage on the scale) entered 0.2 m short.
+      const fit5 = fitRadarOffsets(FIVE.map((p) => (p.label === 'C' ? further(p, -0.2) : p)), spotRun(seed, FIVE));
+      expect(flagged(fit5)).toEqual(['C']);
+      expect(fit5.reflectors.every((r) => r.label === 'C' || (r.rangeVerdict === 'consistent' && r.azimuthVerdict === 'consistent'))).toBe(true);
+    }
+  });
+
+  it('leave-one-out flags none of four or five correctly measured spots', () => {
+    for (const seed of [1, 2, 3, 4, 5]) {
+      for (const spots of [SPOTS.concat(FIVE[3]), FIVE]) {
+        const fit = fitRadarOffsets(spots, spotRun(seed, spots));
+        expect(fit.reflectors.map((r) => [r.rangeVerdict, r.azimuthVerdict])).toEqual(spots.map(() => ['consistent', 'consistent']));
+        expect(fit.warnings).toEqual([]);
+      }
+    }
+  });
+
+  it('three spots, one 0.2 m wrong in range: the spots disagree, and more spots are asked for', () => {
+    // Range scale and offset from three spots leave one residual dimension: leave-one-out cannot
+    // tell which spot is wrong, so none is blamed alone.
+    const fit = fitRadarOffsets(SPOTS.map((p) => (p.label === 'B' ? further(p, 0.2) : p)), simulateRun(bench(1)).detections);
+    expect(fit.reflectors.map((r) => r.rangeVerdict)).toEqual(['disagree', 'disagree', 'disagree']);
+    expect(fit.reflectors.some((r) => spotFlags(r).range)).toBe(false);
+    expect(fit.warnings).toContain('the spots disagree in range (A, B and C beyond 3σ of what the others predict), and with 3 spots for range scale and offset leave-one-out cannot tell which is wrong: re-measure them, or add a spot at another distance');
+  });
+
+  it(`refuses a spot seen in fewer than ${MIN_REVOLUTIONS_PER_SPOT} revolutions, as the guide asks`, () => {
+    const dets = simulateRun(bench(7)).detections;
+    // Fifteen seconds of a 1 s antenna: about fifteen revolutions of each spot.
+    const err = failure(() => fitRadarOffsets(SPOTS, dets.filter((d) => d.timeS < 15)));
+    expect(hasCode(err, 'E_CALIBRATION')).toBe(true);
+    expect((err as Error).message).toMatch(/^offset fit: A was seen in 1[3-6] antenna revolutions \(the guide asks for at least 20 per spot\): record longer/);
+    expect(() => fitRadarOffsets(SPOTS, dets.filter((d) => d.timeS < 25))).not.toThrow();
+    // A spot where nothing stands, clutter passing through its gate now and then: refused too.
+    const ghost = failure(() => fitRadarOffsets([...SPOTS, { x: 0, y: 2, label: 'ghost' }], simulateRun(bench(7, { falseAlarmRateHz: 25 })).detections));
+    expect(hasCode(ghost, 'E_CALIBRATION')).toBe(true);
+    expect((ghost as Error).message).toMatch(/^offset fit: ghost was seen in \d antenna revolutions .*check the entered position; nothing was saved$/);
   });
 });

@@ -1,5 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { calibrationAnswer, frameRequest, offsetsRequest, requestDetections, spotRows, summaryRows } from '../../web/src/panels/calibration-request.ts';
+import {
+  CaptureWatch, calibrationAnswer, captureJumpNote, captureProblem, captureSpans, emptySpot, frameRequest, offsetsProblem, offsetsRequest,
+  requestDetections, spotRows, summaryRows,
+} from '../../web/src/panels/calibration-request.ts';
+import { MIN_REVOLUTIONS_PER_SPOT } from '../../bridge/calibrate/guide.ts';
 import { applyMessage } from '../../web/src/stream/reduce.ts';
 import { createState } from '../../web/src/stream/state.ts';
 
@@ -15,6 +19,20 @@ describe('calibration requests', () => {
     expect(r).toMatchObject({ action: 'offsets', fitScale: 'auto', measuredBy: 'lab tech', positions: [{ label: 'A', x: 0.5, y: 1.5, fromS: 0, toS: 10 }] });
     expect(r.detections).toHaveLength(1);
     expect(offsetsRequest([{ label: '', x: 0, y: 1 }], [], '')).not.toHaveProperty('measuredBy');
+    // An unnamed spot goes by its placeholder; cleared time inputs (null) are not sent.
+    expect(offsetsRequest([{ label: 'A', x: 1, y: 2 }, { label: ' ', x: 0, y: 1, fromS: null, toS: 12 }], [], '').positions).toEqual([{ label: 'A', x: 1, y: 2 }, { label: 'spot 2', x: 0, y: 1, toS: 12 }]);
+  });
+
+  it('refuses to fit spots whose x or y are not entered, naming them, and a capture shorter than the guide asks', () => {
+    const enough = MIN_REVOLUTIONS_PER_SPOT;
+    // A new row is empty: nothing to fit to, where the old pre-filled row fitted a spot that was not there.
+    expect(emptySpot()).toEqual({ label: '', x: null, y: null });
+    expect(offsetsProblem([emptySpot()], 900)).toBe('spot 1: enter its tape-measured x and y (metres) before fitting');
+    expect(offsetsProblem([{ label: 'door', x: 1, y: 2 }, { label: 'wall', x: 0.5, y: undefined }], 900)).toBe('wall: enter its tape-measured y (metres) before fitting');
+    expect(offsetsProblem([{ label: '', x: 0, y: 2 }, { label: '', x: Number.NaN, y: 3 }], 900)).toBe('spot 2: enter its tape-measured x (metres) before fitting');
+    expect(offsetsProblem([{ label: 'A', x: 0, y: 2 }], enough - 14)).toBe(`the capture holds 6 detections; the guide asks for at least ${enough} revolutions (or 10 s staring) per spot: capture longer`);
+    expect(offsetsProblem([{ label: 'A', x: 0, y: 2 }], enough)).toBeNull();
+    expect(offsetsProblem([], 900)).toMatch(/add a tape-measured spot/);
   });
 
   it('builds a frame request with the commanded path', () => {
@@ -66,17 +84,24 @@ describe('range scale held at 1', () => {
 });
 
 describe('per-spot residual table', () => {
-  it('shows mean ± std in mm and degrees with the minus sign, flags spots beyond their noise, skips malformed rows', () => {
+  it('shows mean ± std in mm and degrees with the minus sign, the leave-one-out figures and verdicts, skips malformed rows', () => {
     const rows = spotRows([
-      { label: 'A', trueRangeM: 1.6, detections: 48, meanRangeResidualM: -0.0123, stdRangeResidualM: 0.0041, meanAzimuthResidualDeg: 0.034, stdAzimuthResidualDeg: 0.51, rangeBeyondNoise: false, azimuthBeyondNoise: false },
-      { label: 'B', detections: 40, meanRangeResidualM: 0.0002, stdRangeResidualM: 0.004, meanAzimuthResidualDeg: -2.6, stdAzimuthResidualDeg: 0.5, rangeBeyondNoise: false, azimuthBeyondNoise: true },
+      { label: 'A', trueRangeM: 1.6, detections: 48, meanRangeResidualM: -0.0123, stdRangeResidualM: 0.0041, meanAzimuthResidualDeg: 0.034, stdAzimuthResidualDeg: 0.51,
+        deletedRangeResidualM: -0.0211, deletedRangeSdM: 0.0152, deletedAzimuthResidualDeg: 0.05, deletedAzimuthSdDeg: 0.31, rangeVerdict: 'consistent', azimuthVerdict: 'consistent', rangeBeyondNoise: false, azimuthBeyondNoise: false },
+      { label: 'B', detections: 40, meanRangeResidualM: 0.0002, stdRangeResidualM: 0.004, meanAzimuthResidualDeg: -2.6, stdAzimuthResidualDeg: 0.5,
+        deletedAzimuthResidualDeg: -3.92, deletedAzimuthSdDeg: 0.37, rangeVerdict: 'disagree', azimuthVerdict: 'inconsistent', rangeBeyondNoise: false, azimuthBeyondNoise: true },
       { label: 'C', detections: 'many' },
     ]);
     expect(rows).toEqual([
-      { label: 'A', detections: '48', range: '−12.3 ± 4.1 mm', azimuth: '+0.03 ± 0.51°', rangeFlagged: false, azimuthFlagged: false },
-      { label: 'B', detections: '40', range: '+0.2 ± 4.0 mm', azimuth: '−2.60 ± 0.50°', rangeFlagged: false, azimuthFlagged: true },
+      { label: 'A', detections: '48', range: '−12.3 ± 4.1 mm', azimuth: '+0.03 ± 0.51°', rangeVsOthers: '−21.1 ± 15.2 mm', azimuthVsOthers: '+0.05 ± 0.31°',
+        rangeFlagged: false, azimuthFlagged: false, rangeDisputed: false, azimuthDisputed: false },
+      { label: 'B', detections: '40', range: '+0.2 ± 4.0 mm', azimuth: '−2.60 ± 0.50°', rangeVsOthers: '—', azimuthVsOthers: '−3.92 ± 0.37°',
+        rangeFlagged: false, azimuthFlagged: true, rangeDisputed: true, azimuthDisputed: false },
     ]);
     expect(spotRows(undefined)).toEqual([]);
+    // A bridge without verdicts: its flags are shown as they are.
+    expect(spotRows([{ label: 'D', detections: 9, meanRangeResidualM: 0, stdRangeResidualM: 0, meanAzimuthResidualDeg: 0, stdAzimuthResidualDeg: 0, rangeBeyondNoise: true }])[0])
+      .toMatchObject({ rangeFlagged: true, rangeDisputed: false, rangeVsOthers: '—' });
   });
 });
 
@@ -94,3 +119,58 @@ describe('calibration capture in the state', () => {
     expect(s.capture.detections.map((d) => d.timeS)).toEqual([2, 2, 2, 3, 3]);
   });
 });
+
+describe('capture across a replay jump', () => {
+  const scan = (t: number, n = 3) => ({ type: 'scan' as const, timeS: t, detections: Array.from({ length: n }, (_, k) => det(t + k * 0.01)), updates: [], deletions: [], antennaAzimuthRad: null, positioner: [] });
+
+  it('stops at a loop restart and keeps the pass before it', () => {
+    const s = createState();
+    const watch = new CaptureWatch();
+    s.capture.active = true;
+    watch.start(0, s.epoch);
+    for (let k = 0; k <= 36; k++) applyMessage(s, scan(Number((0.4 + 0.5 * k).toFixed(1))));
+    expect(watch.look(s.capture.detections, s.epoch)).toBeNull();
+    const before = s.capture.detections.length;
+    // The session ends and starts over: the stream restarts the picture and goes on capturing.
+    applyMessage(s, scan(1.1));
+    applyMessage(s, scan(1.6));
+    const jump = watch.look(s.capture.detections, s.epoch)!;
+    expect(jump).toMatchObject({ index: before, toS: 1.1 });
+    expect(jump.fromS).toBeCloseTo(18.42, 9);
+    expect(captureJumpNote(jump, jump.index)).toBe(`capture stopped: the replay jumped back from 18.4 s to 1.1 s; kept the ${before} detections captured before the jump. Fit them, or Clear and capture again`);
+    s.capture.detections.length = jump.index;
+    watch.truncated(jump.index);
+    expect(captureSpans(s.capture.detections, watch.runs)).toEqual([{ fromS: 0.4, toS: jump.fromS, count: before }]);
+  });
+
+  it('stops at a seek forward (the picture restarted, then a leap), not at a quiet spell', () => {
+    const watch = new CaptureWatch();
+    const dets = [0, 0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 3.0, 3.1].map(det);
+    watch.start(0, 4);
+    // 0.6 → 3.0 s with no restart: nothing was detected for a while; the capture goes on.
+    expect(watch.look(dets, 4)).toBeNull();
+    dets.push(det(3.2), det(3.3));
+    expect(watch.look(dets, 4)).toBeNull();
+    // A seek: the snapshot restarts the picture (epoch), its scans come in the next frame.
+    expect(watch.look(dets, 5)).toBeNull();
+    dets.push(det(3.4), det(40.2), det(40.3));
+    expect(watch.look(dets, 5)).toEqual({ index: 12, fromS: 3.4, toS: 40.2 });
+  });
+
+  it('compares only within a capture run; runs over the same run time cannot be fitted', () => {
+    const watch = new CaptureWatch();
+    const dets = [10, 11, 12].map(det);
+    watch.start(0, 1);
+    expect(watch.look(dets, 1)).toBeNull();
+    // Stopped, taken back to 2 s, started again: the user's doing, not a jump.
+    watch.start(dets.length, 2);
+    dets.push(det(2), det(3));
+    expect(watch.look(dets, 2)).toBeNull();
+    const spans = captureSpans(dets, watch.runs);
+    expect(spans).toEqual([{ fromS: 10, toS: 12, count: 3 }, { fromS: 2, toS: 3, count: 2 }]);
+    expect(captureProblem(spans)).toBeNull();
+    dets.push(det(10.5));
+    expect(captureProblem(captureSpans(dets, watch.runs))).toBe('the capture holds two passes over the same run time (2.0 s – 10.5 s and 10.0 s – 12.0 s): Clear and capture one pass');
+  });
+});
+
