@@ -62,9 +62,10 @@ export interface DashboardState {
   invalidFrames: number;
   lastInvalid: string | null;
   /**
-   * Detections collected for the calibration panel while `capture.active`; kept across seeks
-   * (their times say where they came from) and capped so a request stays under the bridge's
-   * body limit.
+   * Detections collected for the calibration panel while `capture.active`, capped so a request
+   * stays under the bridge's body limit. A seek or loop does not clear them here: their times say
+   * where the replay jumped, and the panel's CaptureWatch (calibration-request.ts) cuts the
+   * capture there and stops it.
    */
   capture: { active: boolean; detections: DetectionWire[]; limit: number };
   /** Bumps when the picture restarts (snapshot, seek, jump back in time). */
