@@ -302,8 +302,12 @@ export class Pipeline extends EventEmitter {
     this.emit('source-state', s);
     if (detail) this.options.log(`source ${this.source?.name ?? ''}: ${s} (${detail})`);
     // A pause in the stream: let the tracker finish what it buffered.
-    if (this.tracker && s !== 'live' && s !== 'playing') this.applyOutput(this.runTracker((t) => t.flush()), undefined);
-    this.batch.schedule();
+    const flowing = s === 'live' || s === 'playing';
+    if (this.tracker && !flowing) this.applyOutput(this.runTracker((t) => t.flush()), undefined);
+    // Stopped (paused, ended, waiting): what is pending goes out now, before the state says so;
+    // scheduled for the next slot, it arrived after "paused" and the picture moved on a scan.
+    if (flowing) this.batch.schedule();
+    else this.batch.flush();
     this.emitMessage({ type: 'source', source: this.stats.status() });
     this.tickReplay(true);
   }

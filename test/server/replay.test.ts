@@ -75,6 +75,24 @@ describe('replay of a recorded session', () => {
     expect(bridge.pipeline.status().detectionsPerSecond).toBe(0);
   });
 
+  it('a pause sends what was pending before it says paused: no scan follows the paused state', async () => {
+    // At 50× the scan batch always holds records when the pause lands; scheduled for the next
+    // 30 Hz slot, they went out after "paused" and the picture moved on by a scan.
+    for (let round = 0; round < 5; round++) {
+      bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: true, speed: 50, log: () => undefined });
+      const c = await connect(bridge);
+      await c.next('scan', (m) => m.timeS > 0.5);
+      c.send({ type: 'control', action: 'pause' });
+      await c.next('replay', (m) => !m.replay.playing);
+      const at = c.messages.length;
+      await new Promise((r) => setTimeout(r, 150));
+      expect(c.messages.slice(at).filter((m) => m.type === 'scan')).toEqual([]);
+      await Promise.all(clients.splice(0).map((x) => x.close()));
+      await bridge.close();
+      bridge = null;
+    }
+  });
+
   it('seeks: a fresh snapshot holds the tracks, history and commanded path at the new time', async () => {
     bridge = await startBridge({ port: 0, replay: sessionFile, sessionsDir: dir, autoplay: false, log: () => undefined });
     const c = await connect(bridge);
