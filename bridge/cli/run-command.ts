@@ -7,7 +7,7 @@ import { CommanderError, InvalidArgumentError, type Command } from 'commander';
 import { readPathCsv, type TimedPoint } from '../calibrate/path.ts';
 import { readSessionRun } from '../calibrate/session-input.ts';
 import { EchotrailError } from '../errors.ts';
-import { formatSkipDetails, formatSkipReport, readDetectionsCsv } from '../ingest/detections-csv.ts';
+import { formatSkipDetails, formatSkipReport, formatWrapNote, readDetectionsCsv } from '../ingest/detections-csv.ts';
 import type { Detection } from '../types.ts';
 import { reportError } from './report-error.ts';
 
@@ -26,6 +26,8 @@ export async function readAllDetections(path: string, command: string): Promise<
   const skipped = formatSkipReport(reader.report);
   if (skipped) process.stderr.write(`echotrail ${command}: ${path}: ${skipped}\n`);
   for (const l of formatSkipDetails(reader.report)) process.stderr.write(`echotrail ${command}:   ${l}\n`);
+  const wrapped = formatWrapNote(reader.report);
+  if (wrapped) process.stderr.write(`echotrail ${command}: ${path}: ${wrapped}\n`);
   return out;
 }
 

@@ -14,7 +14,7 @@ import { parseOrExit } from './parse.ts';
 import { writeAtomically } from '../atomic-file.ts';
 import { reportError } from './report-error.ts';
 import { pathArg } from './user-dir.ts';
-import { formatSkipDetails, formatSkipReport, readDetectionsCsv, type DetectionsCsvReader } from '../ingest/detections-csv.ts';
+import { formatSkipDetails, formatSkipReport, formatWrapNote, readDetectionsCsv, type DetectionsCsvReader } from '../ingest/detections-csv.ts';
 import { readDetectionsCsvInWorker } from '../ingest/detections-csv-thread.ts';
 import { loadTrackerProfile } from '../tracking/profile.ts';
 import { describeInference, describeNoise, Tracker, type TrackerOptionsInput } from '../tracking/tracker.ts';
@@ -192,6 +192,8 @@ async function trackFile(tracker: Tracker, input: string, output: string, shownO
   const skipped = formatSkipReport(reader.report);
   if (skipped) process.stderr.write(`echotrail track: ${skipped}\n`);
   for (const l of formatSkipDetails(reader.report)) process.stderr.write(`echotrail track:   ${l}\n`);
+  const wrapped = formatWrapNote(reader.report);
+  if (wrapped) process.stderr.write(`echotrail track: ${wrapped}\n`);
   const inf = tracker.inferred();
   if (inf?.outOfOrder) process.stderr.write(`echotrail track: ${inf.outOfOrder} detection(s) ignored: time went backwards\n`);
 }

@@ -24,6 +24,8 @@ const reportSchema = z.object({
   reasons: z.array(z.tuple([z.string(), z.number().int().nonnegative()])),
   skippedLines: z.array(z.object({ line: z.number().int().nonnegative(), reason: z.string() })),
   lastSkipped: z.object({ line: z.number().int().nonnegative(), reason: z.string() }).nullable(),
+  azimuthWrapped: z.number().int().nonnegative(),
+  firstWrappedLine: z.number().int().positive().nullable(),
 });
 
 const fromWorker: z.ZodType<DetectionsWorkerMessage> = z.discriminatedUnion('type', [
@@ -42,6 +44,8 @@ function applyReport(to: SkipReport, from: PlainSkipReport): void {
   to.reasons = new Map(from.reasons);
   to.skippedLines.splice(0, to.skippedLines.length, ...from.skippedLines);
   to.lastSkipped = from.lastSkipped;
+  to.azimuthWrapped = from.azimuthWrapped;
+  to.firstWrappedLine = from.firstWrappedLine;
 }
 
 /** The worker's error as the in-thread reader would have thrown it. */

@@ -42,6 +42,13 @@ export interface SkipReport {
   skippedLines: { line: number; reason: string }[];
   /** The skipped row latest in the file so far (a replay shows it as the last bad line). */
   lastSkipped: { line: number; reason: string } | null;
+  /**
+   * Rows kept whose azimuth lay outside [0, 360)° and was wrapped into it (−30 → 330, 400 → 40):
+   * a valid angle, so the row is not lost, but files should hold [0, 360) (docs/conventions.md),
+   * so it is said; and the first such line.
+   */
+  azimuthWrapped: number;
+  firstWrappedLine: number | null;
 }
 
 /** Skipped rows listed one per line after the summary line; the rest are counted. */
@@ -146,7 +153,7 @@ function num(cell: string | undefined): number {
 /** A report of nothing read yet. */
 export function newSkipReport(): SkipReport {
   return {
-    rows: 0, accepted: 0, skipped: 0, reasons: new Map(), skippedLines: [], lastSkipped: null,
+    rows: 0, accepted: 0, skipped: 0, reasons: new Map(), skippedLines: [], lastSkipped: null, azimuthWrapped: 0, firstWrappedLine: null,
     get firstSkipped() {
       return this.skippedLines[0] ?? null;
     },
@@ -273,6 +280,10 @@ export function readDetectionsCsv(input: string | NodeJS.ReadableStream, options
       else if (r < 0 || r > opts.maxRangeM) skip(line, 'range out of bounds', `range_m ${r} is outside 0–${opts.maxRangeM} m`);
       else if (a <= 0) skip(line, 'amplitude not positive', `amplitude ${a} is not positive`);
       else {
+        if (az < 0 || az >= 360) {
+          report.azimuthWrapped++;
+          report.firstWrappedLine ??= line;
+        }
         let rad = (((az % 360) + 360) % 360) * DEG;
         if (rad >= TWO_PI) rad = 0; // rounding of a tiny negative angle
         order({ timeS: t, azimuthRad: rad, rangeM: r, amplitude: a, line }, out);
@@ -330,6 +341,13 @@ export function delimiterHint(header: string[]): string {
     if (names.length > 1 && REQUIRED.some((n) => names.includes(n))) return `; the header looks separated by ${what}: the file must be comma-separated (with '.' as the decimal point)`;
   }
   return '';
+}
+
+/** `N rows had azimuth_deg outside [0, 360): wrapped into it (first at line L)`, or ''. */
+export function formatWrapNote(report: SkipReport): string {
+  const n = report.azimuthWrapped;
+  if (n === 0) return '';
+  return `${n} row${n === 1 ? '' : 's'} had azimuth_deg outside [0, 360) and ${n === 1 ? 'was' : 'were'} wrapped into it (first at line ${report.firstWrappedLine}); the rows were kept`;
 }
 
 /** `N rows skipped: first at line L: reason`, or '' when nothing was skipped. */

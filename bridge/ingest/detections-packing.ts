@@ -26,6 +26,8 @@ export interface PlainSkipReport {
   reasons: [string, number][];
   skippedLines: { line: number; reason: string }[];
   lastSkipped: { line: number; reason: string } | null;
+  azimuthWrapped: number;
+  firstWrappedLine: number | null;
 }
 
 /** Worker → reader. */
@@ -62,7 +64,7 @@ export function isMoreMessage(m: unknown): m is MoreMessage {
 
 /** The report's plain parts (for postMessage). */
 export function plainReport(r: SkipReport): PlainSkipReport {
-  return { rows: r.rows, accepted: r.accepted, skipped: r.skipped, reasons: [...r.reasons], skippedLines: r.skippedLines, lastSkipped: r.lastSkipped };
+  return { rows: r.rows, accepted: r.accepted, skipped: r.skipped, reasons: [...r.reasons], skippedLines: r.skippedLines, lastSkipped: r.lastSkipped, azimuthWrapped: r.azimuthWrapped, firstWrappedLine: r.firstWrappedLine };
 }
 
 /** Packs detections for the crossing. */

@@ -23,6 +23,7 @@ beforeAll(() => {
   lines[30001] = '1e9,1,1,1'; // a time far ahead of the rows around it
   lines[45000] = '"broken,1,2';
   lines[59990] = '12,1,2,3'; // time going backwards
+  lines[50000] = `${(49999 * 0.001).toFixed(4)},-30,2,5`; // azimuth outside [0, 360): kept, wrapped, counted
   big = join(dir, 'big.csv');
   writeFileSync(big, lines.join('\n') + '\n');
 });
@@ -63,6 +64,11 @@ describe('readDetectionsCsvInWorker', () => {
     expect(there.report.skippedLines).toEqual(here.report.skippedLines);
     expect([...there.report.reasons]).toEqual([...here.report.reasons]);
     expect(there.report.skippedLines.map((s) => s.line)).toEqual([12, 30002, 45001, 59991]);
+    expect(there.report.lastSkipped).toEqual(here.report.lastSkipped);
+    expect(there.report.lastSkipped?.line).toBe(59991);
+    expect(there.report.azimuthWrapped).toBe(1);
+    expect(there.report.firstWrappedLine).toBe(50001);
+    expect(here.report.firstWrappedLine).toBe(50001);
   });
 
   it('passes the reader options on', async () => {

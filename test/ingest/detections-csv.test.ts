@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PassThrough, Readable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
-import { delimiterHint, formatSkipDetails, formatSkipReport, readDetectionsCsv, writeDetectionsCsv } from '../../bridge/ingest/detections-csv.ts';
+import { delimiterHint, formatSkipDetails, formatSkipReport, formatWrapNote, readDetectionsCsv, writeDetectionsCsv } from '../../bridge/ingest/detections-csv.ts';
 import { hasCode } from '../../bridge/errors.ts';
 import { createRng } from '../../bridge/sim/prng.ts';
 import type { Detection } from '../../bridge/types.ts';
@@ -75,6 +75,16 @@ describe('readDetectionsCsv', () => {
     expect(r2.firstSkipped?.reason).toBe("the row has 3 fields where the header's columns need 4");
     expect(Object.fromEntries(r2.reasons)).toEqual({ 'short row': 1, 'bad time_s': 1 });
     expect(r2.skipped).toBe(2);
+  });
+
+  it('keeps a row whose azimuth lies outside [0, 360), wrapped into it, and says so', async () => {
+    const { rows, report } = await readAll('time_s,azimuth_deg,range_m,amplitude\n0,10,2,5\n0.1,-30,2,5\n0.2,400,2,5\n0.3,359.5,2,5\n');
+    expect(rows.map((r) => Math.round((r.azimuthRad * 180) / Math.PI * 10) / 10)).toEqual([10, 330, 40, 359.5]);
+    expect(report.skipped).toBe(0);
+    expect(report.azimuthWrapped).toBe(2);
+    expect(report.firstWrappedLine).toBe(3);
+    expect(formatWrapNote(report)).toBe('2 rows had azimuth_deg outside [0, 360) and were wrapped into it (first at line 3); the rows were kept');
+    expect(formatWrapNote((await readAll('time_s,azimuth_deg,range_m,amplitude\n0,10,2,5\n')).report)).toBe('');
   });
 
   it('one far-future timestamp is skipped, not every row after it', async () => {
