@@ -56,7 +56,8 @@ function offsetsCommand(): Command {
     .option('--reflectors <file.json>', 'or a JSON array of positions: [{ "x": 0.5, "y": 1.5, "label": "A", "fromS": 0, "toS": 60 }, …] (metres, seconds)', pathArg)
     .option('--fit-scale <mode>', 'auto (when distances span ≥ 0.5 m), yes or no', 'auto')
     .option('--gate-range <m>', 'first range gate around each position, metres', numberArg, 0.5)
-    .option('--gate-azimuth <deg>', 'first azimuth gate around each position, degrees', numberArg, 10);
+    .option('--gate-azimuth <deg>', 'first azimuth gate around each position, degrees', numberArg, 10)
+    .option('--save-flagged', 'save the fit even when a spot is flagged ⚠ as disagreeing with the others (by default it is printed but not saved: re-measure that spot, or leave it out)');
 }
 
 function frameCommand(): Command {
@@ -100,6 +101,12 @@ async function offsets(o: Record<string, unknown>): Promise<number> {
   for (const w of fit.warnings) process.stderr.write(`echotrail calibrate offsets: warning: ${w}\n`);
   process.stdout.write(`tracker corrections (added to measurements): rangeOffsetM ${(-fit.rangeOffsetM).toFixed(4)}, azimuthOffsetDeg ${(-fit.azimuthOffsetRad / DEG).toFixed(3)}${fit.scaleFitted ? ' (the tracker has no range scale)' : ''}\n`);
   if (o.dryRun) return 0;
+  // A spot named as taped wrong pulls the whole fit: saving it by default would put a wrong range
+  // offset and scale on the bench with exit 0 (a review measured 8 cm and 3 % off from one spot).
+  const flagged = fit.reflectors.filter((r) => { const f = spotFlags(r); return f.range || f.azimuth; }).map((r) => r.label);
+  if (flagged.length && !o.saveFlagged) {
+    throw new EchotrailError('E_CALIBRATION', `not saved: spot${flagged.length > 1 ? 's' : ''} ${flagged.join(', ')} disagree${flagged.length > 1 ? '' : 's'} with the others (⚠ above); re-measure ${flagged.length > 1 ? 'them' : 'it'} or leave ${flagged.length > 1 ? 'them' : 'it'} out and fit again, or give --save-flagged to save this fit anyway`);
+  }
   const now = new Date().toISOString();
   const next = withCalibration(config, { radar: { ...config.radar, rangeOffsetM: fit.rangeOffsetM, rangeScale: fit.rangeScale, azimuthOffsetDeg: fit.azimuthOffsetRad / DEG } }, offsetsRecord(fit, o.by as string, now, positions.length));
   await saveBenchConfig(o.calibration as string, next);

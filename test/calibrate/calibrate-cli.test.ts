@@ -38,6 +38,23 @@ describe('echotrail calibrate', () => {
     expect(await calibrate(['frame', '--tracks', join(dir, 'tracks.csv'), '--commanded', join(dir, 'c.csv'), '--track-id', '5', '--calibration', config])).toBe(1);
   });
 
+  it('does not save a fit with a spot flagged as taped wrong, unless told to', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'echotrail-calcli-'));
+    const config = join(dir, 'calibration.json');
+    expect(await simulate(['--scenario', 'tape-points', '--out', join(dir, 'tape.csv')])).toBe(0);
+    // The three stands plus the feed cable joint (0.1, 0.6) as a fourth spot; B entered 0.2 m off
+    // across the beam (true −1.0, 3.0): leave-one-out names it, and the fit it pulls is not saved.
+    const spots = ['--reflector', '0.5,1.5,A', '--reflector', '-0.8,3.0,B', '--reflector', '1.2,4.8,C', '--reflector', '0.1,0.6,D'];
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), ...spots, '--calibration', config])).toBe(1);
+    await expect(stat(config)).rejects.toThrow();
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), ...spots, '--calibration', config, '--save-flagged'])).toBe(0);
+    expect((await loadBenchConfig(config)).history).toHaveLength(1);
+    // With B where it really stands, nothing is flagged and the fit is saved.
+    const right = spots.map((a) => (a === '-0.8,3.0,B' ? '-1.0,3.0,B' : a));
+    expect(await calibrate(['offsets', '--detections', join(dir, 'tape.csv'), ...right, '--calibration', config])).toBe(0);
+    expect((await loadBenchConfig(config)).history).toHaveLength(2);
+  });
+
   it('a failed fit saves nothing and exits 1; bad usage exits 2', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'echotrail-calcli-'));
     const config = join(dir, 'calibration.json');
