@@ -157,6 +157,19 @@ describe('capture across a replay jump', () => {
     expect(watch.look(dets, 5)).toEqual({ index: 12, fromS: 3.4, toS: 40.2 });
   });
 
+  it('stops at a step back of one revolution, where the replay starts again on the detection captured last', () => {
+    // One reflector, 1 s antenna: one detection a revolution. Stepping back one revolution from
+    // 5.0 s replays the 4.3 s detection again: the same time, not a step back beyond the tolerance.
+    const watch = new CaptureWatch();
+    const dets = [0.3, 1.3, 2.3, 3.3, 4.3].map(det);
+    watch.start(0, 1);
+    expect(watch.look(dets, 1)).toBeNull();
+    dets.push(det(4.3), det(5.3));
+    const jump = watch.look(dets, 2)!;
+    expect(jump).toEqual({ index: 5, fromS: 4.3, toS: 4.3 });
+    expect(captureJumpNote(jump, 5)).toMatch(/^capture stopped: the replay jumped back from 4\.3 s to 4\.3 s/);
+  });
+
   it('compares only within a capture run; runs over the same run time cannot be fitted', () => {
     const watch = new CaptureWatch();
     const dets = [10, 11, 12].map(det);

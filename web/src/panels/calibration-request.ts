@@ -306,7 +306,9 @@ export class CaptureWatch {
     let jump: CaptureJump | null = null;
     for (let i = from; i < dets.length && !jump; i++) {
       const step = dets[i].timeS - dets[i - 1].timeS;
-      if (step < -CAPTURE_BACK_TOLERANCE_S || (this.restartPending && step > forwardS)) jump = { index: i, fromS: dets[i - 1].timeS, toS: dets[i].timeS };
+      // After a restart, any step that is not forward is a jump back: stepping back one revolution
+      // replays the very detection captured last (same time), which the tolerance let through.
+      if (step < -CAPTURE_BACK_TOLERANCE_S || (this.restartPending && (step > forwardS || step <= 0))) jump = { index: i, fromS: dets[i - 1].timeS, toS: dets[i].timeS };
     }
     this.restartPending = false;
     this.looked = jump ? jump.index : dets.length;
@@ -319,7 +321,7 @@ export class CaptureWatch {
  * kept (see CalibrationPanel.svelte for why); the note says so and how to start over.
  */
 export function captureJumpNote(j: CaptureJump, kept: number): string {
-  const how = j.toS < j.fromS ? 'back' : 'forward';
+  const how = j.toS <= j.fromS ? 'back' : 'forward';
   return `capture stopped: the replay jumped ${how} from ${formatDuration(j.fromS)} to ${formatDuration(j.toS)}; kept the ${kept} detection${kept === 1 ? '' : 's'} captured before the jump. Fit them, or Clear and capture again`;
 }
 
