@@ -160,8 +160,8 @@ export function offsetWarnings(reflectors: readonly ReflectorResidual[], scaleFi
   const out: string[] = [];
   for (const r of reflectors) {
     const flags = spotFlags(r);
-    if (flags.range && r.deletedRangeResidualM !== null && r.deletedRangeSdM !== null) out.push(`spot ${r.label}: range ${mm(r.deletedRangeResidualM)} off what the other spots predict (±${mm(3 * r.deletedRangeSdM)} expected): check its tape-measured position and label; the offsets above include it`);
-    if (flags.azimuth && r.deletedAzimuthResidualRad !== null && r.deletedAzimuthSdRad !== null) out.push(`spot ${r.label}: azimuth ${degrees(r.deletedAzimuthResidualRad)} off what the other spots predict (±${degrees(3 * r.deletedAzimuthSdRad)} expected): check its tape-measured position and label; the offsets above include it`);
+    if (flags.range && r.deletedRangeResidualM !== null && r.deletedRangeSdM !== null) out.push(`spot ${r.label}: range ${mm(r.deletedRangeResidualM)} off what the other spots predict (3σ bound ±${mm(3 * r.deletedRangeSdM)}; σ ${mm(r.deletedRangeSdM)} as in the table): check its tape-measured position and label; the offsets above include it`);
+    if (flags.azimuth && r.deletedAzimuthResidualRad !== null && r.deletedAzimuthSdRad !== null) out.push(`spot ${r.label}: azimuth ${degrees(r.deletedAzimuthResidualRad)} off what the other spots predict (3σ bound ±${degrees(3 * r.deletedAzimuthSdRad)}; σ ${degrees(r.deletedAzimuthSdRad)} as in the table): check its tape-measured position and label; the offsets above include it`);
   }
   if (checks) {
     const range = disagreement('range', checks.range, reflectors, scaleFitted ? 2 : 1);
