@@ -12,7 +12,7 @@ import { MIN_REVOLUTIONS_PER_SPOT, MIN_STARING_S_PER_SPOT } from './guide.ts';
 const DEG = Math.PI / 180;
 
 export const GUIDE_STEPS: string[] = [
-  'Offsets: stand a corner reflector at a spot you can tape-measure from the antenna (x across, y along boresight, metres); two or three spots at different distances also give the range scale.',
+  'Offsets: stand a corner reflector at a spot you can tape-measure from the antenna (x across, y along boresight, metres); two or three spots at different distances also give the range scale, and four or more at three or more distances let the fit name a spot taped wrong.',
   `Record at least ${MIN_REVOLUTIONS_PER_SPOT} revolutions (or ${MIN_STARING_S_PER_SPOT} s staring) per spot, keeping people and tools out of the beam; the fit refuses less.`,
   'Enter each spot and, if the reflector was moved within one recording, the time span it stood there; fit, check the residuals, accept.',
   'Frame: run a 2-D path (circle, figure-eight, waypoints) on the positioner with the offsets applied and fit the positioner frame from the run and its commanded path.',
