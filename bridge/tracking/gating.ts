@@ -2,7 +2,7 @@
  * Gating of one batch: every detection against the tracks the gate index finds near it and against the
  * fixed-echo map, producing the candidate pairs for the two assignment passes.
  */
-import type { Measurement } from '../types.ts';
+import type { Detection, Measurement } from '../types.ts';
 import type { GatedPair } from './assignment.ts';
 import type { EchoLookup, FixedEchoMap } from './fixed-echo-map.ts';
 import type { GateIndex } from './gate-index.ts';
@@ -47,7 +47,8 @@ export const MANOEUVRE_AMPLITUDE_FLOOR = 0.2;
  *   position variance of a coasting IMM's manoeuvre model grows as the fourth power of the time
  *   since its last hit, its gate to tens of metres after a few missed scans, which no positioner
  *   covers.
- * @param amplitudes each detection's amplitude, for the manoeuvre gate's amplitude floor
+ * @param detections the detections `ms` were converted from (same order), whose amplitudes the
+ *   manoeuvre gate's amplitude floor reads
  *   (MANOEUVRE_AMPLITUDE_FLOOR); null = no floor
  */
 export function gateBatch(
@@ -57,7 +58,7 @@ export function gateBatch(
   gamma: number,
   minGapS = 0,
   maxSpeedMps = Infinity,
-  amplitudes: ArrayLike<number> | null = null,
+  detections: readonly Pick<Detection, 'amplitude'>[] | null = null,
 ): BatchGates {
   const g: BatchGates = {
     established: [],
@@ -87,7 +88,7 @@ export function gateBatch(
       if (cost > echoCost) continue;
       const tentative = t.status === 'tentative';
       const unlikely = !((d2Likely ?? d2) < gamma);
-      if (unlikely && !tentative && amplitudes && tooFaintToManoeuvre(t, amplitudes[j])) continue;
+      if (unlikely && !tentative && detections && tooFaintToManoeuvre(t, detections[j].amplitude)) continue;
       (tentative ? g.tentative : g.established).push({ track: id, det: j, cost, unlikely });
       g.missCost.set(id, Math.max(g.missCost.get(id) ?? -Infinity, gamma + logDetS));
       // Only a detection the track really expects (under its likely model) is kept from seeding:

@@ -256,8 +256,7 @@ export class Tracker implements TrackEngine {
     let latest = -Infinity;
     for (const m of ms) if (m.timeS > latest) latest = m.timeS;
     this.index.refresh(latest, this.live);
-    const amplitudes = dets.map((d) => d.amplitude);
-    const gates = this.parts.gate(ms, this.index, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps, amplitudes);
+    const gates = this.parts.gate(ms, this.index, learn ? this.echoes : null, gamma, this.minGapS, o.initiation.maxSpeedMps, dets);
     let { established, tentative } = gates;
     const { missCost, echo: cand, nearEstablished: nearConfirmed } = gates;
     const now = dets[dets.length - 1].timeS;

@@ -28,7 +28,7 @@ function steadyTrack(amplitudes: (k: number) => number): Track {
 /** The pairs one detection at (x, y) with `amplitude` makes with the track. */
 function pairsFor(t: Track, x: number, y: number, amplitude: number) {
   const m = meas(6.5, x, y);
-  return gateBatch([m], { query: () => [t] }, null, GAMMA, 0, Infinity, [amplitude]).established;
+  return gateBatch([m], { query: () => [t] }, null, GAMMA, 0, Infinity, [{ amplitude }]).established;
 }
 
 /** The first offset across the track at which only the manoeuvre model still gates a detection. */
@@ -76,7 +76,7 @@ describe('gating one batch', () => {
     const o = resolveTrackerOptions({});
     const m0 = meas(0, 0, 3);
     const t = new Track(2, createFilter(m0, o.filter, 0.75, 0.5), m0, det(0, 60), o.initiation);
-    const g = gateBatch([meas(0.5, 0.3, 3.1)], { query: () => [t] }, null, GAMMA, 0, Infinity, [1]);
+    const g = gateBatch([meas(0.5, 0.3, 3.1)], { query: () => [t] }, null, GAMMA, 0, Infinity, [{ amplitude: 1 }]);
     expect(g.tentative).toHaveLength(1);
   });
 });
