@@ -22,7 +22,7 @@ import { Tracker } from '../tracking/tracker.ts';
 import { gateThreshold } from '../tracking/gate.ts';
 import { mahalanobis2 } from '../tracking/filter-types.ts';
 import { createFilter, resolveFilterOptions, type FilterOptions } from '../tracking/filter.ts';
-import { resolveMeasurementOptions, toMeasurement } from '../tracking/measurement.ts';
+import { resolveMeasurementOptions, toMeasurement, type MeasurementOptions } from '../tracking/measurement.ts';
 import quantile from '@stdlib/stats-base-dists-chisquare-quantile';
 import { correctDetection, type BenchConfig } from './bench-config.ts';
 import { median, robustSigma } from './linalg.ts';
@@ -145,9 +145,9 @@ function fixedEchoesOf(detections: readonly Detection[], config: BenchConfig): {
 }
 
 /** True when the (corrected) detection falls in a fixed echo's 99 % gate (R of both, from `noise`). */
-function onFixedEcho(d: Detection, echoes: readonly FixedEcho[], noise: { sigmaRangeM: number; sigmaAzimuthRad: number }, gamma: number): boolean {
+function onFixedEcho(d: Detection, echoes: readonly FixedEcho[], noise: MeasurementOptions, gamma: number): boolean {
   if (!echoes.length) return false;
-  const m = toMeasurement(d, resolveMeasurementOptions(noise));
+  const m = toMeasurement(d, noise);
   return echoes.some((e) => mahalanobis2(m.x - e.x, m.y - e.y, 2 * m.rxx, 2 * m.rxy, 2 * m.ryy) < gamma);
 }
 
@@ -162,7 +162,8 @@ export function tuneNoise(detections: Iterable<Detection>, commanded: TimedPoint
     fixedEchoes = learned.echoes.length;
     const gamma = gateThreshold(0.99, 2);
     const before = assoc.length;
-    assoc = assoc.filter((a) => !onFixedEcho(a.d, learned.echoes, learned, gamma));
+    const noise = resolveMeasurementOptions(learned);
+    assoc = assoc.filter((a) => !onFixedEcho(a.d, learned.echoes, noise, gamma));
     onFixedEchoes = before - assoc.length;
   }
   if (assoc.length >= 8) {
