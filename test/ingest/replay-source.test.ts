@@ -33,6 +33,20 @@ function harness(path: string, opts: Partial<ConstructorParameters<typeof Replay
   return { clock, src, log, bad, records };
 }
 
+/** A replay of `path` played at 50× until it ended (the harness's clock moved on 2 s). */
+async function playedToTheEnd(path: string): Promise<ReturnType<typeof harness>> {
+  const h = harness(path, { speed: 50 });
+  await h.src.start();
+  h.clock.advance(2000);
+  expect(h.log.at(-1)).toEqual({ ev: 'state', state: 'ended' });
+  return h;
+}
+
+/** The state the source last announced. */
+function lastState(h: ReturnType<typeof harness>): SourceState | undefined {
+  return h.log.filter((l) => l.ev === 'state').at(-1)?.state;
+}
+
 describe('ReplaySource over a session', () => {
   it('releases the recorded records in order, in real time', async () => {
     const h = harness(syn.path);
@@ -149,12 +163,9 @@ describe('ReplaySource over a session', () => {
     expect(h.log.filter((l) => l.ev === 'seeked').length).toBe(seeks);
     await h.src.close();
 
-    const e = harness(syn.path, { speed: 50 });
-    await e.src.start();
-    e.clock.advance(2000);
-    expect(e.log.at(-1)).toEqual({ ev: 'state', state: 'ended' });
+    const e = await playedToTheEnd(syn.path);
     e.src.stepBack(1);
-    expect(e.log.filter((l) => l.ev === 'state').at(-1)).toEqual({ ev: 'state', state: 'paused' });
+    expect(lastState(e)).toBe('paused');
     expect(e.src.state()).toMatchObject({ positionS: 59, playing: false });
     // No longer ended: a step forward goes on from there instead of doing nothing.
     e.src.step(0.5);
@@ -210,12 +221,9 @@ describe('ReplaySource over a session', () => {
   });
 
   it('a seek back from the end leaves the replay paused there, no longer ended', async () => {
-    const h = harness(syn.path, { speed: 50 });
-    await h.src.start();
-    h.clock.advance(2000);
-    expect(h.log.at(-1)).toEqual({ ev: 'state', state: 'ended' });
+    const h = await playedToTheEnd(syn.path);
     h.src.seek(20);
-    expect(h.log.filter((l) => l.ev === 'state').at(-1)).toEqual({ ev: 'state', state: 'paused' });
+    expect(lastState(h)).toBe('paused');
     expect(h.src.state()).toMatchObject({ playing: false, positionS: 20 });
     await h.src.close();
   });

@@ -58,6 +58,16 @@ afterEach(async () => {
   bridge = null;
 });
 
+/** The live comparison's figures after playing `records` through to `timeS`, as a fresh bridge would. */
+function figuresPlayedTo(records: readonly SourceRecord[], timeS: number) {
+  const through = createLiveComparison(() => undefined);
+  for (const r of records) {
+    if (r.kind === 'commanded') through.commanded(r.path, r.target);
+    if (r.kind === 'track' && r.update.timeS <= timeS) through.update(r.update);
+  }
+  return through.figures();
+}
+
 async function connect(b: RunningBridge): Promise<TestClient> {
   const c = await TestClient.connect(b.wsUrl);
   clients.push(c);
@@ -153,12 +163,7 @@ describe('replay of a recorded session', () => {
     expect(snap.replay?.playing).toBe(false);
     expect(snap.tracks[0].timeS).toBeCloseTo(6.5, 6);
     // The figures are those of the run played through to 6.5 s, as after any seek.
-    const through = createLiveComparison(() => undefined);
-    for (const r of records) {
-      if (r.kind === 'commanded') through.commanded(r.path, r.target);
-      if (r.kind === 'track' && r.update.timeS <= 6.5) through.update(r.update);
-    }
-    const [expected] = through.figures();
+    const [expected] = figuresPlayedTo(records, 6.5);
     expect(expected.rmseM).toBeGreaterThan(0.1);
     expect(snap.comparisonHistory?.[0].points.at(-1)).toBeCloseTo(expected.rmseM!, 9);
     const m = await c.next('comparison', (x) => x.figures.samples > 0, c.messages.indexOf(snap));
@@ -211,12 +216,7 @@ describe('replay of a recorded session', () => {
     ];
     const file = recordSession('offset', '2026-01-01T12:30:00Z', records);
     // What playing the run through to 25 s gives: the whole run's figures, the offset included.
-    const through = createLiveComparison(() => undefined);
-    for (const r of records) {
-      if (r.kind === 'commanded') through.commanded(r.path, r.target);
-      if (r.kind === 'track' && r.update.timeS <= 25) through.update(r.update);
-    }
-    const [expected] = through.figures();
+    const [expected] = figuresPlayedTo(records, 25);
     expect(expected.rmseM).toBeGreaterThan(0.1);
 
     bridge = await startBridge({ port: 0, replay: file, sessionsDir: dir, autoplay: false, log: () => undefined });
